@@ -1,0 +1,38 @@
+"""axialfe: axially loaded members by the direct stiffness method.
+
+Modules, one job each (anything not in ``axialfe.__all__`` is internal):
+
+- ``model``: the input concepts, frozen dataclasses in SI floats that check themselves;
+- ``units``: the only module that imports pint; strings with units in, SI floats out;
+- ``modelfile``: the TOML reader, with located, one-line errors;
+- ``loading``: load states of cases and combinations as arrays;
+- ``assemble``: element stiffness, equivalent loads and the sparse global matrix;
+- ``solve``: factorisation, the gap search and recovery of forces and reactions;
+- ``results``: frozen result objects with named arrays and look-ups;
+- ``output``: tables, JSON, CSV and Markdown for the terminal and files;
+- ``cli``: the thin typer command line;
+- ``errors``: the exception family.
+"""
+
+from importlib.metadata import PackageNotFoundError, version
+
+from .errors import AxialfeError, ModelError, SolveError, UnitError
+from .model import (Case, Combination, Gap, Load, Material, Model, Section, Segment, Station,
+                    Support)
+from .modelfile import builtin_materials, parse_model, read_model
+from .results import CaseResult, Solution
+from .solve import System, solve
+
+try:
+    __version__ = version("axialfe")
+except PackageNotFoundError:  # pragma: no cover - running from a source tree
+    __version__ = "0.0.0"
+
+__all__ = [
+    "AxialfeError", "ModelError", "SolveError", "UnitError",
+    "Material", "Section", "Station", "Segment", "Support", "Load", "Gap", "Case",
+    "Combination", "Model",
+    "read_model", "parse_model", "builtin_materials",
+    "System", "solve", "Solution", "CaseResult",
+    "__version__",
+]

@@ -1,0 +1,5 @@
+"""Run the command line as ``python -m axialfe``."""
+
+from .cli import main
+
+main()

@@ -1,0 +1,528 @@
+"""The input concepts: immutable, self-checking descriptions of an axial model.
+
+Every value is a float in SI base units (m, N, Pa, K, kg); units are applied by
+the file reader (:mod:`axialfe.modelfile`) or by whoever builds a model in code.
+Objects check themselves in ``__post_init__``, so an invalid one cannot exist.
+Names refer to stations, cases and segments; the model checks that every name
+refers to something.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from types import MappingProxyType
+
+from .errors import ModelError, suggest
+from .units import OutputUnits
+
+__all__ = [
+    "Material", "Section", "Station", "Segment", "Support", "Load", "Gap",
+    "Case", "Combination", "Model", "BASE_CASE",
+]
+
+BASE_CASE = "base"
+SHAPES = ("round", "tube", "rectangle", "area")
+SUPPORT_KINDS = ("fixed", "spring", "settlement")
+GAP_KINDS = ("contact", "slack")
+
+
+def _positive(value, what, place):
+    if value is None or not isinstance(value, (int, float)):
+        return
+    if not (value > 0 and math.isfinite(value)):
+        raise ModelError(f"{what} must be positive: got {value:g}", place=place)
+
+
+def _finite(value, what, place):
+    if isinstance(value, (int, float)) and not math.isfinite(value):
+        raise ModelError(f"{what} must be a finite number: got {value}", place=place)
+
+
+@dataclass(frozen=True)
+class Material:
+    """A linear-elastic material.
+
+    Parameters
+    ----------
+    name : str
+    elastic_modulus : float
+        Young's modulus E in Pa.
+    thermal_expansion : float
+        Linear coefficient alpha in 1/K.
+    yield_strength : float, optional
+        In Pa; enables strength checks and yield events.
+    density : float, optional
+        In kg/m^3; needed for self-weight.
+    source : str, optional
+        Where the values come from.
+    """
+
+    name: str
+    elastic_modulus: float
+    thermal_expansion: float = 0.0
+    yield_strength: float | None = None
+    density: float | None = None
+    source: str | None = None
+
+    def __post_init__(self):
+        place = f"materials.{self.name}"
+        _positive(self.elastic_modulus, "elastic_modulus", place)
+        _finite(self.thermal_expansion, "thermal_expansion", place)
+        _positive(self.yield_strength, "yield_strength", place)
+        _positive(self.density, "density", place)
+
+
+@dataclass(frozen=True)
+class Section:
+    """A cross-section.
+
+    Parameters
+    ----------
+    name : str
+    shape : {'round', 'tube', 'rectangle', 'area'}
+    dimensions : tuple of (str, float)
+        The defining sizes in m: ``diameter``; ``outer_diameter`` and
+        ``inner_diameter``; ``width`` and ``height``; or ``area`` (m^2) with an
+        optional ``second_moment`` (m^4).
+    """
+
+    name: str
+    shape: str
+    dimensions: tuple[tuple[str, float], ...]
+
+    def __post_init__(self):
+        place = f"sections.{self.name}"
+        if self.shape not in SHAPES:
+            raise ModelError(f"unknown shape '{self.shape}'", place=place,
+                             hint=suggest(self.shape, SHAPES), options=SHAPES)
+        object.__setattr__(self, "dimensions", tuple(self.dimensions))
+        need = {"round": ("diameter",), "tube": ("outer_diameter", "inner_diameter"),
+                "rectangle": ("width", "height"), "area": ("area",)}[self.shape]
+        dims = dict(self.dimensions)
+        for key in need:
+            if key not in dims:
+                raise ModelError(f"a {self.shape} section needs '{key}'", place=place)
+        for key, value in self.dimensions:
+            if key == "inner_diameter":
+                if isinstance(value, (int, float)) and not (value >= 0 and math.isfinite(value)):
+                    raise ModelError(f"inner_diameter must not be negative: got {value:g}", place=place)
+            else:
+                _positive(value, key, place)
+        if self.shape == "tube":
+            do, di = dims["outer_diameter"], dims["inner_diameter"]
+            if isinstance(do, float) and isinstance(di, float) and di >= do:
+                raise ModelError("the inner diameter must be smaller than the outer diameter:"
+                                 f" got {di * 1e3:g} mm inside {do * 1e3:g} mm", place=place)
+
+    def dim(self, key, default=None):
+        return dict(self.dimensions).get(key, default)
+
+    @property
+    def factors(self):
+        """Return (c, p, q) with A = c*p*q; for a taper p and q vary linearly.
+
+        For a round bar p = q = d and c = pi/4; for a tube p = D - d, q = D + d;
+        for a rectangle p, q = width, height; for a plain area p = A, q = 1.
+        """
+        d = dict(self.dimensions)
+        if self.shape == "round":
+            return math.pi / 4, d["diameter"], d["diameter"]
+        if self.shape == "tube":
+            do, di = d["outer_diameter"], d["inner_diameter"]
+            return math.pi / 4, do - di, do + di
+        if self.shape == "rectangle":
+            return 1.0, d["width"], d["height"]
+        return 1.0, d["area"], 1.0
+
+    @property
+    def area(self) -> float:
+        c, p, q = self.factors
+        return c * p * q
+
+    @property
+    def second_moment(self) -> float | None:
+        """The smaller principal second moment of area in m^4, None when unknown."""
+        d = dict(self.dimensions)
+        if self.shape == "round":
+            return math.pi * d["diameter"] ** 4 / 64
+        if self.shape == "tube":
+            return math.pi * (d["outer_diameter"] ** 4 - d["inner_diameter"] ** 4) / 64
+        if self.shape == "rectangle":
+            w, h = d["width"], d["height"]
+            return min(w * h**3, h * w**3) / 12
+        return d.get("second_moment")
+
+
+@dataclass(frozen=True)
+class Station:
+    """A named plane across the axis at position ``x`` (m)."""
+
+    name: str
+    x: float
+
+    def __post_init__(self):
+        _finite(self.x, "position", f"stations.{self.name}")
+
+
+@dataclass(frozen=True)
+class Segment:
+    """A two-node bar element between stations ``start`` and ``end``.
+
+    Parameters
+    ----------
+    name : str
+    start, end : str
+        Station names (the file's ``from`` and ``to``).
+    material : Material
+    section : Section
+        The section at ``start``.
+    end_section : Section, optional
+        The section at ``end`` for a taper (same shape as ``section``).
+    temperature_change : float, optional
+        The segment's own temperature change in K (None: the model default).
+    misfit : float
+        Length made minus distance between the stations, in m.
+    distributed_load : float
+        Uniform axial load in N/m, positive toward +x.
+    """
+
+    name: str
+    start: str
+    end: str
+    material: Material
+    section: Section
+    end_section: Section | None = None
+    temperature_change: float | None = None
+    misfit: float = 0.0
+    distributed_load: float = 0.0
+    buckling_length: float | None = None
+    effective_length_factor: float | None = None
+
+    def __post_init__(self):
+        place = f"segments ('{self.name}')"
+        if self.start == self.end:
+            raise ModelError(f"a segment needs two different stations: got '{self.start}' twice",
+                             place=place)
+        if self.end_section is not None and self.end_section.shape != self.section.shape:
+            raise ModelError(f"a taper needs the same shape at both ends: got "
+                             f"'{self.section.shape}' and '{self.end_section.shape}'", place=place)
+        _finite(self.misfit, "misfit", place)
+        _finite(self.distributed_load, "distributed_load", place)
+        _finite(self.temperature_change, "temperature_change", place)
+        _positive(self.buckling_length, "buckling_length", place)
+        _positive(self.effective_length_factor, "effective_length_factor", place)
+
+    @property
+    def sections(self) -> tuple[Section, Section]:
+        return self.section, self.end_section or self.section
+
+
+@dataclass(frozen=True)
+class Support:
+    """A support at station ``at``: ``fixed``, ``spring`` (``stiffness`` N/m) or
+    ``settlement`` (prescribed ``displacement`` m)."""
+
+    at: str
+    kind: str = "fixed"
+    stiffness: float | None = None
+    displacement: float = 0.0
+
+    def __post_init__(self):
+        place = f"supports ('{self.at}')"
+        if self.kind not in SUPPORT_KINDS:
+            raise ModelError(f"unknown support kind '{self.kind}'", place=place,
+                             hint=suggest(self.kind, SUPPORT_KINDS), options=SUPPORT_KINDS)
+        if self.kind == "spring":
+            if self.stiffness is None:
+                raise ModelError("a spring support needs 'stiffness'", place=place)
+            _positive(self.stiffness, "stiffness", place)
+        elif self.stiffness is not None:
+            raise ModelError(f"'stiffness' belongs to a spring support, not a {self.kind} one",
+                             place=place)
+        _finite(self.displacement, "displacement", place)
+        if self.kind != "settlement" and self.displacement:
+            raise ModelError(f"'displacement' belongs to a settlement support, not a {self.kind} one",
+                             place=place)
+
+
+@dataclass(frozen=True)
+class Load:
+    """A point force (N, positive toward +x) at station ``at``."""
+
+    at: str
+    force: float
+
+    def __post_init__(self):
+        _finite(self.force, "force", f"loads ('{self.at}')")
+
+
+@dataclass(frozen=True)
+class Gap:
+    """A clearance that closes (``contact``) or a link that goes taut (``slack``).
+
+    ``stations`` holds two names (the ``between`` form) or one (the ``at`` form,
+    against ground on ``side`` '+x' or '-x').  ``clearance`` is in m.
+    """
+
+    name: str
+    stations: tuple[str, ...]
+    clearance: float
+    kind: str = "contact"
+    side: str | None = None
+
+    def __post_init__(self):
+        place = f"gaps ('{self.name}')"
+        object.__setattr__(self, "stations", tuple(self.stations))
+        if self.kind not in GAP_KINDS:
+            raise ModelError(f"unknown gap kind '{self.kind}'", place=place,
+                             hint=suggest(self.kind, GAP_KINDS), options=GAP_KINDS)
+        if len(self.stations) == 2:
+            if self.side is not None:
+                raise ModelError("'side' belongs to the 'at' form of a gap", place=place)
+            if self.stations[0] == self.stations[1]:
+                raise ModelError(f"a gap needs two different stations: got '{self.stations[0]}' twice",
+                                 place=place)
+        elif len(self.stations) == 1:
+            if self.side not in ("+x", "-x"):
+                raise ModelError(f"'side' must be '+x' or '-x': got {self.side!r}", place=place)
+        else:
+            raise ModelError("give 'between' two stations, or 'at' one station and 'side'",
+                             place=place)
+        if isinstance(self.clearance, (int, float)) and not (self.clearance >= 0 and math.isfinite(self.clearance)):
+            raise ModelError(f"clearance must not be negative: got {self.clearance:g}", place=place)
+
+    @property
+    def sign(self) -> tuple[float, float]:
+        """Coefficients (s_first, s_second) with closure measure g = s1*u1 + s2*u2.
+
+        The gap closes when g reaches the clearance.  For the ``at`` form the
+        second coefficient belongs to ground and is 0.
+        """
+        if len(self.stations) == 2:
+            return (1.0, -1.0) if self.kind == "contact" else (-1.0, 1.0)
+        toward_stop = 1.0 if self.side == "+x" else -1.0
+        return (toward_stop, 0.0) if self.kind == "contact" else (-toward_stop, 0.0)
+
+
+@dataclass(frozen=True)
+class Case:
+    """One load case, complete in itself.
+
+    Parameters
+    ----------
+    name : str
+    loads : tuple of Load
+    temperature_change : tuple of (str, float)
+        Per segment name, or ``'all'`` for every other segment, in K.
+    settlements : tuple of (str, float)
+        New displacements (m) of ``settlement`` supports at the named stations.
+    """
+
+    name: str
+    loads: tuple[Load, ...] = ()
+    temperature_change: tuple[tuple[str, float], ...] = ()
+    settlements: tuple[tuple[str, float], ...] = ()
+
+    def __post_init__(self):
+        for key in ("loads", "temperature_change", "settlements"):
+            object.__setattr__(self, key, tuple(getattr(self, key)))
+
+
+@dataclass(frozen=True)
+class Combination:
+    """A factored sum of cases, solved as one new case."""
+
+    name: str
+    factors: tuple[tuple[str, float], ...]
+
+    def __post_init__(self):
+        object.__setattr__(self, "factors", tuple(self.factors))
+        if not self.factors:
+            raise ModelError("a combination needs at least one case factor",
+                             place=f"combinations ('{self.name}')")
+
+
+@dataclass(frozen=True)
+class CheckSettings:
+    """Settings of the design checks: safety factor on strength and buckling,
+    and the default effective-length factor K."""
+
+    safety_factor: float = 1.0
+    effective_length_factor: float = 1.0
+
+    def __post_init__(self):
+        _positive(self.safety_factor, "safety_factor", "checks")
+        _positive(self.effective_length_factor, "effective_length_factor", "checks")
+
+
+@dataclass(frozen=True)
+class Limit:
+    """An allowable displacement at a station, or a minimum opening of a gap (m)."""
+
+    at: str | None = None
+    gap: str | None = None
+    displacement: float | None = None
+    min_opening: float | None = None
+
+    def __post_init__(self):
+        if (self.at is None) == (self.gap is None):
+            raise ModelError("a limit names either a station ('at') or a gap ('gap')", place="limits")
+        if self.at is not None:
+            if self.displacement is None:
+                raise ModelError(f"a limit at '{self.at}' needs 'displacement'", place="limits")
+            _positive(self.displacement, "displacement", "limits")
+        elif self.min_opening is None:
+            raise ModelError(f"a limit on gap '{self.gap}' needs 'min_opening'", place="limits")
+
+
+@dataclass(frozen=True)
+class Model:
+    """A complete axial model.
+
+    Parameters
+    ----------
+    stations, segments, supports : tuples of Station, Segment, Support
+    loads : tuple of Load
+        The loads of the single case ``base`` when ``cases`` is empty.
+    gaps : tuple of Gap
+    cases, combinations : tuples of Case, Combination
+    temperature_change : float, optional
+        Model-wide default temperature change in K.
+    gravity : float
+        Component of gravity along +x in m/s^2 (self-weight).
+    reference_temperature : float, optional
+        In K, for absolute temperatures.
+    units : OutputUnits
+    title : str
+    source : str, optional
+        The model file's name, for messages.
+
+    Raises
+    ------
+    ModelError
+        When a name refers to nothing, two names clash, or a segment joins two
+        stations at one position.
+    """
+
+    stations: tuple[Station, ...]
+    segments: tuple[Segment, ...]
+    supports: tuple[Support, ...] = ()
+    loads: tuple[Load, ...] = ()
+    gaps: tuple[Gap, ...] = ()
+    cases: tuple[Case, ...] = ()
+    combinations: tuple[Combination, ...] = ()
+    temperature_change: float | None = None
+    gravity: float = 0.0
+    reference_temperature: float | None = None
+    units: OutputUnits = field(default_factory=OutputUnits)
+    title: str = "axial model"
+    source: str | None = None
+    checks: CheckSettings = field(default_factory=CheckSettings)
+    limits: tuple[Limit, ...] = ()
+
+    def __post_init__(self):
+        for key in ("stations", "segments", "supports", "loads", "gaps", "cases",
+                    "combinations", "limits"):
+            object.__setattr__(self, key, tuple(getattr(self, key)))
+        index = {}
+        for i, st in enumerate(self.stations):
+            if st.name in index:
+                raise ModelError(f"station '{st.name}' is defined twice", place="stations")
+            index[st.name] = i
+        object.__setattr__(self, "_station_index", MappingProxyType(index))
+        if not self.segments:
+            raise ModelError("a model needs at least one segment", place="segments")
+        names = {}
+        for i, seg in enumerate(self.segments):
+            place = f"segments[{i + 1}] ('{seg.name}')"
+            if seg.name in names:
+                raise ModelError(f"two segments are named '{seg.name}'; parallel segments need "
+                                 "their own names", place=place)
+            if seg.name == "all":
+                raise ModelError("'all' is reserved (it names every segment in a case)", place=place)
+            names[seg.name] = i
+            for key, st in (("from", seg.start), ("to", seg.end)):
+                self._need_station(st, f"{place} {key}")
+            x0 = self.stations[index[seg.start]].x
+            x1 = self.stations[index[seg.end]].x
+            if isinstance(x0, float) and isinstance(x1, float) and x0 == x1:
+                raise ModelError(f"stations '{seg.start}' and '{seg.end}' stand at the same "
+                                 "position; a segment needs a length", place=place)
+        object.__setattr__(self, "_segment_index", MappingProxyType(names))
+        kinds_at = {}
+        for i, sup in enumerate(self.supports):
+            self._need_station(sup.at, f"supports[{i + 1}]")
+            prescribed = sup.kind != "spring"
+            if prescribed and kinds_at.get(sup.at):
+                raise ModelError(f"station '{sup.at}' has two fixed or settlement supports",
+                                 place=f"supports[{i + 1}]")
+            kinds_at[sup.at] = kinds_at.get(sup.at, False) or prescribed
+        for i, load in enumerate(self.loads):
+            self._need_station(load.at, f"loads[{i + 1}]")
+        gap_names = set()
+        for i, gap in enumerate(self.gaps):
+            if gap.name in gap_names:
+                raise ModelError(f"two gaps are named '{gap.name}'", place=f"gaps[{i + 1}]")
+            gap_names.add(gap.name)
+            for st in gap.stations:
+                self._need_station(st, f"gaps[{i + 1}] ('{gap.name}')")
+        case_names = set()
+        for i, case in enumerate(self.cases):
+            place = f"cases[{i + 1}] ('{case.name}')"
+            if case.name in case_names:
+                raise ModelError(f"two cases are named '{case.name}'", place=place)
+            case_names.add(case.name)
+            for load in case.loads:
+                self._need_station(load.at, f"{place} loads")
+            for seg_name, _ in case.temperature_change:
+                if seg_name != "all" and seg_name not in names:
+                    raise ModelError(f"unknown segment '{seg_name}' in temperature_change",
+                                     place=place, hint=suggest(seg_name, names))
+            settled = {s.at for s in self.supports if s.kind == "settlement"}
+            for st, _ in case.settlements:
+                if st not in settled:
+                    raise ModelError(f"station '{st}' has no settlement support to move",
+                                     place=f"{place} settlements",
+                                     hint=suggest(st, settled), options=sorted(settled) or None)
+        if self.cases and self.loads:
+            raise ModelError("top-level loads are not allowed when the model has cases; "
+                             "move them into a case", place="loads")
+        for comb in self.combinations:
+            place = f"combinations ('{comb.name}')"
+            if comb.name in case_names:
+                raise ModelError(f"the name '{comb.name}' is already a case", place=place)
+            for case_name, _ in comb.factors:
+                if case_name not in case_names:
+                    raise ModelError(f"unknown case '{case_name}'", place=place,
+                                     hint=suggest(case_name, case_names),
+                                     options=sorted(case_names) or None)
+        for lim in self.limits:
+            if lim.at is not None:
+                self._need_station(lim.at, "limits")
+            elif lim.gap not in gap_names:
+                raise ModelError(f"unknown gap '{lim.gap}'", place="limits",
+                                 hint=suggest(lim.gap, gap_names))
+
+    def _need_station(self, name, place):
+        if name not in self._station_index:
+            raise ModelError(f"unknown station '{name}'", place=place,
+                             hint=suggest(name, self._station_index))
+
+    # --- look-ups -------------------------------------------------------
+    def station_index(self, name: str) -> int:
+        """Return the position of station ``name`` in :attr:`stations`."""
+        self._need_station(name, "stations")
+        return self._station_index[name]
+
+    def segment_index(self, name: str) -> int:
+        """Return the position of segment ``name`` in :attr:`segments`."""
+        if name not in self._segment_index:
+            raise ModelError(f"unknown segment '{name}'", place="segments",
+                             hint=suggest(name, self._segment_index))
+        return self._segment_index[name]
+
+    @property
+    def all_cases(self) -> tuple[Case, ...]:
+        """The cases to solve: the given ones, or the single case ``base``."""
+        return self.cases or (Case(BASE_CASE, self.loads),)

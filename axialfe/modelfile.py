@@ -1,0 +1,528 @@
+"""The file reader: a TOML model file in, a checked :class:`~axialfe.model.Model` out.
+
+A model file is untrusted input: it is parsed with :mod:`tomllib` and every value
+is read as data, never evaluated.  Every error names the file, the line, the
+place in the model and the fix where one is known, e.g.::
+
+    bolt.toml:31: segments[2] ('sleeve'): misfit: '0.05' has no unit: give a length, e.g. '40 mm'
+"""
+
+from __future__ import annotations
+
+import functools
+import re
+import tomllib
+from importlib import resources
+from pathlib import Path
+
+from .errors import ModelError, suggest
+from .model import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
+                    Model, Section, Segment, Station, Support)
+from .units import OutputUnits, parse_quantity
+
+__all__ = ["read_model", "parse_model", "builtin_materials"]
+
+_TOP_KEYS = ("title", "settings", "units", "materials", "sections", "stations", "segments",
+             "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols")
+_KEYS = {
+    "settings": ("reference_temperature", "temperature_change", "gravity"),
+    "units": ("system", "force", "length", "displacement", "stress"),
+    "material": ("elastic_modulus", "thermal_expansion", "yield_strength", "density", "source",
+                 "description"),
+    "section": ("shape", "diameter", "outer_diameter", "wall_thickness", "inner_diameter",
+                "width", "height", "area", "second_moment"),
+    "segment": ("name", "from", "to", "material", "section", "end_section", "temperature_change",
+                "temperature", "misfit", "distributed_load", "buckling_length",
+                "effective_length_factor"),
+    "support": ("at", "kind", "stiffness", "displacement"),
+    "load": ("at", "force"),
+    "gap": ("name", "between", "at", "side", "clearance", "kind"),
+    "case": ("name", "loads", "temperature_change", "temperature", "settlements"),
+    "settlement": ("at", "displacement"),
+    "combination": ("name", "factors"),
+    "checks": ("safety_factor", "effective_length_factor"),
+    "limit": ("at", "displacement", "gap", "min_opening"),
+}
+_SECTION_KINDS = {"diameter": "length", "outer_diameter": "length", "wall_thickness": "length",
+                  "inner_diameter": "length", "width": "length", "height": "length",
+                  "area": "area", "second_moment": "second_moment"}
+
+
+class _Locator:
+    """Finds the line of a table, an item of an array of tables, or a key."""
+
+    _HEADER = re.compile(r"^\s*\[(\[?)\s*([^\[\]]+?)\s*\]\]?\s*(#.*)?$")
+
+    def __init__(self, text: str):
+        self.lines = text.splitlines()
+        self.headers = []  # (0-based line, name, is_array)
+        for i, line in enumerate(self.lines):
+            m = self._HEADER.match(line)
+            if m:
+                name = re.sub(r"\s*\.\s*", ".", m.group(2).replace('"', "").replace("'", ""))
+                self.headers.append((i, name, bool(m.group(1))))
+
+    def _span(self, table, index):
+        """Return the (start, stop) lines of table ``table`` (its ``index``-th item)."""
+        count = 0
+        for h, (line, name, is_array) in enumerate(self.headers):
+            if name != table:
+                continue
+            count += 1
+            if index is None or count == index:
+                stop = self.headers[h + 1][0] if h + 1 < len(self.headers) else len(self.lines)
+                return line, stop
+        return None
+
+    def find(self, table=None, index=None, key=None) -> int | None:
+        """Return the 1-based line, or None when it cannot be found."""
+        span = self._span(table, index) if table else (0, len(self.lines))
+        if span is None and table and "." in table:  # a key of a parent table
+            parent, _, child = table.rpartition(".")
+            return self.find(parent, None, child) if key is None else self.find(parent, None, child)
+        if span is None:
+            top = table.split(".")[0] if table else None
+            return self._key_line(0, len(self.lines), top) if top else None
+        start, stop = span
+        if key is not None:
+            found = self._key_line(start, stop, key)
+            if found:
+                return found
+        return start + 1
+
+    def _key_line(self, start, stop, key):
+        pattern = re.compile(r"^\s*[\"']?" + re.escape(str(key)) + r"[\"']?\s*=")
+        inline = re.compile(r"[{,]\s*[\"']?" + re.escape(str(key)) + r"[\"']?\s*=")
+        for i in range(start, stop):
+            if pattern.match(self.lines[i]):
+                return i + 1
+        for i in range(start, stop):
+            if inline.search(self.lines[i]):
+                return i + 1
+        return None
+
+
+@functools.lru_cache(maxsize=1)
+def _builtin_table():
+    text = resources.files("axialfe").joinpath("data/materials.toml").read_text(encoding="utf-8")
+    return tomllib.loads(text)
+
+
+def builtin_materials() -> dict[str, Material]:
+    """Return the built-in materials by name (values in SI, each with its source)."""
+    reader = _Reader({}, None, None)
+    return {name: reader.material(name, entry, builtin=True)
+            for name, entry in _builtin_table().items()}
+
+
+class _Reader:
+    """Turns the parsed TOML tables into model objects, locating every error."""
+
+    def __init__(self, data: dict, source: str | None, text: str | None):
+        self.data = data
+        self.source = source
+        self.locator = _Locator(text) if text is not None else None
+
+    # --- errors ---------------------------------------------------------
+    def fail(self, message, table=None, index=None, key=None, place=None, hint=None, options=None):
+        raise ModelError(message, place=place, file=self.source, line=self.line(table, index, key),
+                         hint=hint, options=options)
+
+    def line(self, table=None, index=None, key=None):
+        return self.locator.find(table, index, key) if self.locator else None
+
+    def keys(self, entry, allowed, table, index=None, place=None):
+        if not isinstance(entry, dict):
+            self.fail(f"expected a table: got {type(entry).__name__}", table, index, place=place)
+        for key in entry:
+            if key not in allowed:
+                self.fail(f"unknown key '{key}'", table, index, key, place=place,
+                          hint=suggest(key, allowed), options=allowed)
+
+    def quantity(self, value, kind, *, table=None, index=None, key=None, place=None):
+        """Convert one value to SI, locating any unit error at ``key``."""
+        try:
+            return parse_quantity(value, kind)
+        except ModelError as exc:
+            raise ModelError(f"{key}: {exc.message}", place=place, file=self.source,
+                             line=self.line(table, index, key), hint=exc.hint,
+                             options=exc.options) from exc
+
+    def number(self, value, *, table=None, index=None, key=None, place=None):
+        if isinstance(value, bool) or not isinstance(value, (int, float)):
+            self.fail(f"{key}: expected a plain number: got {value!r}", table, index, key, place=place)
+        return float(value)
+
+    def text(self, value, *, table=None, index=None, key=None, place=None):
+        if not isinstance(value, str):
+            self.fail(f"{key}: expected a name in quotes: got {value!r}", table, index, key, place=place)
+        return value
+
+    def build(self, cls, kwargs, table=None, index=None, place=None):
+        """Construct a model object, locating the errors its own checks raise."""
+        try:
+            return cls(**kwargs)
+        except ModelError as exc:
+            key = _first_word(exc.message)
+            raise ModelError(exc.message, place=place or exc.place, file=self.source,
+                             line=self.line(table, index, key), hint=exc.hint,
+                             options=exc.options) from exc
+
+    # --- pieces ---------------------------------------------------------
+    def material(self, name, entry, builtin=False):
+        table = f"materials.{name}"
+        place = f"built-in material '{name}'" if builtin else table
+        self.keys(entry, _KEYS["material"], table, place=place)
+        kinds = {"elastic_modulus": "stress", "thermal_expansion": "thermal_expansion",
+                 "yield_strength": "stress", "density": "density"}
+        if "elastic_modulus" not in entry:
+            self.fail("a material needs 'elastic_modulus'", table, place=place)
+        kwargs = {k: self.quantity(entry[k], kind, table=table, key=k, place=place)
+                  for k, kind in kinds.items() if k in entry}
+        if "source" in entry:
+            kwargs["source"] = self.text(entry["source"], table=table, key="source", place=place)
+        return self.build(Material, {"name": name, **kwargs}, table, place=place)
+
+    def section(self, name, entry):
+        table = f"sections.{name}"
+        self.keys(entry, _KEYS["section"], table, place=table)
+        shape = entry.get("shape")
+        if shape is None:
+            self.fail("a section needs 'shape'", table, place=table,
+                      options=("round", "tube", "rectangle", "area"))
+        dims = {k: self.quantity(v, _SECTION_KINDS[k], table=table, key=k, place=table)
+                for k, v in entry.items() if k != "shape"}
+        if shape == "tube":
+            if ("wall_thickness" in dims) == ("inner_diameter" in dims):
+                self.fail("a tube needs 'outer_diameter' and one of 'wall_thickness' or "
+                          "'inner_diameter'", table, place=table)
+            if "wall_thickness" in dims and "outer_diameter" in dims:
+                dims["inner_diameter"] = dims["outer_diameter"] - 2 * dims.pop("wall_thickness")
+                if dims["inner_diameter"] < 0:
+                    self.fail("wall_thickness is more than half the outer diameter", table,
+                              key="wall_thickness", place=table)
+        allowed = {"round": ("diameter",), "tube": ("outer_diameter", "inner_diameter"),
+                   "rectangle": ("width", "height"), "area": ("area", "second_moment")}
+        for key in dims:
+            if shape in allowed and key not in allowed[shape]:
+                self.fail(f"'{key}' does not belong to a {shape} section", table, key=key,
+                          place=table, options=allowed[shape])
+        return self.build(Section, {"name": name, "shape": shape, "dimensions": tuple(dims.items())},
+                          table, place=table)
+
+    def temperature_pair(self, entry, reference, table, index, place):
+        """Return the temperature change of an entry with ``temperature_change`` or
+        ``temperature`` (absolute, against the reference), or None."""
+        if "temperature_change" in entry and "temperature" in entry:
+            self.fail("give 'temperature_change' or 'temperature', not both", table, index,
+                      "temperature", place=place)
+        if "temperature_change" in entry:
+            return self.quantity(entry["temperature_change"], "temperature_difference",
+                                 table=table, index=index, key="temperature_change", place=place)
+        if "temperature" in entry:
+            t = self.quantity(entry["temperature"], "temperature", table=table, index=index,
+                              key="temperature", place=place)
+            if reference is None:
+                self.fail("an absolute 'temperature' needs settings.reference_temperature", table,
+                          index, "temperature", place=place)
+            return t - reference
+        return None
+
+    def array(self, name):
+        items = self.data.get(name, [])
+        if not isinstance(items, list):
+            self.fail(f"'{name}' must be an array of tables ([[{name}]])", name)
+        return items
+
+    def name_ref(self, value, options, what, table, index, key, place):
+        value = self.text(value, table=table, index=index, key=key, place=place)
+        if value not in options:
+            self.fail(f"unknown {what} '{value}'", table, index, key, place=place,
+                      hint=suggest(value, options))
+        return value
+
+    # --- the whole model ------------------------------------------------
+    def model(self) -> Model:
+        data = self.data
+        for key in data:
+            if key not in _TOP_KEYS:
+                self.fail(f"unknown key '{key}'", key=key, place="top level",
+                          hint=suggest(key, _TOP_KEYS))
+        title = data.get("title", Path(self.source).stem if self.source else "axial model")
+        settings = data.get("settings", {})
+        self.keys(settings, _KEYS["settings"], "settings", place="settings")
+        q = functools.partial(self.quantity, table="settings", place="settings")
+        reference = (q(settings["reference_temperature"], "temperature", key="reference_temperature")
+                     if "reference_temperature" in settings else None)
+        default_dt = self.temperature_pair(settings, reference, "settings", None, "settings")
+        gravity = q(settings["gravity"], "acceleration", key="gravity") if "gravity" in settings else 0.0
+
+        units_entry = data.get("units", {})
+        self.keys(units_entry, _KEYS["units"], "units", place="units")
+        try:
+            units = OutputUnits.system(units_entry.get("system", "SI"),
+                                       **{k: v for k, v in units_entry.items() if k != "system"})
+        except ModelError as exc:
+            raise ModelError(exc.message, place="units", file=self.source,
+                             line=self.line("units"), hint=exc.hint, options=exc.options) from exc
+
+        materials = {}
+        own = data.get("materials", {})
+        self.keys(own, tuple(own), "materials", place="materials")
+        for name, entry in own.items():
+            materials[name] = self.material(name, entry)
+        sections = {}
+        for name, entry in data.get("sections", {}).items():
+            sections[name] = self.section(name, entry)
+
+        stations = []
+        st_table = data.get("stations", {})
+        if not isinstance(st_table, dict) or not st_table:
+            self.fail("a model needs a [stations] table of names and positions, e.g. left = \"0 mm\"",
+                      "stations", place="stations")
+        for name, value in st_table.items():
+            x = self.quantity(value, "length", table="stations", key=name, place="stations")
+            stations.append(Station(name, x))
+        station_names = tuple(st_table)
+
+        builtins = None
+        segments = []
+        for i, entry in enumerate(self.array("segments"), 1):
+            table = "segments"
+            place = f"segments[{i}]" + (f" ('{entry['name']}')" if isinstance(entry, dict)
+                                        and isinstance(entry.get("name"), str) else "")
+            self.keys(entry, _KEYS["segment"], table, i, place)
+            for key in ("from", "to", "material", "section"):
+                if key not in entry:
+                    self.fail(f"a segment needs '{key}'", table, i, place=place)
+            start = self.name_ref(entry["from"], station_names, "station", table, i, "from", place)
+            end = self.name_ref(entry["to"], station_names, "station", table, i, "to", place)
+            mat_name = self.text(entry["material"], table=table, index=i, key="material", place=place)
+            if mat_name not in materials:
+                if builtins is None:
+                    builtins = builtin_materials()
+                if mat_name not in builtins:
+                    self.fail(f"unknown material '{mat_name}'", table, i, "material", place=place,
+                              hint=suggest(mat_name, [*materials, *builtins]))
+                materials[mat_name] = builtins[mat_name]
+            sec = self.name_ref(entry["section"], sections, "section", table, i, "section", place)
+            end_sec = (self.name_ref(entry["end_section"], sections, "section", table, i,
+                                     "end_section", place) if "end_section" in entry else None)
+            qs = functools.partial(self.quantity, table=table, index=i, place=place)
+            kwargs = {
+                "name": entry.get("name", f"{start}-{end}"),
+                "start": start, "end": end, "material": materials[mat_name],
+                "section": sections[sec],
+                "end_section": sections[end_sec] if end_sec else None,
+                "temperature_change": self.temperature_pair(entry, reference, table, i, place),
+                "misfit": qs(entry["misfit"], "length", key="misfit") if "misfit" in entry else 0.0,
+                "distributed_load": (qs(entry["distributed_load"], "force_per_length",
+                                        key="distributed_load") if "distributed_load" in entry else 0.0),
+                "buckling_length": (qs(entry["buckling_length"], "length", key="buckling_length")
+                                    if "buckling_length" in entry else None),
+                "effective_length_factor": (
+                    self.number(entry["effective_length_factor"], table=table, index=i,
+                                key="effective_length_factor", place=place)
+                    if "effective_length_factor" in entry else None),
+            }
+            if not isinstance(kwargs["name"], str):
+                self.fail("name: expected a name in quotes", table, i, "name", place=place)
+            if (gravity and materials[mat_name].density is None):
+                self.fail(f"self-weight needs a density for material '{mat_name}'", table, i,
+                          "material", place=place)
+            segments.append(self.build(Segment, kwargs, table, i, place))
+
+        supports = []
+        for i, entry in enumerate(self.array("supports"), 1):
+            place = f"supports[{i}]"
+            self.keys(entry, _KEYS["support"], "supports", i, place)
+            if "at" not in entry:
+                self.fail("a support needs 'at'", "supports", i, place=place)
+            at = self.name_ref(entry["at"], station_names, "station", "supports", i, "at", place)
+            qs = functools.partial(self.quantity, table="supports", index=i, place=place)
+            kwargs = {"at": at, "kind": entry.get("kind", "fixed")}
+            if "stiffness" in entry:
+                kwargs["stiffness"] = qs(entry["stiffness"], "stiffness", key="stiffness")
+            if "displacement" in entry:
+                kwargs["displacement"] = qs(entry["displacement"], "length", key="displacement")
+            if kwargs["kind"] == "settlement" and "displacement" not in entry:
+                self.fail("a settlement support needs 'displacement'", "supports", i, place=place)
+            supports.append(self.build(Support, kwargs, "supports", i, place))
+
+        loads = self.loads(self.array("loads"), station_names, "loads", None, "loads")
+
+        gaps = []
+        for i, entry in enumerate(self.array("gaps"), 1):
+            place = f"gaps[{i}]" + (f" ('{entry['name']}')" if isinstance(entry, dict)
+                                    and isinstance(entry.get("name"), str) else "")
+            self.keys(entry, _KEYS["gap"], "gaps", i, place)
+            if ("between" in entry) == ("at" in entry):
+                self.fail("a gap needs either 'between' (two stations) or 'at' (one station "
+                          "against ground)", "gaps", i, place=place)
+            if "clearance" not in entry:
+                self.fail("a gap needs 'clearance' (it may be '0 mm')", "gaps", i, place=place)
+            if "between" in entry:
+                pair = entry["between"]
+                if not isinstance(pair, list) or len(pair) != 2:
+                    self.fail("'between' takes two station names", "gaps", i, "between", place=place)
+                names = tuple(self.name_ref(s, station_names, "station", "gaps", i, "between", place)
+                              for s in pair)
+            else:
+                names = (self.name_ref(entry["at"], station_names, "station", "gaps", i, "at", place),)
+                if "side" not in entry:
+                    self.fail("a gap 'at' one station needs 'side' = \"+x\" or \"-x\" (where the "
+                              "stop lies)", "gaps", i, place=place)
+            kwargs = {"name": entry.get("name", f"gap-{i}"), "stations": names,
+                      "clearance": self.quantity(entry["clearance"], "length", table="gaps",
+                                                 index=i, key="clearance", place=place),
+                      "kind": entry.get("kind", "contact"), "side": entry.get("side")}
+            gaps.append(self.build(Gap, kwargs, "gaps", i, place))
+
+        cases = []
+        for i, entry in enumerate(self.array("cases"), 1):
+            place = f"cases[{i}]" + (f" ('{entry['name']}')" if isinstance(entry, dict)
+                                     and isinstance(entry.get("name"), str) else "")
+            self.keys(entry, _KEYS["case"], "cases", i, place)
+            if "name" not in entry:
+                self.fail("a case needs 'name'", "cases", i, place=place)
+            case_loads = self.loads(entry.get("loads", []), station_names, "cases", i, place)
+            temps = self.case_temperatures(entry, reference, i, place)
+            settlements = []
+            for s in entry.get("settlements", []):
+                if not isinstance(s, dict):
+                    self.fail("settlements: expected tables like { at = \"right\", displacement = "
+                              "\"0.05 mm\" }", "cases", i, "settlements", place=place)
+                self.keys(s, _KEYS["settlement"], "cases", i, place=f"{place} settlements")
+                if "at" not in s or "displacement" not in s:
+                    self.fail("a settlement needs 'at' and 'displacement'", "cases", i,
+                              "settlements", place=place)
+                st = self.name_ref(s["at"], station_names, "station", "cases", i, "settlements", place)
+                settlements.append((st, self.quantity(s["displacement"], "length", table="cases",
+                                                      index=i, key="settlements", place=place)))
+            cases.append(self.build(Case, {"name": self.text(entry["name"], table="cases", index=i,
+                                                             key="name", place=place),
+                                           "loads": case_loads, "temperature_change": temps,
+                                           "settlements": tuple(settlements)}, "cases", i, place))
+        combinations = []
+        for i, entry in enumerate(self.array("combinations"), 1):
+            place = f"combinations[{i}]"
+            self.keys(entry, _KEYS["combination"], "combinations", i, place)
+            if "name" not in entry or "factors" not in entry:
+                self.fail("a combination needs 'name' and 'factors'", "combinations", i, place=place)
+            factors = entry["factors"]
+            if not isinstance(factors, dict):
+                self.fail("factors: expected a table of case = factor", "combinations", i,
+                          "factors", place=place)
+            combinations.append(self.build(Combination, {
+                "name": entry["name"],
+                "factors": tuple((c, self.number(f, table="combinations", index=i, key="factors",
+                                                 place=place)) for c, f in factors.items())},
+                "combinations", i, place))
+
+        checks_entry = data.get("checks", {})
+        self.keys(checks_entry, _KEYS["checks"], "checks", place="checks")
+        checks = self.build(CheckSettings, {k: self.number(v, table="checks", key=k, place="checks")
+                                            for k, v in checks_entry.items()}, "checks")
+        limits = []
+        for i, entry in enumerate(self.array("limits"), 1):
+            place = f"limits[{i}]"
+            self.keys(entry, _KEYS["limit"], "limits", i, place)
+            kwargs = {k: entry[k] for k in ("at", "gap") if k in entry}
+            for k in ("displacement", "min_opening"):
+                if k in entry:
+                    kwargs[k] = self.quantity(entry[k], "length", table="limits", index=i, key=k,
+                                              place=place)
+            limits.append(self.build(Limit, kwargs, "limits", i, place))
+
+        try:
+            return Model(stations=tuple(stations), segments=tuple(segments),
+                         supports=tuple(supports), loads=loads, gaps=tuple(gaps),
+                         cases=tuple(cases), combinations=tuple(combinations),
+                         temperature_change=default_dt, gravity=gravity,
+                         reference_temperature=reference, units=units, title=str(title),
+                         source=self.source, checks=checks, limits=tuple(limits))
+        except ModelError as exc:
+            raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
+
+    def _line_of_place(self, place):
+        if not place:
+            return None
+        m = re.match(r"(\w+)(?:\[(\d+)\])?", place)
+        if not m:
+            return None
+        return self.line(m.group(1), int(m.group(2)) if m.group(2) else None)
+
+    def loads(self, items, station_names, table, index, place):
+        out = []
+        if not isinstance(items, list):
+            self.fail("loads: expected an array of tables", table, index, "loads", place=place)
+        for j, entry in enumerate(items, 1):
+            where = f"{place}[{j}]" if index is None else f"{place} loads[{j}]"
+            idx = j if index is None else index
+            self.keys(entry, _KEYS["load"], table, idx, where)
+            if "at" not in entry or "force" not in entry:
+                self.fail("a load needs 'at' and 'force'", table, idx, place=where)
+            at = self.name_ref(entry["at"], station_names, "station", table, idx, "at", where)
+            out.append(Load(at, self.quantity(entry["force"], "force", table=table, index=idx,
+                                              key="force", place=where)))
+        return tuple(out)
+
+    def case_temperatures(self, entry, reference, i, place):
+        if "temperature_change" in entry and "temperature" in entry:
+            self.fail("give 'temperature_change' or 'temperature', not both", "cases", i,
+                      "temperature", place=place)
+        for key, kind in (("temperature_change", "temperature_difference"),
+                          ("temperature", "temperature")):
+            if key not in entry:
+                continue
+            value = entry[key]
+            table = value if isinstance(value, dict) else {"all": value}
+            if kind == "temperature" and reference is None:
+                self.fail("an absolute 'temperature' needs settings.reference_temperature",
+                          "cases", i, key, place=place)
+            out = []
+            for name, v in table.items():
+                t = self.quantity(v, kind, table="cases", index=i, key=key, place=place)
+                out.append((name, t - reference if kind == "temperature" else t))
+            return tuple(out)
+        return ()
+
+
+def _first_word(message: str) -> str | None:
+    m = re.match(r"'?([a-z_]+)'?", message)
+    return m.group(1) if m else None
+
+
+def parse_model(text: str, source: str | None = None) -> Model:
+    """Read a model from TOML text.
+
+    Parameters
+    ----------
+    text : str
+        The model file's contents.
+    source : str, optional
+        The file name shown in error messages.
+
+    Raises
+    ------
+    ModelError
+        For malformed TOML, unknown keys or names, wrong units and invalid values.
+    """
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        m = re.search(r"line (\d+)", str(exc))
+        raise ModelError(f"not valid TOML: {exc}", file=source,
+                         line=int(m.group(1)) if m else None) from exc
+    return _Reader(data, source, text).model()
+
+
+def read_model(path) -> Model:
+    """Read a model file (TOML); see :func:`parse_model`."""
+    path = Path(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        raise ModelError(f"cannot read the model file: {exc.__class__.__name__}: {exc}",
+                         file=str(path)) from exc
+    return parse_model(text, str(path))

@@ -1,0 +1,183 @@
+"""Output: the terminal report and the JSON, CSV and Markdown forms of a solution.
+
+Everything here reads a :class:`~axialfe.results.Solution` and writes text; it
+computes nothing new.  Numbers are shown in the model's output units (or the
+units given on the command line), with their units in every heading.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+
+from .results import Solution
+from .units import OutputUnits
+
+__all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS"]
+
+FORMATS = ("table", "json", "csv", "markdown")
+
+CAUTIONS = (
+    "Linear-elastic, small-displacement analysis of axial members: no plasticity, no large "
+    "deformation, no bending; buckling is only checked where a check says so.",
+    "Built-in material values are typical values; verify them against the material "
+    "certificate and the governing standard.",
+    "These results support checking and design; they do not replace the applicable design "
+    "codes and standards, or review by a licensed professional engineer.",
+)
+
+
+def _g(value, digits=6):
+    if value == 0:
+        return "0"
+    return f"{value:.{digits}g}"
+
+
+def _grid(headers, rows, indent="  "):
+    """Align a table as text: names left, numbers right."""
+    cells = [[str(c) for c in r] for r in rows]
+    widths = [max(len(h), *(len(r[i]) for r in cells)) if cells else len(h)
+              for i, h in enumerate(headers)]
+    numeric = [all(_is_number(r[i]) for r in cells) and bool(cells) for i in range(len(headers))]
+
+    def line(parts):
+        return indent + "  ".join(p.rjust(w) if num else p.ljust(w)
+                                  for p, w, num in zip(parts, widths, numeric)).rstrip()
+
+    out = [line(headers), indent + "  ".join("-" * w for w in widths)]
+    out += [line(r) for r in cells]
+    return out
+
+
+def _is_number(text):
+    try:
+        float(text)
+        return True
+    except ValueError:
+        return False
+
+
+def _case_tables(case: dict, units: dict):
+    """Yield (title, headers, rows) for one case in the JSON layout."""
+    F, L, D, S = units["force"], units["length"], units["displacement"], units["stress"]
+    yield ("stations", ["station", f"x [{L}]", f"displacement [{D}]"],
+           [[s["name"], _g(s["x"]), _g(s["displacement"])] for s in case["stations"]])
+    yield ("segments", ["segment", "from", "to", f"L [{L}]", f"N from [{F}]", f"N to [{F}]",
+                        f"stress from [{S}]", f"stress to [{S}]", f"elongation [{D}]"],
+           [[s["name"], s["from"], s["to"], _g(s["length"]), _g(s["axial_force"][0]),
+             _g(s["axial_force"][1]), _g(s["stress"][0]), _g(s["stress"][1]),
+             _g(s["elongation"])] for s in case["segments"]])
+    if case["reactions"]:
+        yield ("reactions (force of the support on the bar, + toward +x)",
+               ["at", "support", f"force [{F}]"],
+               [[r["at"], r["kind"], _g(r["force"])] for r in case["reactions"]])
+    if case["gaps"]:
+        yield ("gaps (force + in tension)", ["gap", "kind", "state", f"opening [{D}]", f"force [{F}]"],
+               [[g["name"], g["kind"], g["state"], _g(g["opening"]), _g(g["force"])]
+                for g in case["gaps"]])
+
+
+def summary_line(model) -> str:
+    parts = [f"{len(model.stations)} stations", f"{len(model.segments)} segments",
+             f"{len(model.supports)} supports"]
+    if model.gaps:
+        parts.append(f"{len(model.gaps)} gaps")
+    n_cases = len(model.all_cases) + len(model.combinations)
+    parts.append(f"{n_cases} case" + ("s" if n_cases != 1 else ""))
+    return ", ".join(parts)
+
+
+def to_table(solution: Solution, units: OutputUnits | None = None, extra=None) -> str:
+    """The readable terminal report."""
+    units = units or solution.model.units
+    data = solution.to_dict(units)
+    model = solution.model
+    out = [f"axialfe: {data['title']}",
+           f"model: {summary_line(model)}",
+           "units: " + ", ".join(f"{k} {v}" for k, v in data["units"].items()),
+           "signs: x and forces + toward +x; axial force and stress + in tension", ""]
+    for case in data["cases"]:
+        out.append(f"== case '{case['name']}' ==")
+        for title, headers, rows in _case_tables(case, data["units"]):
+            out.append(f" {title}")
+            out += _grid(headers, rows)
+            out.append("")
+        out.append(f" equilibrium residual: {case['equilibrium_residual']:.2e} "
+                   "(largest out-of-balance station force / largest force)")
+        for note in case.get("notes", []):
+            out.append(f" note: {note}")
+        out.append("")
+    if extra:
+        out += extra
+    out.append("cautions:")
+    out += [f" - {c}" for c in CAUTIONS]
+    return "\n".join(out) + "\n"
+
+
+def to_json(solution: Solution, units: OutputUnits | None = None, extra: dict | None = None) -> str:
+    data = solution.to_dict(units)
+    if extra:
+        data.update(extra)
+    data["cautions"] = list(CAUTIONS)
+    return json.dumps(data, indent=2) + "\n"
+
+
+def to_csv(solution: Solution, units: OutputUnits | None = None) -> str:
+    """One long table: case, item, name, quantity, position, value, unit."""
+    units = units or solution.model.units
+    data = solution.to_dict(units)
+    u = data["units"]
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["case", "item", "name", "quantity", "end", "value", "unit"])
+    for case in data["cases"]:
+        c = case["name"]
+        for s in case["stations"]:
+            w.writerow([c, "station", s["name"], "x", "", repr(s["x"]), u["length"]])
+            w.writerow([c, "station", s["name"], "displacement", "", repr(s["displacement"]),
+                        u["displacement"]])
+        for s in case["segments"]:
+            for q, unit in (("axial_force", u["force"]), ("stress", u["stress"]),
+                            ("mechanical_strain", "1")):
+                for end, v in zip(("from", "to"), s[q]):
+                    w.writerow([c, "segment", s["name"], q, end, repr(v), unit])
+            w.writerow([c, "segment", s["name"], "elongation", "", repr(s["elongation"]),
+                        u["displacement"]])
+            w.writerow([c, "segment", s["name"], "thermal_strain", "", repr(s["thermal_strain"]), "1"])
+        for r in case["reactions"]:
+            w.writerow([c, "reaction", r["at"], "force", "", repr(r["force"]), u["force"]])
+        for g in case["gaps"]:
+            w.writerow([c, "gap", g["name"], "state", "", g["state"], ""])
+            w.writerow([c, "gap", g["name"], "opening", "", repr(g["opening"]), u["displacement"]])
+            w.writerow([c, "gap", g["name"], "force", "", repr(g["force"]), u["force"]])
+        w.writerow([c, "case", c, "equilibrium_residual", "", repr(case["equilibrium_residual"]), "1"])
+    return buf.getvalue()
+
+
+def _md_escape(text) -> str:
+    return str(text).replace("|", "\\|")
+
+
+def to_markdown(solution: Solution, units: OutputUnits | None = None) -> str:
+    units = units or solution.model.units
+    data = solution.to_dict(units)
+    out = [f"# {_md_escape(data['title'])}", "",
+           "Units: " + ", ".join(f"{k} {v}" for k, v in data["units"].items())
+           + ". Forces and displacements + toward +x; axial force and stress + in tension.", ""]
+    for case in data["cases"]:
+        out += [f"## Case `{_md_escape(case['name'])}`", ""]
+        for title, headers, rows in _case_tables(case, data["units"]):
+            out += [f"**{title}**", "", "| " + " | ".join(headers) + " |",
+                    "|" + "|".join("---" for _ in headers) + "|"]
+            out += ["| " + " | ".join(_md_escape(c) for c in r) + " |" for r in rows]
+            out.append("")
+        out += [f"Equilibrium residual: {case['equilibrium_residual']:.2e}", ""]
+    out += ["## Cautions", ""] + [f"- {c}" for c in CAUTIONS]
+    return "\n".join(out) + "\n"
+
+
+def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None) -> str:
+    """Return the solution as text in ``fmt`` (one of :data:`FORMATS`)."""
+    return {"table": to_table, "json": to_json, "csv": to_csv, "markdown": to_markdown}[fmt](
+        solution, units)

@@ -1,0 +1,175 @@
+"""Results: frozen, named arrays of one solved case, with look-ups and tables.
+
+All arrays are in SI units (m, N, Pa); :meth:`CaseResult.to_dict` converts to a
+model's output units for display.  Signs: displacements and external forces
+are positive toward +x; axial force, stress and strain are positive in
+tension; a reaction is the force a support exerts on the bar.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .errors import ModelError, suggest
+from .model import Model
+from .units import OutputUnits
+
+__all__ = ["CaseResult", "Solution"]
+
+
+@dataclass(frozen=True, repr=False)
+class CaseResult:
+    """The solution of one case (or combination) of a model.
+
+    Attributes
+    ----------
+    name : str
+    model : Model
+    u : ndarray, shape (n_stations,)
+        Station displacements.
+    axial_force, stress, mechanical_strain : ndarray, shape (n_segments, 2)
+        At each segment's ``from`` and ``to`` end.
+    elongation, thermal_strain, length : ndarray, shape (n_segments,)
+        Change of distance between the end stations; alpha*dT; segment length.
+    elastic_elongation, thermal_elongation : ndarray, shape (n_segments,)
+        The parts of the elongation from force (integral of N/EA) and from
+        alpha*dT*L; the misfit is the rest.
+    temperature_change : ndarray, shape (n_segments,)
+    reactions : ndarray, shape (n_supports,)
+        Force each support exerts on the bar (a spring's is -k*u).
+    gap_force, gap_opening : ndarray, shape (n_gaps,)
+        Force carried by each gap (tension positive) and its remaining clearance.
+    gap_closed : ndarray of bool, shape (n_gaps,)
+    applied : ndarray, shape (n_stations,)
+        Point loads of this case.
+    equilibrium_residual : float
+        Largest out-of-balance station force relative to the largest applied
+        load, reaction, gap or segment force (0 when all are zero).
+    notes : tuple of str
+    """
+
+    name: str
+    model: Model
+    u: np.ndarray
+    axial_force: np.ndarray
+    stress: np.ndarray
+    mechanical_strain: np.ndarray
+    elongation: np.ndarray
+    elastic_elongation: np.ndarray
+    thermal_elongation: np.ndarray
+    thermal_strain: np.ndarray
+    temperature_change: np.ndarray
+    length: np.ndarray
+    reactions: np.ndarray
+    applied: np.ndarray
+    gap_force: np.ndarray
+    gap_opening: np.ndarray
+    gap_closed: np.ndarray
+    equilibrium_residual: float
+    notes: tuple[str, ...] = field(default=())
+
+    def __post_init__(self):
+        for key in ("u", "axial_force", "stress", "mechanical_strain", "elongation",
+                    "reactions", "gap_force", "gap_opening"):
+            arr = getattr(self, key)
+            arr.setflags(write=False)
+            if not np.all(np.isfinite(arr)):
+                raise FloatingPointError(f"non-finite {key} in case '{self.name}'")
+
+    # --- look-ups -------------------------------------------------------
+    def displacement(self, station: str) -> float:
+        """Displacement of ``station`` (m)."""
+        return float(self.u[self.model.station_index(station)])
+
+    def force(self, segment: str) -> np.ndarray:
+        """Axial force [at from, at to] of ``segment`` (N)."""
+        return self.axial_force[self.model.segment_index(segment)]
+
+    def reaction(self, station: str) -> float:
+        """Sum of the support reactions at ``station`` (N)."""
+        self.model.station_index(station)
+        at = [s.at for s in self.model.supports]
+        if station not in at:
+            raise ModelError(f"station '{station}' has no support", place="reactions",
+                             hint=suggest(station, at))
+        return float(sum(r for r, a in zip(self.reactions, at) if a == station))
+
+    def gap(self, name: str) -> dict:
+        """State, opening (m) and force (N) of gap ``name``."""
+        names = [g.name for g in self.model.gaps]
+        if name not in names:
+            raise ModelError(f"unknown gap '{name}'", place="gaps", hint=suggest(name, names))
+        j = names.index(name)
+        return {"state": "closed" if self.gap_closed[j] else "open",
+                "opening": float(self.gap_opening[j]), "force": float(self.gap_force[j])}
+
+    # --- output ---------------------------------------------------------
+    def to_dict(self, units: OutputUnits | None = None) -> dict:
+        """Plain numbers in ``units`` (default: the model's), keyed as in the JSON output."""
+        units = units or self.model.units
+        fF, fL, fD, fS = (units.factor(k) for k in ("force", "length", "displacement", "stress"))
+        m = self.model
+        stations = [{"name": st.name, "x": st.x / fL, "displacement": float(self.u[i] / fD)}
+                    for i, st in enumerate(m.stations)]
+        segments = [{"name": s.name, "from": s.start, "to": s.end,
+                     "length": float(self.length[i] / fL),
+                     "axial_force": (self.axial_force[i] / fF).tolist(),
+                     "stress": (self.stress[i] / fS).tolist(),
+                     "elongation": float(self.elongation[i] / fD),
+                     "thermal_strain": float(self.thermal_strain[i]),
+                     "mechanical_strain": self.mechanical_strain[i].tolist()}
+                    for i, s in enumerate(m.segments)]
+        reactions = [{"at": s.at, "kind": s.kind, "force": float(self.reactions[j] / fF)}
+                     for j, s in enumerate(m.supports)]
+        gaps = [{"name": g.name, "kind": g.kind,
+                 "state": "closed" if self.gap_closed[j] else "open",
+                 "opening": float(self.gap_opening[j] / fD),
+                 "force": float(self.gap_force[j] / fF)} for j, g in enumerate(m.gaps)]
+        return {"name": self.name, "stations": stations, "segments": segments,
+                "reactions": reactions, "gaps": gaps,
+                "equilibrium_residual": float(self.equilibrium_residual),
+                "notes": list(self.notes)}
+
+    def __repr__(self) -> str:
+        m = self.model
+        big = int(np.argmax(np.abs(self.axial_force).max(axis=1))) if len(m.segments) else 0
+        return (f"<CaseResult '{self.name}': {len(m.stations)} stations, {len(m.segments)} segments,"
+                f" max |N| = {np.abs(self.axial_force).max():.6g} N in '{m.segments[big].name}',"
+                f" max |u| = {np.abs(self.u).max():.6g} m,"
+                f" residual = {self.equilibrium_residual:.1e}>")
+
+
+@dataclass(frozen=True, repr=False)
+class Solution:
+    """The solved cases of one model, in file order, then the combinations."""
+
+    model: Model
+    cases: tuple[CaseResult, ...]
+
+    def __getitem__(self, name: str) -> CaseResult:
+        for c in self.cases:
+            if c.name == name:
+                return c
+        names = [c.name for c in self.cases]
+        raise ModelError(f"unknown case '{name}'", place="cases", hint=suggest(name, names),
+                         options=names)
+
+    def __iter__(self):
+        return iter(self.cases)
+
+    def __len__(self):
+        return len(self.cases)
+
+    @property
+    def names(self) -> tuple[str, ...]:
+        return tuple(c.name for c in self.cases)
+
+    def to_dict(self, units: OutputUnits | None = None) -> dict:
+        units = units or self.model.units
+        return {"title": self.model.title, "units": units.as_dict(),
+                "cases": [c.to_dict(units) for c in self.cases]}
+
+    def __repr__(self) -> str:
+        return f"<Solution of '{self.model.title}': cases {', '.join(self.names)}>"

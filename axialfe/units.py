@@ -1,0 +1,190 @@
+"""Units at the edges: the only module that imports pint.
+
+Model values arrive as strings such as ``"40 mm"`` or ``"29000 ksi"`` and leave
+this module as floats in SI base units (m, N, Pa, K, kg).  Results go back
+through :func:`to_unit` for display.  pint stays the authority on what a unit
+means; a string is split into number and unit text and each distinct unit text
+is converted once and cached, so a large model file does not pay pint's parse
+cost per value.
+"""
+
+from __future__ import annotations
+
+import functools
+import math
+import re
+from dataclasses import dataclass
+
+from .errors import UnitError
+
+__all__ = ["KINDS", "OutputUnits", "parse_quantity", "unit_factor", "to_unit", "describe"]
+
+# Each kind of value, the reference unit that fixes its dimension, and an example
+# shown when a unit is missing or wrong.
+KINDS: dict[str, tuple[str, str]] = {
+    "length": ("m", "40 mm"),
+    "area": ("m^2", "120 mm^2"),
+    "second_moment": ("m^4", "8000 mm^4"),
+    "force": ("N", "12 kN"),
+    "stress": ("Pa", "250 MPa"),
+    "thermal_expansion": ("1/K", "12e-6 /K"),
+    "force_per_length": ("N/m", "1.5 kN/m"),
+    "density": ("kg/m^3", "7850 kg/m^3"),
+    "acceleration": ("m/s^2", "-9.80665 m/s^2"),
+    "stiffness": ("N/m", "50 kN/mm"),
+    "temperature_difference": ("K", "60 K"),
+    "temperature": ("K", "95 degC"),
+}
+
+_NUMBER = re.compile(r"^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
+# Offset temperature units read as a difference where a difference is meant.
+_AS_DIFFERENCE = {
+    "degc": "delta_degC", "degf": "delta_degF", "celsius": "delta_degC",
+    "fahrenheit": "delta_degF", "°c": "delta_degC", "°f": "delta_degF",
+    "degree_celsius": "delta_degC", "degree_fahrenheit": "delta_degF",
+    "degr": "delta_degR", "reaumur": "delta_degRe",
+}
+
+
+@functools.lru_cache(maxsize=1)
+def _registry():
+    import pint
+
+    return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+
+
+@functools.lru_cache(maxsize=None)
+def _dimensionality(kind: str):
+    return _registry().parse_units(KINDS[kind][0]).dimensionality
+
+
+@functools.lru_cache(maxsize=4096)
+def _parse_unit(unit: str):
+    """Return (scale, offset, dimensionality) taking ``unit`` to SI base units."""
+    import pint
+
+    ureg = _registry()
+    text = unit.strip()
+    if text.startswith("/"):
+        text = "1" + text
+    try:
+        parsed = ureg.parse_units(text)
+    except (pint.errors.UndefinedUnitError, pint.errors.DefinitionSyntaxError, ValueError,
+            AttributeError, TypeError, SyntaxError) as exc:
+        raise UnitError(f"unknown unit '{unit}'") from exc
+    except Exception as exc:  # pint raises a few more kinds on odd input
+        raise UnitError(f"cannot read unit '{unit}'") from exc
+    zero = ureg.Quantity(0.0, parsed).to_base_units()
+    one = ureg.Quantity(1.0, parsed).to_base_units()
+    return one.magnitude - zero.magnitude, zero.magnitude, parsed.dimensionality
+
+
+def describe(kind: str) -> str:
+    """Return ``"a length, e.g. '40 mm'"`` for error messages."""
+    return f"{kind.replace('_', ' ')}, e.g. '{KINDS[kind][1]}'"
+
+
+def unit_factor(unit: str, kind: str) -> float:
+    """Return the factor that takes a value in ``unit`` to SI base units.
+
+    Raises
+    ------
+    UnitError
+        When the unit is unknown, offset (like degC) or not of ``kind``.
+    """
+    if kind == "temperature_difference" and unit.strip().lower() in _AS_DIFFERENCE:
+        unit = _AS_DIFFERENCE[unit.strip().lower()]
+    scale, offset, dim = _parse_unit(unit)
+    if dim != _dimensionality(kind):
+        raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
+    if offset != 0.0:
+        raise UnitError(f"'{unit}' is an offset unit; use a difference unit such as 'K'")
+    return scale
+
+
+def parse_quantity(value, kind: str) -> float:
+    """Convert a model value such as ``"40 mm"`` to a float in SI base units.
+
+    Parameters
+    ----------
+    value : str
+        A number followed by its unit.  A bare number is refused: the unit is
+        the engineer's statement of what the number means.
+    kind : str
+        One of :data:`KINDS`.  For ``temperature_difference`` an offset unit
+        (``"60 degC"``) is read as a change of that many degrees; for
+        ``temperature`` it is an absolute temperature, returned in kelvin.
+
+    Examples
+    --------
+    >>> parse_quantity("0.25 in", "length")  # 0.25 * 25.4 mm
+    0.00635
+    >>> parse_quantity("95 degC", "temperature") - parse_quantity("20 degC", "temperature")
+    75.0
+    """
+    if isinstance(value, bool) or not isinstance(value, (str, int, float)):
+        raise UnitError(f"expected a {describe(kind)}: got {value!r}")
+    if not isinstance(value, str):
+        raise UnitError(f"a bare number needs a unit: give a {describe(kind)}")
+    match = _NUMBER.match(value)
+    if match is None:
+        raise UnitError(f"expected a number with a unit, a {describe(kind)}: got '{value}'")
+    number, unit = float(match.group(1)), match.group(2)
+    if not unit:
+        raise UnitError(f"'{value}' has no unit: give a {describe(kind)}")
+    if not math.isfinite(number):
+        raise UnitError(f"'{value}' is not a finite number")
+    if kind == "temperature":
+        scale, offset, dim = _parse_unit(unit)
+        if dim != _dimensionality(kind):
+            raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
+        if unit.strip().lower().startswith("delta"):
+            raise UnitError(f"'{value}' is a temperature difference; an absolute temperature is expected here")
+        return float(_registry().Quantity(number, unit).to("kelvin").magnitude)
+    return number * unit_factor(unit, kind)
+
+
+def to_unit(value, unit: str, kind: str):
+    """Convert SI value(s) to ``unit`` (a float or a numpy array)."""
+    return value / unit_factor(unit, kind)
+
+
+_SYSTEMS = {
+    "SI": {"force": "N", "length": "mm", "displacement": "mm", "stress": "MPa"},
+    "US": {"force": "lbf", "length": "in", "displacement": "in", "stress": "psi"},
+}
+_KIND_OF = {"force": "force", "length": "length", "displacement": "length", "stress": "stress"}
+
+
+@dataclass(frozen=True)
+class OutputUnits:
+    """The units results are reported in.
+
+    Parameters
+    ----------
+    force, length, displacement, stress : str
+        Unit names that pint understands; each is checked for its dimension.
+    """
+
+    force: str = "N"
+    length: str = "mm"
+    displacement: str = "mm"
+    stress: str = "MPa"
+
+    def __post_init__(self):
+        for key, kind in _KIND_OF.items():
+            unit_factor(getattr(self, key), kind)
+
+    @classmethod
+    def system(cls, name: str = "SI", **overrides) -> "OutputUnits":
+        """Return the units of system ``"SI"`` or ``"US"`` with any overrides."""
+        if name not in _SYSTEMS:
+            raise UnitError(f"unknown unit system '{name}'", options=tuple(_SYSTEMS))
+        return cls(**{**_SYSTEMS[name], **{k: v for k, v in overrides.items() if v}})
+
+    def factor(self, key: str) -> float:
+        """Return the SI value of one ``key`` unit (``force``, ``length``, ...)."""
+        return unit_factor(getattr(self, key), _KIND_OF[key])
+
+    def as_dict(self) -> dict[str, str]:
+        return {k: getattr(self, k) for k in _KIND_OF}
