@@ -25,7 +25,7 @@ __all__ = ["read_model", "parse_model", "builtin_materials"]
 _TOP_KEYS = ("title", "settings", "units", "materials", "sections", "stations", "segments",
              "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols")
 _KEYS = {
-    "settings": ("reference_temperature", "temperature_change", "gravity"),
+    "settings": ("reference_temperature", "temperature_change", "temperature", "gravity"),
     "units": ("system", "force", "length", "displacement", "stress"),
     "material": ("elastic_modulus", "thermal_expansion", "yield_strength", "density", "source",
                  "description"),
@@ -144,7 +144,7 @@ class _Reader:
         try:
             return parse_quantity(value, kind)
         except ModelError as exc:
-            raise ModelError(f"{key}: {exc.message}", place=place, file=self.source,
+            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
 
@@ -158,13 +158,23 @@ class _Reader:
             self.fail(f"{key}: expected a name in quotes: got {value!r}", table, index, key, place=place)
         return value
 
-    def build(self, cls, kwargs, table=None, index=None, place=None):
-        """Construct a model object, locating the errors its own checks raise."""
+    def build(self, cls, kwargs, table=None, index=None, place=None, raw=None):
+        """Construct a model object, locating the errors its own checks raise.
+
+        ``raw`` is the file's entry: a range error then quotes the value as written
+        (``'-70 GPa'``) rather than its SI float.
+        """
         try:
             return cls(**kwargs)
         except ModelError as exc:
             key = _first_word(exc.message)
-            raise ModelError(exc.message, place=place or exc.place, file=self.source,
+            if raw is not None and key not in raw:  # e.g. "unknown support kind 'fixd'"
+                key = next((k for k, v in raw.items()
+                            if isinstance(v, str) and f"'{v}'" in exc.message), key)
+            message = exc.message
+            if raw is not None and isinstance(raw.get(key), str):
+                message = _RANGE_GOT.sub(lambda m: f"{m.group(1)}: got '{raw[key]}'", message)
+            raise ModelError(message, place=place or exc.place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
 
@@ -181,7 +191,7 @@ class _Reader:
                   for k, kind in kinds.items() if k in entry}
         if "source" in entry:
             kwargs["source"] = self.text(entry["source"], table=table, key="source", place=place)
-        return self.build(Material, {"name": name, **kwargs}, table, place=place)
+        return self.build(Material, {"name": name, **kwargs}, table, place=place, raw=entry)
 
     def section(self, name, entry):
         table = f"sections.{name}"
@@ -208,7 +218,7 @@ class _Reader:
                 self.fail(f"'{key}' does not belong to a {shape} section", table, key=key,
                           place=table, options=allowed[shape])
         return self.build(Section, {"name": name, "shape": shape, "dimensions": tuple(dims.items())},
-                          table, place=table)
+                          table, place=table, raw=entry)
 
     def temperature_pair(self, entry, reference, table, index, place):
         """Return the temperature change of an entry with ``temperature_change`` or
@@ -330,7 +340,7 @@ class _Reader:
             if (gravity and materials[mat_name].density is None):
                 self.fail(f"self-weight needs a density for material '{mat_name}'", table, i,
                           "material", place=place)
-            segments.append(self.build(Segment, kwargs, table, i, place))
+            segments.append(self.build(Segment, kwargs, table, i, place, raw=entry))
 
         supports = []
         for i, entry in enumerate(self.array("supports"), 1):
@@ -347,7 +357,7 @@ class _Reader:
                 kwargs["displacement"] = qs(entry["displacement"], "length", key="displacement")
             if kwargs["kind"] == "settlement" and "displacement" not in entry:
                 self.fail("a settlement support needs 'displacement'", "supports", i, place=place)
-            supports.append(self.build(Support, kwargs, "supports", i, place))
+            supports.append(self.build(Support, kwargs, "supports", i, place, raw=entry))
 
         loads = self.loads(self.array("loads"), station_names, "loads", None, "loads")
 
@@ -376,7 +386,7 @@ class _Reader:
                       "clearance": self.quantity(entry["clearance"], "length", table="gaps",
                                                  index=i, key="clearance", place=place),
                       "kind": entry.get("kind", "contact"), "side": entry.get("side")}
-            gaps.append(self.build(Gap, kwargs, "gaps", i, place))
+            gaps.append(self.build(Gap, kwargs, "gaps", i, place, raw=entry))
 
         cases = []
         for i, entry in enumerate(self.array("cases"), 1):
@@ -486,6 +496,9 @@ class _Reader:
                 out.append((name, t - reference if kind == "temperature" else t))
             return tuple(out)
         return ()
+
+
+_RANGE_GOT = re.compile(r"^(\w+ must (?:be positive|not be negative|be a finite number)): got .*$")
 
 
 def _first_word(message: str) -> str | None:

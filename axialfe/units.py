@@ -38,11 +38,12 @@ KINDS: dict[str, tuple[str, str]] = {
 
 _NUMBER = re.compile(r"^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
 # Offset temperature units read as a difference where a difference is meant.
+# (Any other offset unit pint knows is read the same way in unit_factor; note
+# that pint's 'degR' is the Rankine scale, which has no offset.)
 _AS_DIFFERENCE = {
     "degc": "delta_degC", "degf": "delta_degF", "celsius": "delta_degC",
     "fahrenheit": "delta_degF", "°c": "delta_degC", "°f": "delta_degF",
     "degree_celsius": "delta_degC", "degree_fahrenheit": "delta_degF",
-    "degr": "delta_degR", "reaumur": "delta_degRe",
 }
 
 
@@ -79,9 +80,23 @@ def _parse_unit(unit: str):
     return one.magnitude - zero.magnitude, zero.magnitude, parsed.dimensionality
 
 
+def _kind_of(dim) -> str | None:
+    """Name the kind(s) of value a dimensionality belongs to, for error messages."""
+    names = [k for k in KINDS if k != "temperature_difference" and _dimensionality(k) == dim]
+    return " or ".join(n.replace("_", " ") for n in names) or None
+
+
 def describe(kind: str) -> str:
     """Return ``"a length, e.g. '40 mm'"`` for error messages."""
     return f"{kind.replace('_', ' ')}, e.g. '{KINDS[kind][1]}'"
+
+
+def _check_dimension(unit: str, dim, kind: str):
+    if dim != _dimensionality(kind):
+        found = _kind_of(dim)
+        if found:
+            raise UnitError(f"'{unit}' is a unit of {found}, not of {describe(kind)}")
+        raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
 
 
 def unit_factor(unit: str, kind: str) -> float:
@@ -95,8 +110,9 @@ def unit_factor(unit: str, kind: str) -> float:
     if kind == "temperature_difference" and unit.strip().lower() in _AS_DIFFERENCE:
         unit = _AS_DIFFERENCE[unit.strip().lower()]
     scale, offset, dim = _parse_unit(unit)
-    if dim != _dimensionality(kind):
-        raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
+    _check_dimension(unit, dim, kind)
+    if offset != 0.0 and kind == "temperature_difference":
+        return scale  # a change of that many degrees
     if offset != 0.0:
         raise UnitError(f"'{unit}' is an offset unit; use a difference unit such as 'K'")
     return scale
@@ -136,8 +152,7 @@ def parse_quantity(value, kind: str) -> float:
         raise UnitError(f"'{value}' is not a finite number")
     if kind == "temperature":
         scale, offset, dim = _parse_unit(unit)
-        if dim != _dimensionality(kind):
-            raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
+        _check_dimension(unit, dim, kind)
         if unit.strip().lower().startswith("delta"):
             raise UnitError(f"'{value}' is a temperature difference; an absolute temperature is expected here")
         return float(_registry().Quantity(number, unit).to("kelvin").magnitude)
