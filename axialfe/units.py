@@ -87,8 +87,13 @@ def _kind_of(dim) -> str | None:
 
 
 def describe(kind: str) -> str:
-    """Return ``"a length, e.g. '40 mm'"`` for error messages."""
+    """Return ``"length, e.g. '40 mm'"`` for error messages."""
     return f"{kind.replace('_', ' ')}, e.g. '{KINDS[kind][1]}'"
+
+
+def _a(kind: str) -> str:
+    """Return ``"a length, e.g. '40 mm'"`` or ``"an area, ..."``."""
+    return ("an " if kind[0] in "aeiou" else "a ") + describe(kind)
 
 
 def _check_dimension(unit: str, dim, kind: str):
@@ -139,15 +144,15 @@ def parse_quantity(value, kind: str) -> float:
     75.0
     """
     if isinstance(value, bool) or not isinstance(value, (str, int, float)):
-        raise UnitError(f"expected a {describe(kind)}: got {value!r}")
+        raise UnitError(f"expected {_a(kind)}: got {value!r}")
     if not isinstance(value, str):
-        raise UnitError(f"a bare number needs a unit: give a {describe(kind)}")
+        raise UnitError(f"a bare number needs a unit: give {_a(kind)}")
     match = _NUMBER.match(value)
     if match is None:
-        raise UnitError(f"expected a number with a unit, a {describe(kind)}: got '{value}'")
+        raise UnitError(f"expected a number with a unit, {_a(kind)}: got '{value}'")
     number, unit = float(match.group(1)), match.group(2)
     if not unit:
-        raise UnitError(f"'{value}' has no unit: give a {describe(kind)}")
+        raise UnitError(f"'{value}' has no unit: give {_a(kind)}")
     if not math.isfinite(number):
         raise UnitError(f"'{value}' is not a finite number")
     if kind == "temperature":
