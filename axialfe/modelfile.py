@@ -387,6 +387,13 @@ class _Reader:
                 self.fail("a case needs 'name'", "cases", i, place=place)
             case_loads = self.loads(entry.get("loads", []), station_names, "cases", i, place)
             temps = self.case_temperatures(entry, reference, i, place)
+            seg_names = {seg.name for seg in segments}
+            for name, _ in temps:
+                if name != "all" and name not in seg_names:
+                    key = "temperature" if "temperature" in entry else "temperature_change"
+                    self.fail(f"unknown segment '{name}' in {key}", "cases", i, key, place=place,
+                              hint=suggest(name, seg_names))
+            settled = sorted({sp.at for sp in supports if sp.kind == "settlement"})
             settlements = []
             for s in entry.get("settlements", []):
                 if not isinstance(s, dict):
@@ -397,6 +404,10 @@ class _Reader:
                     self.fail("a settlement needs 'at' and 'displacement'", "cases", i,
                               "settlements", place=place)
                 st = self.name_ref(s["at"], station_names, "station", "cases", i, "settlements", place)
+                if st not in settled:
+                    self.fail(f"station '{st}' has no settlement support to move", "cases", i,
+                              "settlements", place=f"{place} settlements",
+                              hint=suggest(st, settled), options=settled or None)
                 settlements.append((st, self.quantity(s["displacement"], "length", table="cases",
                                                       index=i, key="settlements", place=place)))
             cases.append(self.build(Case, {"name": self.text(entry["name"], table="cases", index=i,

@@ -311,7 +311,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     notes: list[str] = []
 
     def lost(exc, s):
-        return SolveError(f"{exc.message} at {parameter} = {to_user(s):.6g} {unit}", file=model.source)
+        shown = f"{to_user(s):.6g}" + ("" if unit == "1" else f" {unit}")
+        return SolveError(f"{exc.message} at {parameter} = {shown}", file=model.source)
 
     s = s_start
     try:
