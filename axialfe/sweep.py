@@ -12,7 +12,7 @@ serves the whole sweep.
 from __future__ import annotations
 
 from collections.abc import Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -53,6 +53,7 @@ class _Interval:
     closed: np.ndarray
     lam: tuple[np.ndarray, np.ndarray]    # value at s = 0 and slope
     shift: tuple[np.ndarray, np.ndarray]
+    u: tuple[np.ndarray, np.ndarray]      # displacements: affine too, two solves
 
 
 class _Steps(Sequence):
@@ -189,10 +190,8 @@ class _Tracker:
         g = len(system.model.gaps)
         if g == 0:
             return np.zeros(0, dtype=bool)
-        lam, shift = solve_gaps(self.M, self.H, self._at(self.o0, s), self._at(self.f, s), system)
-        opening = self._at(self.o0, s) + self.M @ lam - self.H @ shift
-        scale = max(np.abs(opening).max(initial=0), system.clearance.max(initial=0), 1e-300)
-        return opening <= 1e-9 * scale
+        return solve_gaps(self.M, self.H, self._at(self.o0, s), self._at(self.f, s), system,
+                          with_state=True)[2]
 
     def affine_forces(self, closed):
         """Gap forces and rigid shifts for a fixed closed set, affine in s."""
@@ -218,12 +217,22 @@ class _Tracker:
         iv = self.interval_of(s)
         return self._result(iv, s)
 
+    def interval(self, s_from, s_to, closed, lam, shift) -> _Interval:
+        """The interval of one gap state; u is affine in s, so two solves serve all its steps."""
+        def u_at(s):
+            return self.system.displacements(
+                self._at(self.F, s), self._at(self.up, s),
+                self._at(lam, s) if lam[0].size else None,
+                self._at(shift, s) if shift[0].size else None)
+
+        u0 = u_at(0.0)
+        return _Interval(s_from, s_to, closed, lam, shift, (u0, u_at(1.0) - u0))
+
     def _result(self, iv: _Interval, s: float) -> CaseResult:
         system = self.system
         F = self._at(self.F, s)
         lam = self._at(iv.lam, s) if iv.lam[0].size else np.zeros(0)
-        shift = self._at(iv.shift, s) if iv.shift[0].size else None
-        u = system.displacements(F, self._at(self.up, s), lam if lam.size else None, shift)
+        u = self._at(iv.u, s)
         terms = tuple(self._at(t, s) for t in self.terms)
         return system.recover(self.state(s), u, F, np.maximum(lam, 0.0) if lam.size else lam, terms)
 
@@ -322,7 +331,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     first = True
     for _ in range(10_000 + 100 * g):
         lam, shift = tracker.affine_forces(closed) if g else ((np.zeros(0),) * 2, (np.zeros(0),) * 2)
-        iv_probe = _Interval(s, s_stop, closed, lam, shift)
+        iv_probe = tracker.interval(s, s_stop, closed, lam, shift)
         # gap events: a closed gap's force, or an open gap's opening, reaching zero
         candidates = []
         if g:
@@ -364,7 +373,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
                              f"{parameter} = {to_user(s_y):.6g} {unit}; beyond it the sweep stays "
                              "linear-elastic and the results are not valid for a yielded part")
         first = False
-        tracker.intervals.append(_Interval(s, s_next, closed, lam, shift))
+        tracker.intervals.append(replace(iv_probe, s_to=s_next))
         if s_next == s_stop:
             break
         try:

@@ -260,3 +260,20 @@ def test_contact_state_matches_brute_force(model):
     assert found, "the brute-force search found no complementary state"
     u_ref = found[0][1]
     assert_close(case.u, u_ref, rel=1e-7, abs_=1e-12 + 1e-7 * np.abs(u_ref).max())
+
+
+def test_residual_detects_an_unbalanced_solution():
+    # The residual is an independent check: recovering forces from slightly wrong
+    # displacements must show the imbalance at about the size of the error.
+    from axialfe.loading import load_states
+    from axialfe.solve import System
+
+    model = bar_with_stop(90e3, 1.5, 1e-3)
+    system = System(model)
+    state = load_states(model)[0]
+    F, up, terms = system.state_vectors(state)
+    lam, shift = system.contact(F, up)
+    u = system.displacements(F, up, lam, shift)
+    assert system.recover(state, u, F, lam, terms).equilibrium_residual < 1e-12
+    wrong = u * (1 + 1e-6 * np.arange(len(u)))
+    assert system.recover(state, wrong, F, lam, terms).equilibrium_residual > 1e-7
