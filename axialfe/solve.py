@@ -290,6 +290,8 @@ def _bpp(M, q, scale_q, names):
     Returns z.  Falls back to one pivot at a time (Murty's least-index rule,
     finite for P-matrices) when the number of infeasibilities stops falling.
     """
+    from scipy.linalg import cho_factor, cho_solve
+
     n = len(q)
     diag = np.maximum(np.diag(M), 1e-300)
     tol_w = 1e-11 * scale_q
@@ -301,14 +303,13 @@ def _bpp(M, q, scale_q, names):
         if closed.any():
             sub = M[np.ix_(closed, closed)]
             try:
-                L = np.linalg.cholesky(sub)
+                factor = cho_factor(sub, check_finite=False)
             except np.linalg.LinAlgError:
                 raise SolveError("the contact state is not unique: gaps "
                                  f"{_names([names[i] for i in np.flatnonzero(closed)])} act "
                                  "together on the same stations, so their forces cannot be "
                                  "told apart; remove the redundant gap") from None
-            y = np.linalg.solve(L, -q[closed])
-            z[closed] = np.linalg.solve(L.T, y)
+            z[closed] = cho_solve(factor, -q[closed], check_finite=False)
         w = q + M @ z
         bad = (closed & (z < -tol_z)) | (~closed & (w < -tol_w))
         count = int(bad.sum())
