@@ -25,7 +25,7 @@ __all__ = ["read_model", "parse_model", "builtin_materials"]
 _TOP_KEYS = ("title", "settings", "units", "materials", "sections", "stations", "segments",
              "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols")
 _KEYS = {
-    "settings": ("reference_temperature", "temperature_change", "gravity"),
+    "settings": ("reference_temperature", "temperature_change", "temperature", "gravity"),
     "units": ("system", "force", "length", "displacement", "stress"),
     "material": ("elastic_modulus", "thermal_expansion", "yield_strength", "density", "source",
                  "description"),
