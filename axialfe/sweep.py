@@ -102,13 +102,14 @@ class SweepResult:
     model: Model
     case: str
 
-    def to_dict(self, units=None) -> dict:
+    def to_dict(self, units=None, steps=None) -> dict:
+        """Plain numbers in ``units``; ``steps`` may wrap :attr:`results` (a progress bar)."""
         units = units or self.model.units
         return {"title": self.model.title, "units": units.as_dict(), "parameter": self.parameter,
                 "unit": self.unit, "case": self.case, "values": self.values.tolist(),
                 "events": [{"name": e.name, "event": e.event, "value": e.value} for e in self.events],
                 "notes": list(self.notes),
-                "cases": [r.to_dict(units) for r in self.results]}
+                "cases": [r.to_dict(units) for r in (self.results if steps is None else steps)]}
 
     def __repr__(self):
         return (f"<SweepResult of {self.parameter} over {self.values[0]:g}..{self.values[-1]:g} "

@@ -18,9 +18,11 @@ def _steps(result, progress):
     if not progress:
         yield from result.results
         return
+    import sys
+
     import typer
 
-    with typer.progressbar(result.results, label="steps", file=None) as bar:
+    with typer.progressbar(result.results, label="solving steps", file=sys.stderr) as bar:
         yield from bar
 
 
@@ -66,9 +68,8 @@ def sweep_summary(result, units) -> str:
 
 
 def sweep_json(result, units, progress=False) -> str:
-    d = result.to_dict(units) if not progress else None
-    if d is None:
-        d = result.to_dict(units) | {}
+    """The JSON form: the keys of :meth:`SweepResult.to_dict` and the cautions."""
+    d = result.to_dict(units, steps=_steps(result, progress))
     d["cautions"] = list(CAUTIONS)
     return json.dumps(d) + "\n"
 
