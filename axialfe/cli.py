@@ -23,8 +23,8 @@ app = typer.Typer(add_completion=False, no_args_is_help=True,
 
 EXIT_INPUT = 2
 
-ModelPath = Annotated[Path, typer.Argument(exists=True, dir_okay=False, readable=True,
-                                           help="The model file (TOML).")]
+# The reader itself reports a missing or unreadable file, on one line like every input error.
+ModelPath = Annotated[Path, typer.Argument(help="The model file (TOML).")]
 
 
 class Format(str, Enum):

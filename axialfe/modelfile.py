@@ -163,7 +163,8 @@ class _Reader:
         try:
             return cls(**kwargs)
         except ModelError as exc:
-            key = _first_word(exc.message)
+            key = _key_in(exc.message, [_FILE_KEY.get(k, k) for k in kwargs]
+                          + [k for k, _ in kwargs.get("dimensions", ())])
             raise ModelError(exc.message, place=place or exc.place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
@@ -499,9 +500,13 @@ class _Reader:
         return ()
 
 
-def _first_word(message: str) -> str | None:
-    m = re.match(r"'?([a-z_]+)'?", message)
-    return m.group(1) if m else None
+_FILE_KEY = {"start": "from", "end": "to", "stations": "between"}
+
+
+def _key_in(message: str, keys) -> str | None:
+    """The file key that a validation message speaks of (the first one it names)."""
+    found = [(m.start(), k) for k in keys if k and (m := re.search(rf"\b{re.escape(k)}\b", message))]
+    return min(found)[1] if found else None
 
 
 def parse_model(text: str, source: str | None = None) -> Model:
@@ -533,6 +538,10 @@ def read_model(path) -> Model:
     path = Path(path)
     try:
         text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ModelError("the model file does not exist", file=str(path)) from None
+    except IsADirectoryError:
+        raise ModelError("this is a folder, not a model file", file=str(path)) from None
     except (OSError, UnicodeDecodeError) as exc:
         raise ModelError(f"cannot read the model file: {exc.__class__.__name__}: {exc}",
                          file=str(path)) from exc
