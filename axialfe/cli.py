@@ -23,8 +23,8 @@ app = typer.Typer(add_completion=False, no_args_is_help=True,
 
 EXIT_INPUT = 2
 
-ModelPath = Annotated[Path, typer.Argument(exists=True, dir_okay=False, readable=True,
-                                           help="The model file (TOML).")]
+# The reader itself reports a missing or unreadable file, on one line like every input error.
+ModelPath = Annotated[Path, typer.Argument(help="The model file (TOML).")]
 
 
 class Format(str, Enum):
@@ -127,6 +127,56 @@ def materials():
         typer.echo(f"    source             {entry['source']}")
     typer.echo("\nA model's own [materials] entry of the same name takes precedence. Values are "
                "typical: verify against your material certificate.")
+
+
+class SweepFormat(str, Enum):
+    table = "table"
+    json = "json"
+    csv = "csv"
+
+
+@app.command()
+def sweep(model: ModelPath,
+          temperature_change: Annotated[Optional[str], typer.Option(
+              "--temperature-change", help="Range of the change, e.g. '-40 K..120 K': replaces "
+              "every segment's thermal input.")] = None,
+          temperature: Annotated[Optional[str], typer.Option(
+              "--temperature", help="Range of absolute temperature against "
+              "settings.reference_temperature, e.g. '-20 degC..150 degC'.")] = None,
+          load_factor: Annotated[Optional[str], typer.Option(
+              "--load-factor", help="Range of the factor on point and distributed loads, e.g. "
+              "'0..2'.")] = None,
+          steps: Annotated[int, typer.Option("--steps", help="Grid points, both ends included.")] = 101,
+          case: Annotated[Optional[str], typer.Option("--case", help="Case to sweep (default: the first).")] = None,
+          format: Annotated[SweepFormat, typer.Option("--format", "-f", help="Output format.")] = SweepFormat.table,
+          output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+    """Solve a case along a temperature or load range and report the exact events."""
+    from .errors import ModelError
+    from .modelfile import read_model
+    from .sweep import parse_range, sweep as run
+    from .sweepout import sweep_csv, sweep_json, sweep_summary
+
+    with user_errors():
+        given = [(p, v) for p, v in (("temperature_change", temperature_change),
+                                     ("temperature", temperature), ("load_factor", load_factor))
+                 if v is not None]
+        if len(given) != 1:
+            raise ModelError("give exactly one of --temperature-change, --temperature or "
+                             "--load-factor")
+        parameter, text = given[0]
+        start, stop, unit = parse_range(text, parameter)
+        m = read_model(model)
+        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case)
+        long = steps * max(len(m.segments), 1) > 200_000 and format is not SweepFormat.table
+        if format is SweepFormat.table:
+            text_out = sweep_summary(result, units)
+        elif format is SweepFormat.json:
+            text_out = sweep_json(result, units, progress=long)
+        else:
+            text_out = sweep_csv(result, units, progress=long)
+        emit(text_out, output)
 
 
 def main():  # pragma: no cover - entry point

@@ -167,10 +167,8 @@ class _Reader:
         try:
             return cls(**kwargs)
         except ModelError as exc:
-            key = _first_word(exc.message)
-            if raw is not None and key not in raw:  # e.g. "unknown support kind 'fixd'"
-                key = next((k for k, v in raw.items()
-                            if isinstance(v, str) and f"'{v}'" in exc.message), key)
+            key = _key_in(exc.message, [_FILE_KEY.get(k, k) for k in kwargs]
+                          + [k for k, _ in kwargs.get("dimensions", ())])
             message = exc.message
             if raw is not None and isinstance(raw.get(key), str):
                 message = _RANGE_GOT.sub(lambda m: f"{m.group(1)}: got '{raw[key]}'", message)
@@ -397,6 +395,13 @@ class _Reader:
                 self.fail("a case needs 'name'", "cases", i, place=place)
             case_loads = self.loads(entry.get("loads", []), station_names, "cases", i, place)
             temps = self.case_temperatures(entry, reference, i, place)
+            seg_names = {seg.name for seg in segments}
+            for name, _ in temps:
+                if name != "all" and name not in seg_names:
+                    key = "temperature" if "temperature" in entry else "temperature_change"
+                    self.fail(f"unknown segment '{name}' in {key}", "cases", i, key, place=place,
+                              hint=suggest(name, seg_names))
+            settled = sorted({sp.at for sp in supports if sp.kind == "settlement"})
             settlements = []
             for s in entry.get("settlements", []):
                 if not isinstance(s, dict):
@@ -407,6 +412,10 @@ class _Reader:
                     self.fail("a settlement needs 'at' and 'displacement'", "cases", i,
                               "settlements", place=place)
                 st = self.name_ref(s["at"], station_names, "station", "cases", i, "settlements", place)
+                if st not in settled:
+                    self.fail(f"station '{st}' has no settlement support to move", "cases", i,
+                              "settlements", place=f"{place} settlements",
+                              hint=suggest(st, settled), options=settled or None)
                 settlements.append((st, self.quantity(s["displacement"], "length", table="cases",
                                                       index=i, key="settlements", place=place)))
             cases.append(self.build(Case, {"name": self.text(entry["name"], table="cases", index=i,
@@ -499,11 +508,13 @@ class _Reader:
 
 
 _RANGE_GOT = re.compile(r"^(\w+ must (?:be positive|not be negative|be a finite number)): got .*$")
+_FILE_KEY = {"start": "from", "end": "to", "stations": "between"}
 
 
-def _first_word(message: str) -> str | None:
-    m = re.match(r"'?([a-z_]+)'?", message)
-    return m.group(1) if m else None
+def _key_in(message: str, keys) -> str | None:
+    """The file key that a validation message speaks of (the first one it names)."""
+    found = [(m.start(), k) for k in keys if k and (m := re.search(rf"\b{re.escape(k)}\b", message))]
+    return min(found)[1] if found else None
 
 
 def parse_model(text: str, source: str | None = None) -> Model:
@@ -535,6 +546,10 @@ def read_model(path) -> Model:
     path = Path(path)
     try:
         text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ModelError("the model file does not exist", file=str(path)) from None
+    except IsADirectoryError:
+        raise ModelError("this is a folder, not a model file", file=str(path)) from None
     except (OSError, UnicodeDecodeError) as exc:
         raise ModelError(f"cannot read the model file: {exc.__class__.__name__}: {exc}",
                          file=str(path)) from exc

@@ -17,7 +17,8 @@ from dataclasses import dataclass
 
 from .errors import UnitError
 
-__all__ = ["KINDS", "OutputUnits", "parse_quantity", "unit_factor", "to_unit", "describe"]
+__all__ = ["KINDS", "OutputUnits", "parse_quantity", "unit_factor", "to_unit", "describe",
+           "temperature_to_kelvin", "kelvin_to_temperature", "split_quantity"]
 
 # Each kind of value, the reference unit that fixes its dimension, and an example
 # shown when a unit is missing or wrong.
@@ -208,3 +209,24 @@ class OutputUnits:
 
     def as_dict(self) -> dict[str, str]:
         return {k: getattr(self, k) for k in _KIND_OF}
+
+
+def temperature_to_kelvin(value: float, unit: str) -> float:
+    """An absolute temperature in ``unit`` (degC, degF, K, ...) in kelvin."""
+    return float(_registry().Quantity(value, unit).to("kelvin").magnitude)
+
+
+def kelvin_to_temperature(value, unit: str):
+    """Absolute temperature(s) in kelvin expressed in ``unit``."""
+    import numpy as np
+
+    q = _registry().Quantity(np.asarray(value, dtype=float), "kelvin").to(unit)
+    return q.magnitude
+
+
+def split_quantity(text: str) -> tuple[float, str]:
+    """Split ``"-40 K"`` into (-40.0, 'K'); the unit may be empty."""
+    match = _NUMBER.match(text)
+    if match is None:
+        raise UnitError(f"expected a number with a unit: got '{text}'")
+    return float(match.group(1)), match.group(2)
