@@ -254,8 +254,8 @@ class _Reader:
         data = self.data
         for key in data:
             if key not in _TOP_KEYS:
-                self.fail(f"unknown key '{key}'", key=key, place="top level",
-                          hint=suggest(key, _TOP_KEYS))
+                self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
+                          else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))
         title = data.get("title", Path(self.source).stem if self.source else "axial model")
         settings = data.get("settings", {})
         self.keys(settings, _KEYS["settings"], "settings", place="settings")
@@ -311,7 +311,8 @@ class _Reader:
                     builtins = builtin_materials()
                 if mat_name not in builtins:
                     self.fail(f"unknown material '{mat_name}'", table, i, "material", place=place,
-                              hint=suggest(mat_name, [*materials, *builtins]))
+                              hint=suggest(mat_name, [*materials, *builtins]),
+                              options=[*materials, *builtins])
                 materials[mat_name] = builtins[mat_name]
             sec = self.name_ref(entry["section"], sections, "section", table, i, "section", place)
             end_sec = (self.name_ref(entry["end_section"], sections, "section", table, i,

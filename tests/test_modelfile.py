@@ -355,3 +355,21 @@ def test_own_material_takes_precedence_over_builtin():
     model = parse_model(text, "bar.toml")
     assert model.segments[1].material.elastic_modulus == 190e9
     assert parse_model(BASE).segments[1].material.elastic_modulus == 200e9
+
+
+def test_unknown_material_without_close_match_lists_the_materials():
+    assert error(edit(L_SEG2_MAT, 'material = "steel"')) == (
+        "bar.toml:29: segments[2]: unknown material 'steel'; expected one of: 'housing-alloy', "
+        "'structural-steel', 'stainless-steel', 'aluminium-alloy', 'copper', 'brass', 'bronze', "
+        "'titanium-alloy', 'grey-cast-iron'")
+
+
+def test_misspelt_table_header_points_at_its_line():
+    assert error(edit(32, "[[support]]")) == (
+        "bar.toml:32: top level: unknown key 'support'; did you mean 'supports'?")
+
+
+def test_name_differing_in_case_is_suggested():
+    # 'JOINT' and 'joint' share no letter of the same case: the plain ratio finds nothing
+    assert error(edit(L_SEG2_FROM, 'from = "JOINT"')) == (
+        "bar.toml:27: segments[2]: unknown station 'JOINT'; did you mean 'joint'?")
