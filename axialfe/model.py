@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from types import MappingProxyType
 
 from .errors import ModelError, suggest
 from .units import OutputUnits
@@ -430,7 +429,7 @@ class Model:
             if st.name in index:
                 raise ModelError(f"station '{st.name}' is defined twice", place="stations")
             index[st.name] = i
-        object.__setattr__(self, "_station_index", MappingProxyType(index))
+        object.__setattr__(self, "_station_index", index)  # private: never handed out
         if not self.segments:
             raise ModelError("a model needs at least one segment", place="segments")
         names = {}
@@ -449,7 +448,7 @@ class Model:
             if isinstance(x0, float) and isinstance(x1, float) and x0 == x1:
                 raise ModelError(f"stations '{seg.start}' and '{seg.end}' stand at the same "
                                  "position; a segment needs a length", place=place)
-        object.__setattr__(self, "_segment_index", MappingProxyType(names))
+        object.__setattr__(self, "_segment_index", names)
         kinds_at = {}
         for i, sup in enumerate(self.supports):
             self._need_station(sup.at, f"supports[{i + 1}]")

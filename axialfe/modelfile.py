@@ -15,6 +15,7 @@ import tomllib
 from importlib import resources
 from pathlib import Path
 
+from ._gcpause import gc_paused
 from .errors import ModelError, suggest
 from .model import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
@@ -525,12 +526,14 @@ def parse_model(text: str, source: str | None = None) -> Model:
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
     try:
-        data = tomllib.loads(text)
+        with gc_paused():
+            data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
         raise ModelError(f"not valid TOML: {exc}", file=source,
                          line=int(m.group(1)) if m else None) from exc
-    return _Reader(data, source, text).model()
+    with gc_paused():
+        return _Reader(data, source, text).model()
 
 
 def read_model(path) -> Model:
