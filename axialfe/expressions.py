@@ -380,10 +380,8 @@ def parse_expression(text: str, symbols=None, kind: str | None = None) -> Expres
     if kind is not None:
         want = _dims(kind_dimensions(kind))
         if dims != want:
-            from .units import describe
-
-            raise UnitError(f"'{text}' is {describe_dimensions(dims)}, but {describe(kind)} "
-                            "is expected here")
+            raise UnitError(f"'{text}' is {describe_dimensions(dims)}, but "
+                            f"{describe_dimensions(want)} is expected here, e.g. '{KINDS[kind][1]}'")
     return Expression(text, tree, dims, frozenset(parser.names))
 
 

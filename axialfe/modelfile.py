@@ -346,7 +346,7 @@ class _Reader:
         for name, value in st_table.items():
             x = self.quantity(value, "length", table="stations", key=name, place="stations")
             stations.append(Station(name, x))
-        station_names = tuple(st_table)
+        station_names = dict.fromkeys(st_table)  # ordered, with O(1) look-ups
 
         builtins = None
         segments = []
