@@ -193,7 +193,7 @@ def _element(seg, length, g_local, exact):
     _, p2, q2 = _section_factors(s1, exact)
     a1, a2 = c * p1 * q1, c * p2 * q2
     L = length
-    if sympy.simplify(p1 - p2) == 0 and sympy.simplify(q1 - q2) == 0:
+    if sympy.cancel(p1 - p2) == 0 and sympy.cancel(q1 - q2) == 0:
         k = E * a1 / L
         return k, a1, a1, L**2 / (2 * E * a1), rho * g_local * a1 * L, rho * g_local * L**2 / (2 * E)
     dp, dq = (p2 - p1) / L, (q2 - q1) / L
@@ -271,7 +271,7 @@ def _tidy(expr):
     """Simplify one result: cancel to one fraction, then factor when that is shorter."""
     expr = _rat(expr)
     if expr.is_number:
-        return sympy.nsimplify(expr) if expr.is_Float else sympy.simplify(expr)
+        return sympy.cancel(expr)
     e = sympy.cancel(expr)
     f = sympy.factor(e)
     best = f if sympy.count_ops(f) <= sympy.count_ops(e) else e

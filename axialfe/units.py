@@ -155,8 +155,9 @@ def unit_base(unit: str, difference: bool = False) -> tuple[float, dict[str, flo
 
     Examples
     --------
-    >>> unit_base("kN")
-    (1000.0, {'[length]': 1, '[mass]': 1, '[time]': -2})
+    >>> scale, dims = unit_base("kN")
+    >>> scale, sorted(dims.items())
+    (1000.0, [('[length]', 1), ('[mass]', 1), ('[time]', -2)])
     """
     if difference and unit.strip().lower() in _AS_DIFFERENCE:
         unit = _AS_DIFFERENCE[unit.strip().lower()]
