@@ -396,6 +396,10 @@ class Model:
     title : str
     source : str, optional
         The model file's name, for messages.
+    symbols : tuple of SymbolDef
+        The symbols declared in the file's ``[symbols]`` (closed form).  A
+        model read with ``symbolic=True`` holds sympy expressions of them in
+        place of floats; the checks above skip values that are not floats.
 
     Raises
     ------
@@ -419,10 +423,12 @@ class Model:
     source: str | None = None
     checks: CheckSettings = field(default_factory=CheckSettings)
     limits: tuple[Limit, ...] = ()
+    # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
+    symbols: tuple = ()
 
     def __post_init__(self):
         for key in ("stations", "segments", "supports", "loads", "gaps", "cases",
-                    "combinations", "limits"):
+                    "combinations", "limits", "symbols"):
             object.__setattr__(self, key, tuple(getattr(self, key)))
         index = {}
         for i, st in enumerate(self.stations):
