@@ -15,10 +15,11 @@ import tomllib
 from importlib import resources
 from pathlib import Path
 
+from ._gcpause import gc_paused
 from .errors import ModelError, suggest
 from .model import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
-from .units import OutputUnits, parse_quantity
+from .units import OutputUnits, parse_quantity, split_quantity
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
 
@@ -118,10 +119,15 @@ def builtin_materials() -> dict[str, Material]:
 class _Reader:
     """Turns the parsed TOML tables into model objects, locating every error."""
 
-    def __init__(self, data: dict, source: str | None, text: str | None):
+    def __init__(self, data: dict, source: str | None, text: str | None, symbolic: bool = False):
         self.data = data
         self.source = source
         self.locator = _Locator(text) if text is not None else None
+        # closed form: declared symbols (name -> SymbolDef); with ``symbolic`` every
+        # value becomes an exact sympy expression instead of a float
+        self.symbolic = symbolic
+        self.symbols = {}
+        self.sympy_symbols = {}
 
     # --- errors ---------------------------------------------------------
     def fail(self, message, table=None, index=None, key=None, place=None, hint=None, options=None):
@@ -142,11 +148,68 @@ class _Reader:
     def quantity(self, value, kind, *, table=None, index=None, key=None, place=None):
         """Convert one value to SI, locating any unit error at ``key``."""
         try:
+            if self.symbolic or (isinstance(value, str) and self._is_expression(value)):
+                return self.expression(value, kind)
             return parse_quantity(value, kind)
         except ModelError as exc:
             raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
+
+    # --- closed form: symbols and expressions ------------------------------
+    _OPERATOR = re.compile(r"[-+*()]")
+
+    def _is_expression(self, value: str) -> bool:
+        """True for a value the expression parser reads: one naming a declared symbol,
+        or one with operators; plain "number unit" strings keep the fast path."""
+        if self.symbols and not self.symbols.keys().isdisjoint(_expr().NAME.findall(value)):
+            return True
+        parts = split_quantity(value)
+        if parts is None:
+            return bool(self.symbols) or bool(self._OPERATOR.search(value))
+        return bool(self._OPERATOR.search(parts[1]))
+
+    def expression(self, value, kind):
+        """A value through the expression parser: a float, or sympy when symbolic."""
+        ex = _expr()
+        if kind == "temperature":
+            if isinstance(value, str) and self._is_expression(value):
+                raise ModelError(f"'{value}': an absolute temperature cannot be an expression "
+                                 "or a symbol; use 'temperature_change' for a symbolic change")
+            t = parse_quantity(value, kind)
+            return _rational(ex.exact_decimal(t)) if self.symbolic else t
+        if not isinstance(value, str) or not self._is_expression(value):
+            parse_quantity(value, kind)  # the plain path's checks and messages
+        dims = {name: sym.dims for name, sym in self.symbols.items()}
+        parsed = ex.parse_expression(value, dims, kind)
+        if self.symbolic:
+            return parsed.sympy(self.sympy_symbols)
+        missing = [n for n in sorted(parsed.names) if self.symbols[n].value is None]
+        if missing:
+            raise ModelError(f"symbol '{missing[0]}' has no value: give it one in [symbols] to "
+                             "solve numerically, or see its closed form with 'axialfe closed-form'")
+        return float(parsed.value({n: self.symbols[n].value for n in parsed.names}))
+
+    def read_symbols(self):
+        """Read ``[symbols]``: name = "18 kN" or name = { unit = "mm" }."""
+        table = self.data.get("symbols", {})
+        if not isinstance(table, dict):
+            self.fail("[symbols] must be a table of name = \"value unit\"", "symbols",
+                      place="symbols")
+        if not table:
+            return
+        ex = _expr()
+        for name, entry in table.items():
+            try:
+                self.symbols[name] = ex.read_symbol(name, entry)
+            except ModelError as exc:
+                raise ModelError(f"{name}: {exc.message}", place="symbols", file=self.source,
+                                 line=self.line("symbols", None, name), hint=exc.hint,
+                                 options=exc.options) from exc
+        if self.symbolic:
+            import sympy
+
+            self.sympy_symbols = {name: sympy.Symbol(name, real=True) for name in self.symbols}
 
     def number(self, value, *, table=None, index=None, key=None, place=None):
         if isinstance(value, bool) or not isinstance(value, (int, float)):
@@ -206,7 +269,7 @@ class _Reader:
                           "'inner_diameter'", table, place=table)
             if "wall_thickness" in dims and "outer_diameter" in dims:
                 dims["inner_diameter"] = dims["outer_diameter"] - 2 * dims.pop("wall_thickness")
-                if dims["inner_diameter"] < 0:
+                if _surely_negative(dims["inner_diameter"]):
                     self.fail("wall_thickness is more than half the outer diameter", table,
                               key="wall_thickness", place=table)
         allowed = {"round": ("diameter",), "tube": ("outer_diameter", "inner_diameter"),
@@ -257,6 +320,7 @@ class _Reader:
                 self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
                           else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))
         title = data.get("title", Path(self.source).stem if self.source else "axial model")
+        self.read_symbols()
         settings = data.get("settings", {})
         self.keys(settings, _KEYS["settings"], "settings", place="settings")
         q = functools.partial(self.quantity, table="settings", place="settings")
@@ -291,7 +355,7 @@ class _Reader:
         for name, value in st_table.items():
             x = self.quantity(value, "length", table="stations", key=name, place="stations")
             stations.append(Station(name, x))
-        station_names = dict.fromkeys(st_table)  # ordered, and O(1) look-ups for large models
+        station_names = dict.fromkeys(st_table)  # ordered, with O(1) look-ups
 
         builtins = None
         segments = []
@@ -460,7 +524,8 @@ class _Reader:
                          cases=tuple(cases), combinations=tuple(combinations),
                          temperature_change=default_dt, gravity=gravity,
                          reference_temperature=reference, units=units, title=str(title),
-                         source=self.source, checks=checks, limits=tuple(limits))
+                         source=self.source, checks=checks, limits=tuple(limits),
+                         symbols=tuple(self.symbols.values()))
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
 
@@ -518,7 +583,27 @@ def _key_in(message: str, keys) -> str | None:
     return min(found)[1] if found else None
 
 
-def parse_model(text: str, source: str | None = None) -> Model:
+def _expr():
+    """The expression parser, imported when a model needs it."""
+    from . import expressions
+
+    return expressions
+
+
+def _rational(fraction):
+    import sympy
+
+    return sympy.Rational(fraction.numerator, fraction.denominator)
+
+
+def _surely_negative(value) -> bool:
+    try:
+        return bool(value < 0)
+    except TypeError:  # a symbolic value whose sign is open
+        return False
+
+
+def parse_model(text: str, source: str | None = None, symbolic: bool = False) -> Model:
     """Read a model from TOML text.
 
     Parameters
@@ -527,6 +612,11 @@ def parse_model(text: str, source: str | None = None) -> Model:
         The model file's contents.
     source : str, optional
         The file name shown in error messages.
+    symbolic : bool
+        Keep every value as an exact sympy expression of the declared
+        ``[symbols]`` (for :func:`axialfe.symbolic.solve_symbolic`) instead of
+        a float.  Without it, symbols are replaced by their values, and a
+        symbol without a value is an error where it is used.
 
     Raises
     ------
@@ -534,15 +624,17 @@ def parse_model(text: str, source: str | None = None) -> Model:
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
     try:
-        data = tomllib.loads(text)
+        with gc_paused():
+            data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
         raise ModelError(f"not valid TOML: {exc}", file=source,
                          line=int(m.group(1)) if m else None) from exc
-    return _Reader(data, source, text).model()
+    with gc_paused():
+        return _Reader(data, source, text, symbolic).model()
 
 
-def read_model(path) -> Model:
+def read_model(path, symbolic: bool = False) -> Model:
     """Read a model file (TOML); see :func:`parse_model`."""
     path = Path(path)
     try:
@@ -554,4 +646,4 @@ def read_model(path) -> Model:
     except (OSError, UnicodeDecodeError) as exc:
         raise ModelError(f"cannot read the model file: {exc.__class__.__name__}: {exc}",
                          file=str(path)) from exc
-    return parse_model(text, str(path))
+    return parse_model(text, str(path), symbolic)

@@ -21,7 +21,7 @@ from .loading import LoadState, load_states
 from .model import Model
 from .results import CaseResult
 from .solve import System, _names, solve_gaps
-from .units import (kelvin_to_temperature, parse_quantity, split_quantity,
+from .units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
 
 __all__ = ["PARAMETERS", "Event", "SweepResult", "sweep", "parse_range"]
@@ -131,7 +131,7 @@ def parse_range(text: str, parameter: str) -> tuple[float, float, str]:
                          f"'{ {'load_factor': '0..2', 'temperature': '-20 degC..150 degC'}.get(parameter, '-40 K..120 K') }': got '{text}'",
                          place=where)
     try:
-        (a, ua), (b, ub) = split_quantity(parts[0]), split_quantity(parts[1])
+        (a, ua), (b, ub) = number_and_unit(parts[0]), number_and_unit(parts[1])
     except ModelError as exc:
         raise ModelError(exc.message, place=where) from None
     if parameter == "load_factor":

@@ -18,7 +18,8 @@ from dataclasses import dataclass
 from .errors import UnitError
 
 __all__ = ["KINDS", "OutputUnits", "parse_quantity", "unit_factor", "to_unit", "describe",
-           "temperature_to_kelvin", "kelvin_to_temperature", "split_quantity"]
+           "temperature_to_kelvin", "kelvin_to_temperature", "split_quantity",
+           "unit_base", "kind_dimensions", "number_and_unit"]
 
 # Each kind of value, the reference unit that fixes its dimension, and an example
 # shown when a unit is missing or wrong.
@@ -165,6 +166,39 @@ def parse_quantity(value, kind: str) -> float:
     return number * unit_factor(unit, kind)
 
 
+# --- helpers of the expression parser (axialfe.expressions) -----------------
+def unit_base(unit: str, difference: bool = False) -> tuple[float, dict[str, float]]:
+    """Return (scale, dimensions) of one unit name in SI base units.
+
+    ``dimensions`` maps pint's base dimensions (``'[length]'``, ...) to their
+    exponents.  With ``difference`` an offset temperature unit (degC) is read
+    as a difference of that many degrees; otherwise offset units are refused.
+
+    Examples
+    --------
+    >>> scale, dims = unit_base("kN")
+    >>> scale, sorted(dims.items())
+    (1000.0, [('[length]', 1), ('[mass]', 1), ('[time]', -2)])
+    """
+    if difference and unit.strip().lower() in _AS_DIFFERENCE:
+        unit = _AS_DIFFERENCE[unit.strip().lower()]
+    scale, offset, dim = _parse_unit(unit)
+    if offset != 0.0:
+        raise UnitError(f"'{unit}' is an offset unit; use a difference unit such as 'K'")
+    return scale, dict(dim)
+
+
+def kind_dimensions(kind: str) -> dict[str, float]:
+    """Return the base dimensions of one of :data:`KINDS` as a plain dict."""
+    return dict(_dimensionality(kind))
+
+
+def split_quantity(text: str) -> tuple[str, str] | None:
+    """Split ``"18 kN"`` into ``("18", "kN")``; None when it does not start with a number."""
+    match = _NUMBER.match(text)
+    return (match.group(1), match.group(2)) if match else None
+
+
 def to_unit(value, unit: str, kind: str):
     """Convert SI value(s) to ``unit`` (a float or a numpy array)."""
     return value / unit_factor(unit, kind)
@@ -224,7 +258,7 @@ def kelvin_to_temperature(value, unit: str):
     return q.magnitude
 
 
-def split_quantity(text: str) -> tuple[float, str]:
+def number_and_unit(text: str) -> tuple[float, str]:
     """Split ``"-40 K"`` into (-40.0, 'K'); the unit may be empty."""
     match = _NUMBER.match(text)
     if match is None:
