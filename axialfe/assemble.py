@@ -174,8 +174,11 @@ def assemble(model: Model) -> Assembly:
         w_self[t] = rho[t] * g_local[t] * vol
         g_self[t] = rho[t] * g_local[t] * np.sum(w * vol_s / (E[t, None] * area_s), axis=1)
 
-    rows = np.concatenate([start, start, end, end])
-    cols = np.concatenate([start, end, start, end])
+    # each off-diagonal pair in one order, so duplicates sum alike above and below the
+    # diagonal and K is symmetric to the last bit
+    lo, hi = np.minimum(start, end), np.maximum(start, end)
+    rows = np.concatenate([lo, lo, hi, hi])
+    cols = np.concatenate([lo, hi, lo, hi])
     data = np.concatenate([k, -k, -k, k])
     K = sp.csr_matrix((data, (rows, cols)), shape=(n, n))
     misfit, q = arr["misfit"], arr["q"]

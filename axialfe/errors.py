@@ -105,12 +105,17 @@ class SolveError(AxialfeError, RuntimeError):
         What cannot be solved and why, naming stations, gaps or segments.
     file : str, optional
         The model file's name, when the model came from one.
+    line : int, optional
+        The line of the file where the first station or gap named can be found.
     """
 
-    def __init__(self, message, *, file=None):
+    def __init__(self, message, *, file=None, line=None):
         super().__init__(message)
         self.message = message
         self.file = file
+        self.line = line
 
     def __str__(self) -> str:
-        return f"{self.file}: {self.message}" if self.file else self.message
+        if self.file is None:
+            return self.message
+        return f"{self.file}:{self.line}: {self.message}" if self.line else f"{self.file}: {self.message}"

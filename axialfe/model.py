@@ -396,6 +396,8 @@ class Model:
     title : str
     source : str, optional
         The model file's name, for messages.
+    locate : callable, optional
+        Maps ``'stations.<name>'`` or ``'gaps.<name>'`` to its file line (set by the reader).
     symbols : tuple of SymbolDef
         The symbols declared in the file's ``[symbols]`` (closed form).  A
         model read with ``symbolic=True`` holds sympy expressions of them in
@@ -423,6 +425,7 @@ class Model:
     source: str | None = None
     checks: CheckSettings = field(default_factory=CheckSettings)
     limits: tuple[Limit, ...] = ()
+    locate: object = field(default=None, compare=False, repr=False)
     # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
     symbols: tuple = ()
 
@@ -515,6 +518,10 @@ class Model:
                              hint=suggest(name, self._station_index))
 
     # --- look-ups -------------------------------------------------------
+    def line_of(self, key: str) -> int | None:
+        """The file line of ``'stations.<name>'`` or ``'gaps.<name>'``, when read from a file."""
+        return self.locate(key) if callable(self.locate) else None
+
     def station_index(self, name: str) -> int:
         """Return the position of station ``name`` in :attr:`stations`."""
         self._need_station(name, "stations")

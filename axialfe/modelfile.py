@@ -525,9 +525,20 @@ class _Reader:
                          temperature_change=default_dt, gravity=gravity,
                          reference_temperature=reference, units=units, title=str(title),
                          source=self.source, checks=checks, limits=tuple(limits),
-                         symbols=tuple(self.symbols.values()))
+                         symbols=tuple(self.symbols.values()), locate=self.locate_name)
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
+
+    def locate_name(self, key: str) -> int | None:
+        """The line of ``'stations.<name>'`` or ``'gaps.<name>'`` (for solver messages)."""
+        table, _, name = key.partition(".")
+        if table == "stations":
+            return self.line("stations", None, name)
+        if table == "gaps":
+            for i, entry in enumerate(self.data.get("gaps", []), 1):
+                if isinstance(entry, dict) and entry.get("name") == name:
+                    return self.line("gaps", i)
+        return None
 
     def _line_of_place(self, place):
         if not place:

@@ -97,11 +97,20 @@ class System:
         grounded[self.gap_a[~two]] = True
         comp_grounded = np.bincount(all_label, grounded, minlength=n_all) > 0
         names = [st.name for st in model.stations]
+        used = np.zeros(n, dtype=bool)
+        used[asm.start] = used[asm.end] = True
+        used[self.gap_a] = True
+        used[self.gap_b[two]] = True
         for c in np.flatnonzero(~comp_grounded):
             members = [names[i] for i in np.flatnonzero(all_label == c)]
-            raise SolveError(f"stations {_names(members)} float: no support, spring or gap holds "
-                             "them (a rigid-body mechanism); add a support or connect them",
-                             file=model.source)
+            line = model.line_of(f"stations.{members[0]}")
+            if len(members) == 1 and not used[all_label == c].any():
+                raise SolveError(f"station '{members[0]}' is not connected to any "
+                                 "segment or gap and has no support; remove it or connect it",
+                                 file=model.source, line=line)
+            raise SolveError(f"stations {_names(members)} float: no support, spring or "
+                             "gap holds them (a rigid-body mechanism); add a support or connect "
+                             "them", file=model.source, line=line)
         comp_held = np.bincount(seg_label, held, minlength=n_seg) > 0
         free_comps = np.flatnonzero(~comp_held)
         # A part held only through gaps: its first station is an anchor, and its
@@ -220,7 +229,10 @@ class System:
         du = e * (u[asm.end] - u[asm.start])
         k = asm.stiffness
         n_from = k * (du - delta0) + k * G
-        noise = 1e3 * _EPS * (k * (np.abs(du) + np.abs(delta0) + np.abs(G)) + np.abs(W))
+        # rounding bound of N: du is a difference of two displacements, so its error
+        # scales with their size, not with du itself
+        noise = 1e3 * _EPS * (k * (np.abs(u[asm.start]) + np.abs(u[asm.end]) + np.abs(delta0)
+                                   + np.abs(G)) + np.abs(W))
         n_from = np.where(np.abs(n_from) < noise, 0.0, n_from)
         n_to = n_from - W
         n_to = np.where(np.abs(n_to) < noise, 0.0, n_to)
@@ -236,10 +248,8 @@ class System:
         reactions[self.presc_support] = R_station[self.presc]
         spring_force = -self.spring_k * u[self.spring_at]
         reactions[self.spring_support] = spring_force
-        # a spring at a prescribed station: the prescribed support carries the rest
-        if len(self.spring_at) and len(self.presc):
-            extra = np.bincount(self.spring_at, spring_force, minlength=asm.n)
-            reactions[self.presc_support] -= extra[self.presc]
+        # (K includes the springs, so R_station at a prescribed station is already the
+        # prescribed support's own share, whatever spring stands beside it)
 
         # Station balance from the recovered segment forces: an independent check.
         balance = (state.forces + np.bincount(asm.start, e * n_from, minlength=asm.n)
@@ -393,7 +403,8 @@ def solve_gaps(M, H, o0, f, system, label="", with_state=False):
         touching = [names[j] for j in range(g) if np.any(H[j] != 0)]
         raise SolveError(f"no equilibrium{where}: {parts} held only by gap(s) "
                          f"{_names(touching)}, and the gaps cannot hold the load on it "
-                         "(the part floats while the gap is open)", file=model.source)
+                         "(the part floats while the gap is open)", file=model.source,
+                         line=model.line_of(f"gaps.{touching[0]}") if touching else None)
     lam, shift = z[:g], z[g:g + p] - z[g + p:]
     opening = o0 + M @ lam - H @ shift
     closed = opening <= 1e-10 * scale_q
@@ -404,7 +415,8 @@ def solve_gaps(M, H, o0, f, system, label="", with_state=False):
             raise SolveError(f"the equilibrium{where} is not unique: stations {_names(members)} "
                              f"are held only by gap(s) {_names(touching)}, which stay open with "
                              "no load pressing the part against them; add a support or a load",
-                             file=model.source)
+                             file=model.source,
+                             line=model.line_of(f"gaps.{touching[0]}") if touching else None)
     del fscale
     return (lam, shift, basic[:g]) if with_state else (lam, shift)
 

@@ -322,7 +322,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
 
     def lost(exc, s):
         shown = f"{to_user(s):.6g}" + ("" if unit == "1" else f" {unit}")
-        return SolveError(f"{exc.message} at {parameter} = {shown}", file=model.source)
+        return SolveError(f"{exc.message} at {parameter} = {shown}", file=model.source,
+                          line=exc.line)
 
     s = s_start
     try:

@@ -209,6 +209,7 @@ _SYSTEMS = {
     "US": {"force": "lbf", "length": "in", "displacement": "in", "stress": "psi"},
 }
 _KIND_OF = {"force": "force", "length": "length", "displacement": "length", "stress": "stress"}
+_KNOWN = {key: {system[key] for system in _SYSTEMS.values()} for key in _KIND_OF}
 
 
 @dataclass(frozen=True)
@@ -228,7 +229,10 @@ class OutputUnits:
 
     def __post_init__(self):
         for key, kind in _KIND_OF.items():
-            unit_factor(getattr(self, key), kind)
+            # the units of the two systems are known good: checking them would start
+            # pint for every model built in code
+            if getattr(self, key) not in _KNOWN[key]:
+                unit_factor(getattr(self, key), kind)
 
     @classmethod
     def system(cls, name: str = "SI", **overrides) -> "OutputUnits":

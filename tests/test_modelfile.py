@@ -279,7 +279,7 @@ def test_parallel_segments_need_their_own_names():
 def test_mechanism_names_the_floating_stations():
     text = edit(32, "", edit(33, "", edit(L_SUP_KIND, "")))  # no support at all
     assert error(text, SolveError) == (
-        "bar.toml: stations 'left', 'joint', 'right' float: no support, spring or gap holds "
+        "bar.toml:15: stations 'left', 'joint', 'right' float: no support, spring or gap holds "
         "them (a rigid-body mechanism); add a support or connect them")
 
 
@@ -287,8 +287,15 @@ def test_mechanism_of_one_detached_part():
     text = edit(L_RIGHT, 'right = "600 mm"\nfar = "900 mm"\nfar2 = "950 mm"')
     text += '\n[[segments]]\nfrom = "far"\nto = "far2"\nmaterial = "copper"\nsection = "rod-30"\n'
     assert error(text, SolveError) == (
-        "bar.toml: stations 'far', 'far2' float: no support, spring or gap holds them "
+        "bar.toml:18: stations 'far', 'far2' float: no support, spring or gap holds them "
         "(a rigid-body mechanism); add a support or connect them")
+
+
+def test_station_used_by_nothing():
+    text = edit(L_RIGHT, 'right = "600 mm"\nspare = "900 mm"')
+    assert error(text, SolveError) == (
+        "bar.toml:18: station 'spare' is not connected to any segment or gap and has no "
+        "support; remove it or connect it")
 
 
 # --- temperatures -----------------------------------------------------------------

@@ -155,9 +155,6 @@ def test_free_growth_of_a_partly_heated_bar_has_no_force(kind):
     assert case.equilibrium_residual <= 1e-9
 
 
-@pytest.mark.xfail(strict=True, reason="solve.recover: the noise floor of N uses |du|, not "
-                   "the size of u, so an unstrained segment downstream of a growing one keeps "
-                   "k*(rounding of u_j - u_i), e.g. 6.5e-14 N, and the report prints it")
 def test_unstrained_segment_of_a_growing_bar_reports_exactly_zero_force():
     mat = Material("m", 50e9, 12e-6)
     st = {f"s{i}": float(i) for i in range(5)}
@@ -458,10 +455,6 @@ def test_settlement_plus_point_load_by_superposition():
     check_balance(case)
 
 
-@pytest.mark.xfail(strict=True, reason="solve.recover counts a spring twice at a station that "
-                   "also has a settlement support: System.K already holds the spring, so "
-                   "R_station is the prescribed support's share, and 'the prescribed support "
-                   "carries the rest' subtracts the spring force again (residual 3.5e-3 here)")
 def test_settlement_and_spring_at_one_station():
     # statics of the moved station (hand superposition): the bar pushes back with
     # k_b*s, the spring with k_s*s, and the settlement support supplies both
