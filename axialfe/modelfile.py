@@ -283,7 +283,7 @@ class _Reader:
         for name, value in st_table.items():
             x = self.quantity(value, "length", table="stations", key=name, place="stations")
             stations.append(Station(name, x))
-        station_names = tuple(st_table)
+        station_names = dict.fromkeys(st_table)  # ordered, O(1) look-up
 
         builtins = None
         segments = []

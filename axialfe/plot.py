@@ -209,6 +209,18 @@ def _lane_polylines(curves):
     return out
 
 
+def _with_crossings(x, y):
+    """The polyline with its zero crossings inserted, so that clipping at 0 is exact."""
+    with np.errstate(invalid="ignore"):
+        flip = (y[:-1] * y[1:] < 0) & (x[1:] != x[:-1])
+    k = np.flatnonzero(flip)
+    if not len(k):
+        return x, y
+    t = y[k] / (y[k] - y[k + 1])
+    xz = x[k] + t * (x[k + 1] - x[k])
+    return np.insert(x, k + 1, xz), np.insert(y, k + 1, 0.0)
+
+
 def _style_axes(ax):
     for side in ("top", "right"):
         ax.spines[side].set_visible(False)
@@ -239,28 +251,31 @@ def _draw_diagram(ax, result, what, units, station_x):
     polys = _lane_polylines(curves)
     several = len(polys) > 1
     ax.axhline(0.0, color=MUTED, linewidth=0.8)
-    for x in station_x:
-        ax.axvline(x, color="#d3d7db", linewidth=0.6, zorder=0)
+    if len(station_x) <= 400:
+        ax.vlines(station_x, 0.0, 1.0, transform=ax.get_xaxis_transform(), colors="#d3d7db",
+                  linewidth=0.6, zorder=0)
     label_all = len(curves) <= _LABEL_LIMIT
+    seen: list[tuple[float, float]] = []      # values labelled already (coinciding lanes)
     for k, (x, y, items) in polys.items():
         colour = LANE_COLOURS[k % len(LANE_COLOURS)]
         style = LANE_STYLES[k % len(LANE_STYLES)]
         if what != "displacement":
-            ax.fill_between(x, y, 0.0, where=y >= 0, interpolate=True, color=TENSION,
-                            alpha=0.28 if not several else 0.18, linewidth=0)
-            ax.fill_between(x, y, 0.0, where=y <= 0, interpolate=True, color=COMPRESSION,
-                            alpha=0.28 if not several else 0.18, linewidth=0)
+            xc, yc = _with_crossings(x, y)
+            alpha = 0.28 if not several else 0.18
+            ax.fill_between(xc, np.maximum(yc, 0.0), 0.0, color=TENSION, alpha=alpha, linewidth=0)
+            ax.fill_between(xc, np.minimum(yc, 0.0), 0.0, color=COMPRESSION, alpha=alpha,
+                            linewidth=0)
         line, = ax.plot(x, y, color=colour, linestyle=style, linewidth=1.4,
                         label=_lane_label(items, parallel) if several else None)
         line.set_gid(f"{what}-lane-{k}")
-        _label_values(ax, items, colour, label_all)
+        _label_values(ax, items, colour, label_all, seen)
         if several:
             for c in items:
                 if parallel[c.index]:
                     m = len(c.x) // 2
                     ax.annotate(_text(c.segment), (0.5 * (c.x[0] + c.x[-1]), c.y[m]),
-                                xytext=(0, 6), textcoords="offset points", ha="center",
-                                fontsize=7, color=colour, style="italic")
+                                xytext=(0, 6 + 9 * k), textcoords="offset points",
+                                ha="center", fontsize=7, color=colour, style="italic")
     name, key = _QUANTITY[what]
     ax.set_ylabel(f"{name} [{getattr(units, key)}]", fontsize=8, color=INK)
     if what != "displacement":
@@ -277,8 +292,19 @@ def _draw_diagram(ax, result, what, units, station_x):
     return curves
 
 
-def _label_values(ax, items, colour, label_all):
-    """Label the value at each station end of each curve (both sides where it jumps)."""
+def _label_values(ax, items, colour, label_all, seen):
+    """Label the value at each station end of each curve (both sides where it jumps).
+
+    A value already labelled at the same point (by a coinciding lane) is not repeated.
+    """
+    def fresh(point):
+        for px, py in seen:
+            if (math.isclose(px, point[0], rel_tol=1e-9, abs_tol=1e-12)
+                    and math.isclose(py, point[1], rel_tol=1e-6, abs_tol=1e-12)):
+                return False
+        seen.append(point)
+        return True
+
     if not label_all:
         ys = np.concatenate([c.y for c in items])
         xs = np.concatenate([c.x for c in items])
@@ -291,17 +317,18 @@ def _label_values(ax, items, colour, label_all):
         left, right = (c.x[0], c.y[0]), (c.x[-1], c.y[-1])
         joined = prev is not None and math.isclose(prev[0], left[0], rel_tol=1e-12, abs_tol=1e-12)
         same = joined and math.isclose(prev[1], left[1], rel_tol=1e-6, abs_tol=1e-12)
-        if not same:
+        if not same and fresh(left):
             ax.annotate(_fmt(left[1]), left, xytext=(3, 4 if left[1] >= 0 else -10),
                         textcoords="offset points", ha="left", fontsize=7, color=colour)
-        ax.annotate(_fmt(right[1]), right, xytext=(-3, 4 if right[1] >= 0 else -10),
-                    textcoords="offset points", ha="right", fontsize=7, color=colour)
+        if fresh(right):
+            ax.annotate(_fmt(right[1]), right, xytext=(-3, 4 if right[1] >= 0 else -10),
+                        textcoords="offset points", ha="right", fontsize=7, color=colour)
         prev = right
 
 
 def _draw_sketch(ax, result, units):
     """The bar itself: blocks by area, supports, gaps and the loads of the case."""
-    from matplotlib.patches import Polygon
+    from matplotlib.collections import PolyCollection
 
     model = result.model
     fx = units.factor("length")
@@ -314,18 +341,20 @@ def _draw_sketch(ax, result, units):
     span = float(np.ptp(xs)) or 1.0
     band = 1.0 / n_lanes
     few = len(model.segments) <= 20
+    blocks, edges = [], []
     for i, seg in enumerate(model.segments):
         xa, xb = xs[idx[seg.start]], xs[idx[seg.end]]
         h0 = max(seg.section.area / a_max, 0.08) * 0.7 * band
         h1 = max((seg.end_section or seg.section).area / a_max, 0.08) * 0.7 * band
         centre = 0.5 - (lane[i] - (n_lanes - 1) / 2) * band
-        poly = Polygon([(xa, centre - h0 / 2), (xb, centre - h1 / 2), (xb, centre + h1 / 2),
-                        (xa, centre + h0 / 2)], closed=True, facecolor=BLOCK_FACE,
-                       edgecolor=LANE_COLOURS[lane[i] % len(LANE_COLOURS)], linewidth=0.9)
-        ax.add_patch(poly)
+        blocks.append([(xa, centre - h0 / 2), (xb, centre - h1 / 2), (xb, centre + h1 / 2),
+                       (xa, centre + h0 / 2)])
+        edges.append(LANE_COLOURS[lane[i] % len(LANE_COLOURS)])
         if few:
             ax.text(0.5 * (xa + xb), centre, _text(seg.name), ha="center", va="center",
                     fontsize=7, color=INK, clip_on=True)
+    ax.add_collection(PolyCollection(blocks, closed=True, facecolors=BLOCK_FACE, edgecolors=edges,
+                                     linewidths=0.9 if len(blocks) <= 400 else 0.0))
     lo, hi = xs.min(), xs.max()
     for sup in model.supports:
         x = xs[idx[sup.at]]

@@ -62,7 +62,10 @@ def _g(value, digits=4) -> str:
         return "-"
     if value == 0:
         return "0"
-    return f"{value:.{digits}g}".replace("-", _MINUS)
+    text = f"{value:.{digits}g}"
+    if "e" in text and 1e-4 <= abs(value) < 1e7:     # plain digits read better in a sheet
+        text = f"{float(text):.10f}".rstrip("0").rstrip(".")
+    return text.replace("-", _MINUS)
 
 
 def station_words(u: float, unit: str, factor: float, scale: float = 0.0) -> str:
