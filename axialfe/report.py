@@ -50,7 +50,7 @@ def report_format(path, fmt: str | None = None) -> str:
     if fmt not in (None, *REPORT_FORMATS):
         raise ModelError(f"unknown report format '{fmt}'", options=tuple(REPORT_FORMATS))
     if suffix not in allowed:
-        what = f"a {fmt} report" if fmt else "a report"
+        what = {"html": "an HTML report", "markdown": "a Markdown report", None: "a report"}[fmt]
         raise ModelError(f"cannot write {what} as '{suffix or Path(path).name}'",
                          file=str(path), options=allowed)
     return fmt or by_suffix

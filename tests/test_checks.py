@@ -458,3 +458,17 @@ def test_check_input_error_exit_2(tmp_path):
     assert result.stderr.strip().splitlines() == [
         f"error: {path}:13: segments[1] ('strut'): unknown material 'structural-stel'; "
         "did you mean 'structural-steel'?"]
+
+
+def test_json_nulls_for_undecided_entries(tmp_path):
+    path = write(tmp_path, strut_text("-1 kN", "3000 mm").replace("structural-steel",
+                                                                   "grey-cast-iron"))
+    result = runner.invoke(app, ["solve", str(path), "--format", "json"])
+    data = json.loads(result.stdout)
+    strength, buckling = data["cases"][0]["checks"]
+    assert strength["utilization"] is None and strength["ok"] is None
+    assert buckling["ok"] is None and buckling["utilization"] > 0
+    # the governing entry is the one with a utilization
+    assert data["governing"]["kind"] == "buckling"
+    result = runner.invoke(app, ["check", str(path)])
+    assert result.exit_code == 3

@@ -296,7 +296,7 @@ def test_report_format_by_suffix():
                               "'.html', '.htm', '.md', '.markdown'")
     with pytest.raises(ModelError) as err:
         report_format("r.html", "markdown")
-    assert str(err.value) == ("r.html: cannot write a markdown report as '.html'; expected "
+    assert str(err.value) == ("r.html: cannot write a Markdown report as '.html'; expected "
                               "one of: '.md', '.markdown'")
 
 
