@@ -5,6 +5,8 @@ Modules, one job each (anything not in ``axialfe.__all__`` is internal):
 - ``model``: the input concepts, frozen dataclasses in SI floats that check themselves;
 - ``units``: the only module that imports pint; strings with units in, SI floats out;
 - ``modelfile``: the TOML reader, with located, one-line errors;
+- ``expressions``: the whitelist parser of symbolic model values (symbols, numbers, units);
+- ``symbolic``: closed forms, the same system assembled and solved exactly with sympy;
 - ``loading``: load states of cases and combinations as arrays;
 - ``assemble``: element stiffness, equivalent loads and the sparse global matrix;
 - ``solve``: factorisation, the gap search and recovery of forces and reactions;
@@ -37,5 +39,15 @@ __all__ = [
     "Combination", "Model",
     "read_model", "parse_model", "builtin_materials",
     "System", "solve", "Solution", "CaseResult",
+    "solve_symbolic",
     "__version__",
 ]
+
+
+def __getattr__(name):
+    # solve_symbolic needs sympy: imported on first use, so `axialfe solve` starts fast
+    if name == "solve_symbolic":
+        from .symbolic import solve_symbolic
+
+        return solve_symbolic
+    raise AttributeError(f"module 'axialfe' has no attribute '{name}'")

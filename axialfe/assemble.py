@@ -21,10 +21,12 @@ quadrature, exact to rounding for the taper ratios met in practice.
 
 from __future__ import annotations
 
+import operator
 from dataclasses import dataclass
 
 import numpy as np
 
+from ._gcpause import gc_paused
 from .model import Model
 
 __all__ = ["Assembly", "assemble", "element_loads"]
@@ -83,32 +85,38 @@ def _phi(t):
     return np.where(small, 1 - t / 2 + t * t / 3 - t**3 / 4, np.log1p(safe) / safe)
 
 
-def _section_arrays(model: Model):
-    """Return (c, p1, q1, p2, q2) over segments, with A = c*p*q at each end."""
-    m = len(model.segments)
-    out = np.empty((5, m))
-    cache = {}
-    for i, seg in enumerate(model.segments):
-        key = (id(seg.section), id(seg.end_section))
-        if key not in cache:
-            s0, s1 = seg.sections
-            c, p1, q1 = s0.factors
-            _, p2, q2 = s1.factors
-            cache[key] = (c, p1, q1, p2, q2)
-        out[:, i] = cache[key]
-    return out
+_FIELDS = operator.attrgetter("section", "end_section", "material", "start", "end", "misfit",
+                              "distributed_load")
 
 
-def _material_arrays(model: Model):
+def _by_object(objects, values, width):
+    """Rows of ``values(obj)`` per item, computed once per distinct object.
+
+    Segments share a few materials and sections, so the per-segment work is an
+    ``id`` and one vectorised ``np.unique``; the rows come by fancy indexing.
+    """
+    ids = np.fromiter(map(id, objects), dtype=np.int64, count=len(objects))
+    uniq, first, codes = np.unique(ids, return_index=True, return_inverse=True)
+    table = np.array([values(objects[i]) for i in first], dtype=float).reshape(len(uniq), width)
+    return table[codes].T
+
+
+def _segment_arrays(model: Model):
+    """Gather per-segment inputs into arrays (one C-level pass over the segments)."""
     m = len(model.segments)
-    out = np.empty((3, m))
-    cache = {}
-    for i, seg in enumerate(model.segments):
-        mat = seg.material
-        key = id(mat)
-        if key not in cache:
-            cache[key] = (mat.elastic_modulus, mat.thermal_expansion, mat.density or 0.0)
-        out[:, i] = cache[key]
+    sec, end_sec, mat, start, end, misfit, q = zip(*map(_FIELDS, model.segments))
+    end_sec = [e if e is not None else s for s, e in zip(sec, end_sec)]
+    index = model._station_index
+    out = {
+        "start": np.fromiter(map(index.__getitem__, start), dtype=np.int64, count=m),
+        "end": np.fromiter(map(index.__getitem__, end), dtype=np.int64, count=m),
+        "misfit": np.asarray(misfit, dtype=float),
+        "q": np.asarray(q, dtype=float),
+    }
+    out["c"], out["p1"], out["q1"] = _by_object(sec, lambda s: s.factors, 3)
+    _, out["p2"], out["q2"] = _by_object(end_sec, lambda s: s.factors, 3)
+    out["E"], out["alpha"], out["rho"] = _by_object(
+        mat, lambda t: (t.elastic_modulus, t.thermal_expansion, t.density or 0.0), 3)
     return out
 
 
@@ -130,15 +138,15 @@ def assemble(model: Model) -> Assembly:
     import scipy.sparse as sp
 
     n = len(model.stations)
-    index = model._station_index
-    start = np.fromiter((index[s.start] for s in model.segments), dtype=np.int64)
-    end = np.fromiter((index[s.end] for s in model.segments), dtype=np.int64)
-    x = np.fromiter((st.x for st in model.stations), dtype=float, count=n)
+    with gc_paused():
+        arr = _segment_arrays(model)
+    start, end = arr["start"], arr["end"]
+    x = np.fromiter(map(operator.attrgetter("x"), model.stations), dtype=float, count=n)
     dx = x[end] - x[start]
     direction = np.sign(dx)
     length = np.abs(dx)
-    c, p1, q1, p2, q2 = _section_arrays(model)
-    E, alpha, rho = _material_arrays(model)
+    c, p1, q1, p2, q2 = (arr[k] for k in ("c", "p1", "q1", "p2", "q2"))
+    E, alpha, rho = arr["E"], arr["alpha"], arr["rho"]
     a1, a2 = c * p1 * q1, c * p2 * q2
     dp, dq = (p2 - p1) / length, (q2 - q1) / length
     det = p1 * dq - q1 * dp
@@ -170,8 +178,7 @@ def assemble(model: Model) -> Assembly:
     cols = np.concatenate([start, end, start, end])
     data = np.concatenate([k, -k, -k, k])
     K = sp.csr_matrix((data, (rows, cols)), shape=(n, n))
-    misfit = np.fromiter((s.misfit for s in model.segments), dtype=float, count=len(start))
-    q = np.fromiter((s.distributed_load for s in model.segments), dtype=float, count=len(start))
+    misfit, q = arr["misfit"], arr["q"]
     return Assembly(n=n, start=start, end=end, direction=direction, length=length, stiffness=k,
                     area=np.column_stack([a1, a2]), modulus=E, expansion=alpha, misfit=misfit,
                     q=q, g_unit_q=g_unit_q, w_self=w_self, g_self=g_self, K=K)

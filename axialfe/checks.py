@@ -183,8 +183,16 @@ class CheckReport:
                 "segment sets effective_length_factor or buckling_length")
 
 
+def _num(value: float) -> str:
+    """Four significant digits, in plain digits where that stays short."""
+    text = f"{value:.4g}"
+    if "e" in text and 1e-4 <= abs(value) < 1e7:
+        text = f"{float(text):.10f}".rstrip("0").rstrip(".")
+    return text
+
+
 def _fmt(value, unit, units: OutputUnits, key):
-    return f"{value / units.factor(key):.4g} {unit}"
+    return f"{_num(value / units.factor(key))} {unit}"
 
 
 def check_case(result: CaseResult, settings: CheckSettings | None = None,

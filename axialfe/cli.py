@@ -23,8 +23,8 @@ app = typer.Typer(add_completion=False, no_args_is_help=True,
 
 EXIT_INPUT = 2
 
-ModelPath = Annotated[Path, typer.Argument(exists=True, dir_okay=False, readable=True,
-                                           help="The model file (TOML).")]
+# The reader itself reports a missing or unreadable file, on one line like every input error.
+ModelPath = Annotated[Path, typer.Argument(help="The model file (TOML).")]
 
 
 class Format(str, Enum):
@@ -127,6 +127,170 @@ def materials():
         typer.echo(f"    source             {entry['source']}")
     typer.echo("\nA model's own [materials] entry of the same name takes precedence. Values are "
                "typical: verify against your material certificate.")
+
+
+class SweepFormat(str, Enum):
+    table = "table"
+    json = "json"
+    csv = "csv"
+
+
+@app.command()
+def sweep(model: ModelPath,
+          temperature_change: Annotated[Optional[str], typer.Option(
+              "--temperature-change", help="Range of the change, e.g. '-40 K..120 K': replaces "
+              "every segment's thermal input.")] = None,
+          temperature: Annotated[Optional[str], typer.Option(
+              "--temperature", help="Range of absolute temperature against "
+              "settings.reference_temperature, e.g. '-20 degC..150 degC'.")] = None,
+          load_factor: Annotated[Optional[str], typer.Option(
+              "--load-factor", help="Range of the factor on point and distributed loads, e.g. "
+              "'0..2'.")] = None,
+          steps: Annotated[int, typer.Option("--steps", help="Grid points, both ends included.")] = 101,
+          case: Annotated[Optional[str], typer.Option("--case", help="Case to sweep (default: the first).")] = None,
+          format: Annotated[SweepFormat, typer.Option("--format", "-f", help="Output format.")] = SweepFormat.table,
+          output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+    """Solve a case along a temperature or load range and report the exact events."""
+    from .errors import ModelError
+    from .modelfile import read_model
+    from .sweep import parse_range, sweep as run
+    from .sweepout import sweep_csv, sweep_json, sweep_summary
+
+    with user_errors():
+        given = [(p, v) for p, v in (("temperature_change", temperature_change),
+                                     ("temperature", temperature), ("load_factor", load_factor))
+                 if v is not None]
+        if len(given) != 1:
+            raise ModelError("give exactly one of --temperature-change, --temperature or "
+                             "--load-factor")
+        parameter, text = given[0]
+        start, stop, unit = parse_range(text, parameter)
+        m = read_model(model)
+        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case)
+        long = steps * max(len(m.segments), 1) > 200_000 and format is not SweepFormat.table
+        if format is SweepFormat.table:
+            text_out = sweep_summary(result, units)
+        elif format is SweepFormat.json:
+            text_out = sweep_json(result, units, progress=long)
+        else:
+            text_out = sweep_csv(result, units, progress=long)
+        emit(text_out, output)
+# --- closed form -------------------------------------------------------------
+class ClosedFormat(str, Enum):
+    table = "table"
+    json = "json"
+
+
+def _parse_assume(items, gap_names):
+    from .errors import ModelError, suggest
+
+    out = {}
+    for item in items or ():
+        for part in item.split(","):
+            name, sep, state = part.strip().partition("=")
+            if not sep or state.strip() not in ("closed", "open"):
+                raise ModelError(f"--assume takes GAP=closed or GAP=open: got '{part.strip()}'")
+            name = name.strip()
+            if name not in gap_names:
+                raise ModelError(f"--assume: unknown gap '{name}'", hint=suggest(name, gap_names),
+                                 options=gap_names or None)
+            out[name] = state.strip() == "closed"
+    return out
+
+
+def _parse_only(items):
+    from .errors import ModelError, suggest
+    from .symbolic import QUANTITIES
+
+    aliases = {"forces": "axial_forces", "axial-forces": "axial_forces", "reaction": "reactions",
+               "displacement": "displacements", "stress": "stresses", "gap": "gaps",
+               "condition": "conditions"}
+    out = set()
+    for item in items or ():
+        for part in item.split(","):
+            key = aliases.get(part.strip(), part.strip())
+            if key not in QUANTITIES:
+                raise ModelError(f"--only: unknown quantity '{part.strip()}'",
+                                 hint=suggest(part.strip(), QUANTITIES), options=QUANTITIES)
+            out.add(key)
+    return out or None
+
+
+@app.command("closed-form")
+def closed_form(model: ModelPath,
+                latex: Annotated[bool, typer.Option("--latex", help="Print the formulas as LaTeX.")] = False,
+                only: Annotated[Optional[list[str]], typer.Option(
+                    "--only", help="Show only these: reactions, displacements, axial_forces, "
+                                   "stresses, gaps, conditions (repeat or separate by commas).")] = None,
+                format: Annotated[ClosedFormat, typer.Option("--format", "-f", help="Output format.")] = ClosedFormat.table,
+                assume: Annotated[Optional[list[str]], typer.Option(
+                    "--assume", help="Give the formulas for this contact state: GAP=closed or "
+                                     "GAP=open (repeatable).")] = None,
+                case: Annotated[Optional[str], typer.Option("--case", help="The case (default: the first).")] = None,
+                output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+                displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+    """Solve a model in closed form with sympy: formulas in the declared symbols, checked
+    against the numeric solver where every symbol has a value."""
+    import json
+
+    from .modelfile import read_model
+    from .output import CAUTIONS
+    from .solve import solve as run
+    from .symbolic import closed_form_dict, closed_form_text, numeric_model, solve_symbolic
+
+    with user_errors():
+        m = read_model(model, symbolic=True)
+        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        assumed = _parse_assume(assume, [g.name for g in m.gaps])
+        wanted = _parse_only(only)
+        numeric, notes = None, []
+        used = set()
+        for value in _model_values(m):
+            used |= {s.name for s in getattr(value, "free_symbols", ())}
+        if all(d.value is not None for d in m.symbols if d.name in used):
+            solution = run(numeric_model(m))
+            names = solution.names
+            numeric = solution[case] if case is not None and case in names else (
+                solution.cases[0] if case is None else None)
+        state = ({g.name: bool(numeric.gap_closed[j]) for j, g in enumerate(m.gaps)}
+                 if numeric is not None else None)
+        cf = solve_symbolic(m, case=case, assume=assumed, state=state)
+        compare = numeric is not None and all(state[g] == c for g, c in cf.gap_closed.items())
+        if numeric is not None and not compare:
+            notes.append("the numeric solver finds another contact state ("
+                         + ", ".join(f"'{g}' {'closed' if state[g] else 'open'}" for g in state)
+                         + "); its values are shown but not compared")
+        data = closed_form_dict(cf, numeric, units, wanted,
+                                compare=True if compare else (None if numeric is not None else False))
+        data["notes"] += notes
+        if wanted is not None and "conditions" not in wanted:
+            data["_show_conditions"] = False
+        if format is ClosedFormat.json:
+            data.pop("_show_conditions", None)
+            if wanted is not None and "conditions" not in wanted:
+                data.pop("conditions")
+            data["cautions"] = list(CAUTIONS)
+            text = json.dumps(data, indent=2) + "\n"
+        else:
+            text = closed_form_text(data, latex=latex, cautions=CAUTIONS)
+        emit(text, output)
+
+
+def _model_values(model):
+    """Every value of a symbolic model (for the symbols it uses)."""
+    import dataclasses
+
+    stack = [model]
+    while stack:
+        obj = stack.pop()
+        if dataclasses.is_dataclass(obj) and not isinstance(obj, type):
+            stack.extend(getattr(obj, f.name) for f in dataclasses.fields(obj) if f.name != "symbols")
+        elif isinstance(obj, tuple):
+            stack.extend(obj)
+        else:
+            yield obj
 
 
 # --- design checks, diagrams and the report document ---------------------------

@@ -26,7 +26,12 @@ __all__ = [
 
 def suggest(name: str, options: Iterable[str]) -> str | None:
     """Return the closest of ``options`` to ``name``, or None when none is close."""
-    matches = difflib.get_close_matches(str(name), [str(o) for o in options], n=1, cutoff=0.6)
+    options = [str(o) for o in options]
+    matches = difflib.get_close_matches(str(name), options, n=1, cutoff=0.6)
+    if not matches:  # a difference of case only ('b' for 'B')
+        folded = {o.casefold(): o for o in options}
+        matches = [folded[m] for m in difflib.get_close_matches(
+            str(name).casefold(), list(folded), n=1, cutoff=0.6)]
     return matches[0] if matches else None
 
 

@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from types import MappingProxyType
 
 from .errors import ModelError, suggest
 from .units import OutputUnits
@@ -405,6 +404,10 @@ class Model:
     title : str
     source : str, optional
         The model file's name, for messages.
+    symbols : tuple of SymbolDef
+        The symbols declared in the file's ``[symbols]`` (closed form).  A
+        model read with ``symbolic=True`` holds sympy expressions of them in
+        place of floats; the checks above skip values that are not floats.
 
     Raises
     ------
@@ -428,17 +431,19 @@ class Model:
     source: str | None = None
     checks: CheckSettings = field(default_factory=CheckSettings)
     limits: tuple[Limit, ...] = ()
+    # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
+    symbols: tuple = ()
 
     def __post_init__(self):
         for key in ("stations", "segments", "supports", "loads", "gaps", "cases",
-                    "combinations", "limits"):
+                    "combinations", "limits", "symbols"):
             object.__setattr__(self, key, tuple(getattr(self, key)))
         index = {}
         for i, st in enumerate(self.stations):
             if st.name in index:
                 raise ModelError(f"station '{st.name}' is defined twice", place="stations")
             index[st.name] = i
-        object.__setattr__(self, "_station_index", MappingProxyType(index))
+        object.__setattr__(self, "_station_index", index)  # private: never handed out
         if not self.segments:
             raise ModelError("a model needs at least one segment", place="segments")
         names = {}
@@ -457,7 +462,7 @@ class Model:
             if isinstance(x0, float) and isinstance(x1, float) and x0 == x1:
                 raise ModelError(f"stations '{seg.start}' and '{seg.end}' stand at the same "
                                  "position; a segment needs a length", place=place)
-        object.__setattr__(self, "_segment_index", MappingProxyType(names))
+        object.__setattr__(self, "_segment_index", names)
         kinds_at = {}
         for i, sup in enumerate(self.supports):
             self._need_station(sup.at, f"supports[{i + 1}]")

@@ -15,17 +15,18 @@ import tomllib
 from importlib import resources
 from pathlib import Path
 
+from ._gcpause import gc_paused
 from .errors import ModelError, suggest
 from .model import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
-from .units import OutputUnits, parse_quantity
+from .units import OutputUnits, parse_quantity, split_quantity
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
 
 _TOP_KEYS = ("title", "settings", "units", "materials", "sections", "stations", "segments",
              "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols")
 _KEYS = {
-    "settings": ("reference_temperature", "temperature_change", "gravity"),
+    "settings": ("reference_temperature", "temperature_change", "temperature", "gravity"),
     "units": ("system", "force", "length", "displacement", "stress"),
     "material": ("elastic_modulus", "thermal_expansion", "yield_strength", "density", "source",
                  "description"),
@@ -118,10 +119,15 @@ def builtin_materials() -> dict[str, Material]:
 class _Reader:
     """Turns the parsed TOML tables into model objects, locating every error."""
 
-    def __init__(self, data: dict, source: str | None, text: str | None):
+    def __init__(self, data: dict, source: str | None, text: str | None, symbolic: bool = False):
         self.data = data
         self.source = source
         self.locator = _Locator(text) if text is not None else None
+        # closed form: declared symbols (name -> SymbolDef); with ``symbolic`` every
+        # value becomes an exact sympy expression instead of a float
+        self.symbolic = symbolic
+        self.symbols = {}
+        self.sympy_symbols = {}
 
     # --- errors ---------------------------------------------------------
     def fail(self, message, table=None, index=None, key=None, place=None, hint=None, options=None):
@@ -142,11 +148,68 @@ class _Reader:
     def quantity(self, value, kind, *, table=None, index=None, key=None, place=None):
         """Convert one value to SI, locating any unit error at ``key``."""
         try:
+            if self.symbolic or (isinstance(value, str) and self._is_expression(value)):
+                return self.expression(value, kind)
             return parse_quantity(value, kind)
         except ModelError as exc:
-            raise ModelError(f"{key}: {exc.message}", place=place, file=self.source,
+            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
+
+    # --- closed form: symbols and expressions ------------------------------
+    _OPERATOR = re.compile(r"[-+*()]")
+
+    def _is_expression(self, value: str) -> bool:
+        """True for a value the expression parser reads: one naming a declared symbol,
+        or one with operators; plain "number unit" strings keep the fast path."""
+        if self.symbols and not self.symbols.keys().isdisjoint(_expr().NAME.findall(value)):
+            return True
+        parts = split_quantity(value)
+        if parts is None:
+            return bool(self.symbols) or bool(self._OPERATOR.search(value))
+        return bool(self._OPERATOR.search(parts[1]))
+
+    def expression(self, value, kind):
+        """A value through the expression parser: a float, or sympy when symbolic."""
+        ex = _expr()
+        if kind == "temperature":
+            if isinstance(value, str) and self._is_expression(value):
+                raise ModelError(f"'{value}': an absolute temperature cannot be an expression "
+                                 "or a symbol; use 'temperature_change' for a symbolic change")
+            t = parse_quantity(value, kind)
+            return _rational(ex.exact_decimal(t)) if self.symbolic else t
+        if not isinstance(value, str) or not self._is_expression(value):
+            parse_quantity(value, kind)  # the plain path's checks and messages
+        dims = {name: sym.dims for name, sym in self.symbols.items()}
+        parsed = ex.parse_expression(value, dims, kind)
+        if self.symbolic:
+            return parsed.sympy(self.sympy_symbols)
+        missing = [n for n in sorted(parsed.names) if self.symbols[n].value is None]
+        if missing:
+            raise ModelError(f"symbol '{missing[0]}' has no value: give it one in [symbols] to "
+                             "solve numerically, or see its closed form with 'axialfe closed-form'")
+        return float(parsed.value({n: self.symbols[n].value for n in parsed.names}))
+
+    def read_symbols(self):
+        """Read ``[symbols]``: name = "18 kN" or name = { unit = "mm" }."""
+        table = self.data.get("symbols", {})
+        if not isinstance(table, dict):
+            self.fail("[symbols] must be a table of name = \"value unit\"", "symbols",
+                      place="symbols")
+        if not table:
+            return
+        ex = _expr()
+        for name, entry in table.items():
+            try:
+                self.symbols[name] = ex.read_symbol(name, entry)
+            except ModelError as exc:
+                raise ModelError(f"{name}: {exc.message}", place="symbols", file=self.source,
+                                 line=self.line("symbols", None, name), hint=exc.hint,
+                                 options=exc.options) from exc
+        if self.symbolic:
+            import sympy
+
+            self.sympy_symbols = {name: sympy.Symbol(name, real=True) for name in self.symbols}
 
     def number(self, value, *, table=None, index=None, key=None, place=None):
         if isinstance(value, bool) or not isinstance(value, (int, float)):
@@ -158,13 +221,21 @@ class _Reader:
             self.fail(f"{key}: expected a name in quotes: got {value!r}", table, index, key, place=place)
         return value
 
-    def build(self, cls, kwargs, table=None, index=None, place=None):
-        """Construct a model object, locating the errors its own checks raise."""
+    def build(self, cls, kwargs, table=None, index=None, place=None, raw=None):
+        """Construct a model object, locating the errors its own checks raise.
+
+        ``raw`` is the file's entry: a range error then quotes the value as written
+        (``'-70 GPa'``) rather than its SI float.
+        """
         try:
             return cls(**kwargs)
         except ModelError as exc:
-            key = _first_word(exc.message)
-            raise ModelError(exc.message, place=place or exc.place, file=self.source,
+            key = _key_in(exc.message, [_FILE_KEY.get(k, k) for k in kwargs]
+                          + [k for k, _ in kwargs.get("dimensions", ())])
+            message = exc.message
+            if raw is not None and isinstance(raw.get(key), str):
+                message = _RANGE_GOT.sub(lambda m: f"{m.group(1)}: got '{raw[key]}'", message)
+            raise ModelError(message, place=place or exc.place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
 
@@ -181,7 +252,7 @@ class _Reader:
                   for k, kind in kinds.items() if k in entry}
         if "source" in entry:
             kwargs["source"] = self.text(entry["source"], table=table, key="source", place=place)
-        return self.build(Material, {"name": name, **kwargs}, table, place=place)
+        return self.build(Material, {"name": name, **kwargs}, table, place=place, raw=entry)
 
     def section(self, name, entry):
         table = f"sections.{name}"
@@ -198,7 +269,7 @@ class _Reader:
                           "'inner_diameter'", table, place=table)
             if "wall_thickness" in dims and "outer_diameter" in dims:
                 dims["inner_diameter"] = dims["outer_diameter"] - 2 * dims.pop("wall_thickness")
-                if dims["inner_diameter"] < 0:
+                if _surely_negative(dims["inner_diameter"]):
                     self.fail("wall_thickness is more than half the outer diameter", table,
                               key="wall_thickness", place=table)
         allowed = {"round": ("diameter",), "tube": ("outer_diameter", "inner_diameter"),
@@ -208,7 +279,7 @@ class _Reader:
                 self.fail(f"'{key}' does not belong to a {shape} section", table, key=key,
                           place=table, options=allowed[shape])
         return self.build(Section, {"name": name, "shape": shape, "dimensions": tuple(dims.items())},
-                          table, place=table)
+                          table, place=table, raw=entry)
 
     def temperature_pair(self, entry, reference, table, index, place):
         """Return the temperature change of an entry with ``temperature_change`` or
@@ -246,9 +317,10 @@ class _Reader:
         data = self.data
         for key in data:
             if key not in _TOP_KEYS:
-                self.fail(f"unknown key '{key}'", key=key, place="top level",
-                          hint=suggest(key, _TOP_KEYS))
+                self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
+                          else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))
         title = data.get("title", Path(self.source).stem if self.source else "axial model")
+        self.read_symbols()
         settings = data.get("settings", {})
         self.keys(settings, _KEYS["settings"], "settings", place="settings")
         q = functools.partial(self.quantity, table="settings", place="settings")
@@ -283,7 +355,7 @@ class _Reader:
         for name, value in st_table.items():
             x = self.quantity(value, "length", table="stations", key=name, place="stations")
             stations.append(Station(name, x))
-        station_names = dict.fromkeys(st_table)  # ordered, O(1) look-up
+        station_names = dict.fromkeys(st_table)  # ordered, with O(1) look-ups
 
         builtins = None
         segments = []
@@ -303,7 +375,8 @@ class _Reader:
                     builtins = builtin_materials()
                 if mat_name not in builtins:
                     self.fail(f"unknown material '{mat_name}'", table, i, "material", place=place,
-                              hint=suggest(mat_name, [*materials, *builtins]))
+                              hint=suggest(mat_name, [*materials, *builtins]),
+                              options=[*materials, *builtins])
                 materials[mat_name] = builtins[mat_name]
             sec = self.name_ref(entry["section"], sections, "section", table, i, "section", place)
             end_sec = (self.name_ref(entry["end_section"], sections, "section", table, i,
@@ -330,7 +403,7 @@ class _Reader:
             if (gravity and materials[mat_name].density is None):
                 self.fail(f"self-weight needs a density for material '{mat_name}'", table, i,
                           "material", place=place)
-            segments.append(self.build(Segment, kwargs, table, i, place))
+            segments.append(self.build(Segment, kwargs, table, i, place, raw=entry))
 
         supports = []
         for i, entry in enumerate(self.array("supports"), 1):
@@ -347,7 +420,7 @@ class _Reader:
                 kwargs["displacement"] = qs(entry["displacement"], "length", key="displacement")
             if kwargs["kind"] == "settlement" and "displacement" not in entry:
                 self.fail("a settlement support needs 'displacement'", "supports", i, place=place)
-            supports.append(self.build(Support, kwargs, "supports", i, place))
+            supports.append(self.build(Support, kwargs, "supports", i, place, raw=entry))
 
         loads = self.loads(self.array("loads"), station_names, "loads", None, "loads")
 
@@ -376,7 +449,7 @@ class _Reader:
                       "clearance": self.quantity(entry["clearance"], "length", table="gaps",
                                                  index=i, key="clearance", place=place),
                       "kind": entry.get("kind", "contact"), "side": entry.get("side")}
-            gaps.append(self.build(Gap, kwargs, "gaps", i, place))
+            gaps.append(self.build(Gap, kwargs, "gaps", i, place, raw=entry))
 
         cases = []
         for i, entry in enumerate(self.array("cases"), 1):
@@ -387,6 +460,13 @@ class _Reader:
                 self.fail("a case needs 'name'", "cases", i, place=place)
             case_loads = self.loads(entry.get("loads", []), station_names, "cases", i, place)
             temps = self.case_temperatures(entry, reference, i, place)
+            seg_names = {seg.name for seg in segments}
+            for name, _ in temps:
+                if name != "all" and name not in seg_names:
+                    key = "temperature" if "temperature" in entry else "temperature_change"
+                    self.fail(f"unknown segment '{name}' in {key}", "cases", i, key, place=place,
+                              hint=suggest(name, seg_names))
+            settled = sorted({sp.at for sp in supports if sp.kind == "settlement"})
             settlements = []
             for s in entry.get("settlements", []):
                 if not isinstance(s, dict):
@@ -397,6 +477,10 @@ class _Reader:
                     self.fail("a settlement needs 'at' and 'displacement'", "cases", i,
                               "settlements", place=place)
                 st = self.name_ref(s["at"], station_names, "station", "cases", i, "settlements", place)
+                if st not in settled:
+                    self.fail(f"station '{st}' has no settlement support to move", "cases", i,
+                              "settlements", place=f"{place} settlements",
+                              hint=suggest(st, settled), options=settled or None)
                 settlements.append((st, self.quantity(s["displacement"], "length", table="cases",
                                                       index=i, key="settlements", place=place)))
             cases.append(self.build(Case, {"name": self.text(entry["name"], table="cases", index=i,
@@ -440,7 +524,8 @@ class _Reader:
                          cases=tuple(cases), combinations=tuple(combinations),
                          temperature_change=default_dt, gravity=gravity,
                          reference_temperature=reference, units=units, title=str(title),
-                         source=self.source, checks=checks, limits=tuple(limits))
+                         source=self.source, checks=checks, limits=tuple(limits),
+                         symbols=tuple(self.symbols.values()))
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
 
@@ -488,12 +573,37 @@ class _Reader:
         return ()
 
 
-def _first_word(message: str) -> str | None:
-    m = re.match(r"'?([a-z_]+)'?", message)
-    return m.group(1) if m else None
+_RANGE_GOT = re.compile(r"^(\w+ must (?:be positive|not be negative|be a finite number)): got .*$")
+_FILE_KEY = {"start": "from", "end": "to", "stations": "between"}
 
 
-def parse_model(text: str, source: str | None = None) -> Model:
+def _key_in(message: str, keys) -> str | None:
+    """The file key that a validation message speaks of (the first one it names)."""
+    found = [(m.start(), k) for k in keys if k and (m := re.search(rf"\b{re.escape(k)}\b", message))]
+    return min(found)[1] if found else None
+
+
+def _expr():
+    """The expression parser, imported when a model needs it."""
+    from . import expressions
+
+    return expressions
+
+
+def _rational(fraction):
+    import sympy
+
+    return sympy.Rational(fraction.numerator, fraction.denominator)
+
+
+def _surely_negative(value) -> bool:
+    try:
+        return bool(value < 0)
+    except TypeError:  # a symbolic value whose sign is open
+        return False
+
+
+def parse_model(text: str, source: str | None = None, symbolic: bool = False) -> Model:
     """Read a model from TOML text.
 
     Parameters
@@ -502,6 +612,11 @@ def parse_model(text: str, source: str | None = None) -> Model:
         The model file's contents.
     source : str, optional
         The file name shown in error messages.
+    symbolic : bool
+        Keep every value as an exact sympy expression of the declared
+        ``[symbols]`` (for :func:`axialfe.symbolic.solve_symbolic`) instead of
+        a float.  Without it, symbols are replaced by their values, and a
+        symbol without a value is an error where it is used.
 
     Raises
     ------
@@ -509,20 +624,26 @@ def parse_model(text: str, source: str | None = None) -> Model:
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
     try:
-        data = tomllib.loads(text)
+        with gc_paused():
+            data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
         raise ModelError(f"not valid TOML: {exc}", file=source,
                          line=int(m.group(1)) if m else None) from exc
-    return _Reader(data, source, text).model()
+    with gc_paused():
+        return _Reader(data, source, text, symbolic).model()
 
 
-def read_model(path) -> Model:
+def read_model(path, symbolic: bool = False) -> Model:
     """Read a model file (TOML); see :func:`parse_model`."""
     path = Path(path)
     try:
         text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ModelError("the model file does not exist", file=str(path)) from None
+    except IsADirectoryError:
+        raise ModelError("this is a folder, not a model file", file=str(path)) from None
     except (OSError, UnicodeDecodeError) as exc:
         raise ModelError(f"cannot read the model file: {exc.__class__.__name__}: {exc}",
                          file=str(path)) from exc
-    return parse_model(text, str(path))
+    return parse_model(text, str(path), symbolic)

@@ -80,12 +80,14 @@ def _case_tables(case: dict, units: dict):
 
 
 def summary_line(model) -> str:
-    parts = [f"{len(model.stations)} stations", f"{len(model.segments)} segments",
-             f"{len(model.supports)} supports"]
+    def count(n, word):
+        return f"{n} {word}" + ("s" if n != 1 else "")
+
+    parts = [count(len(model.stations), "station"), count(len(model.segments), "segment"),
+             count(len(model.supports), "support")]
     if model.gaps:
-        parts.append(f"{len(model.gaps)} gaps")
-    n_cases = len(model.all_cases) + len(model.combinations)
-    parts.append(f"{n_cases} case" + ("s" if n_cases != 1 else ""))
+        parts.append(count(len(model.gaps), "gap"))
+    parts.append(count(len(model.all_cases) + len(model.combinations), "case"))
     return ", ".join(parts)
 
 

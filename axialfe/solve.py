@@ -82,6 +82,7 @@ class System:
         cols = np.concatenate([self.gap_a, self.gap_b[two]])
         vals = np.concatenate([self.gap_s1, self.gap_s2[two]])
         self.B = sp.csr_matrix((vals, (rows, cols)), shape=(g, n))
+        self.BT = self.B.T.tocsr()
 
         # Connectivity, from the model alone, before any factorisation.
         held = np.zeros(n, dtype=bool)
@@ -156,7 +157,7 @@ class System:
         u[self.presc] = u_presc
         rhs = F.copy()
         if gap_force is not None and len(self.model.gaps):
-            rhs = rhs - self.B.T @ gap_force
+            rhs = rhs - self.BT @ gap_force
         u_r = u[self.restrained]
         u[self.free] = self._solve_free(rhs[self.free] - self.K_fr @ u_r)
         if shift is not None and self.n_parts:
@@ -226,7 +227,7 @@ class System:
         N = np.column_stack([n_from, n_to])
 
         g = len(model.gaps)
-        gap_nodal = self.B.T @ lam if g else np.zeros(asm.n)
+        gap_nodal = self.BT @ lam if g else np.zeros(asm.n)
         Ku = self.K @ u
         R_station = Ku - F + gap_nodal
         noise_R = 1e3 * _EPS * (self._abs_K @ np.abs(u) + np.abs(F) + np.abs(gap_nodal))
@@ -248,6 +249,11 @@ class System:
         presc_reac = np.bincount(sup_at[self.presc_support], reactions[self.presc_support],
                                  minlength=asm.n)
         balance += presc_reac
+        # out-of-balance at the level of rounding (the same bound that zeroes noise in
+        # forces) is no imbalance: it cannot be told from a force that is truly zero
+        station_noise = (np.bincount(asm.start, noise, minlength=asm.n)
+                         + np.bincount(asm.end, noise, minlength=asm.n) + noise_R)
+        balance = np.where(np.abs(balance) <= station_noise, 0.0, balance)
         scale = max(np.abs(state.forces).max(initial=0), np.abs(reactions).max(initial=0),
                     np.abs(N).max(initial=0), np.abs(lam).max(initial=0))
         residual = float(np.abs(balance).max() / scale) if scale > 0 else 0.0
@@ -284,6 +290,8 @@ def _bpp(M, q, scale_q, names):
     Returns z.  Falls back to one pivot at a time (Murty's least-index rule,
     finite for P-matrices) when the number of infeasibilities stops falling.
     """
+    from scipy.linalg import cho_factor, cho_solve
+
     n = len(q)
     diag = np.maximum(np.diag(M), 1e-300)
     tol_w = 1e-11 * scale_q
@@ -295,19 +303,18 @@ def _bpp(M, q, scale_q, names):
         if closed.any():
             sub = M[np.ix_(closed, closed)]
             try:
-                L = np.linalg.cholesky(sub)
+                factor = cho_factor(sub, check_finite=False)
             except np.linalg.LinAlgError:
                 raise SolveError("the contact state is not unique: gaps "
                                  f"{_names([names[i] for i in np.flatnonzero(closed)])} act "
                                  "together on the same stations, so their forces cannot be "
                                  "told apart; remove the redundant gap") from None
-            y = np.linalg.solve(L, -q[closed])
-            z[closed] = np.linalg.solve(L.T, y)
+            z[closed] = cho_solve(factor, -q[closed], check_finite=False)
         w = q + M @ z
         bad = (closed & (z < -tol_z)) | (~closed & (w < -tol_w))
         count = int(bad.sum())
         if count == 0:
-            return np.where(closed, np.maximum(z, 0.0), 0.0)
+            return np.where(closed, np.maximum(z, 0.0), 0.0), closed
         if count < best:
             best, budget = count, 3
             closed = closed ^ bad
@@ -324,7 +331,7 @@ def _lemke(Mb, qb, max_iter):
     """Lemke's complementary pivoting for w = qb + Mb z; returns z or None (no solution)."""
     n = len(qb)
     if np.all(qb >= 0):
-        return np.zeros(n)
+        return np.zeros(n), np.zeros(n, dtype=bool)
     # tableau columns: w (n), z (n), z0, rhs
     T = np.hstack([np.eye(n), -Mb, -np.ones((n, 1)), qb[:, None]])
     basis = list(range(n))
@@ -340,15 +347,17 @@ def _lemke(Mb, qb, max_iter):
         basis[r] = entering
         if leaving == 2 * n:
             z = np.zeros(n)
+            in_basis = np.zeros(n, dtype=bool)
             for i, b in enumerate(basis):
                 if n <= b < 2 * n:
                     z[b - n] = T[i, -1]
-            return z
+                    in_basis[b - n] = True
+            return z, in_basis
         entering = leaving + n if leaving < n else leaving - n
         col = T[:, entering]
         ok = col > 1e-12 * scale
         if not ok.any():
-            return None
+            return None, None
         ratios = np.full(n, np.inf)
         ratios[ok] = T[ok, -1] / col[ok]
         rmin = ratios.min()
@@ -359,19 +368,25 @@ def _lemke(Mb, qb, max_iter):
     raise SolveError("the contact search did not settle within its pivot limit")
 
 
-def solve_gaps(M, H, o0, f, system, label=""):
-    """Solve the gap LCP; return (gap forces, rigid shifts of gap-held parts)."""
+def solve_gaps(M, H, o0, f, system, label="", with_state=False):
+    """Solve the gap LCP; return (gap forces, rigid shifts of gap-held parts).
+
+    With ``with_state``, also return the closed set the pivoting ended with (the
+    gaps whose force is a basic variable), which is sharper than any tolerance on
+    the openings just past a change of state.
+    """
     model = system.model
     names = [gp.name for gp in model.gaps]
     scale_q = max(np.abs(o0).max(initial=0), system.clearance.max(initial=0), 1e-300)
     where = f" in case '{label}'" if label else ""
     if system.n_parts == 0:
-        return _bpp(M, o0, scale_q, names), np.zeros(0)
+        lam, closed = _bpp(M, o0, scale_q, names)
+        return (lam, np.zeros(0), closed) if with_state else (lam, np.zeros(0))
     g, p = H.shape
     Mb = np.block([[M, -H, H], [H.T, np.zeros((p, 2 * p))], [-H.T, np.zeros((p, 2 * p))]])
     fscale = max(np.abs(f).max(initial=0), 1.0)
     qb = np.concatenate([o0, -f, f])
-    z = _lemke(Mb, qb, 100 * (g + 2 * p) + 100)
+    z, basic = _lemke(Mb, qb, 100 * (g + 2 * p) + 100)
     stations = [st.name for st in model.stations]
     if z is None:
         parts = _part_text(system, stations)
@@ -391,7 +406,7 @@ def solve_gaps(M, H, o0, f, system, label=""):
                              "no load pressing the part against them; add a support or a load",
                              file=model.source)
     del fscale
-    return lam, shift
+    return (lam, shift, basic[:g]) if with_state else (lam, shift)
 
 
 def _part_text(system, stations):

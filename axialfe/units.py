@@ -17,7 +17,9 @@ from dataclasses import dataclass
 
 from .errors import UnitError
 
-__all__ = ["KINDS", "OutputUnits", "parse_quantity", "unit_factor", "to_unit", "describe"]
+__all__ = ["KINDS", "OutputUnits", "parse_quantity", "unit_factor", "to_unit", "describe",
+           "temperature_to_kelvin", "kelvin_to_temperature", "split_quantity",
+           "unit_base", "kind_dimensions", "number_and_unit"]
 
 # Each kind of value, the reference unit that fixes its dimension, and an example
 # shown when a unit is missing or wrong.
@@ -38,11 +40,12 @@ KINDS: dict[str, tuple[str, str]] = {
 
 _NUMBER = re.compile(r"^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
 # Offset temperature units read as a difference where a difference is meant.
+# (Any other offset unit pint knows is read the same way in unit_factor; note
+# that pint's 'degR' is the Rankine scale, which has no offset.)
 _AS_DIFFERENCE = {
     "degc": "delta_degC", "degf": "delta_degF", "celsius": "delta_degC",
     "fahrenheit": "delta_degF", "°c": "delta_degC", "°f": "delta_degF",
     "degree_celsius": "delta_degC", "degree_fahrenheit": "delta_degF",
-    "degr": "delta_degR", "reaumur": "delta_degRe",
 }
 
 
@@ -79,9 +82,28 @@ def _parse_unit(unit: str):
     return one.magnitude - zero.magnitude, zero.magnitude, parsed.dimensionality
 
 
+def _kind_of(dim) -> str | None:
+    """Name the kind(s) of value a dimensionality belongs to, for error messages."""
+    names = [k for k in KINDS if k != "temperature_difference" and _dimensionality(k) == dim]
+    return " or ".join(n.replace("_", " ") for n in names) or None
+
+
 def describe(kind: str) -> str:
-    """Return ``"a length, e.g. '40 mm'"`` for error messages."""
+    """Return ``"length, e.g. '40 mm'"`` for error messages."""
     return f"{kind.replace('_', ' ')}, e.g. '{KINDS[kind][1]}'"
+
+
+def _a(kind: str) -> str:
+    """Return ``"a length, e.g. '40 mm'"`` or ``"an area, ..."``."""
+    return ("an " if kind[0] in "aeiou" else "a ") + describe(kind)
+
+
+def _check_dimension(unit: str, dim, kind: str):
+    if dim != _dimensionality(kind):
+        found = _kind_of(dim)
+        if found:
+            raise UnitError(f"'{unit}' is a unit of {found}, not of {describe(kind)}")
+        raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
 
 
 def unit_factor(unit: str, kind: str) -> float:
@@ -95,8 +117,9 @@ def unit_factor(unit: str, kind: str) -> float:
     if kind == "temperature_difference" and unit.strip().lower() in _AS_DIFFERENCE:
         unit = _AS_DIFFERENCE[unit.strip().lower()]
     scale, offset, dim = _parse_unit(unit)
-    if dim != _dimensionality(kind):
-        raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
+    _check_dimension(unit, dim, kind)
+    if offset != 0.0 and kind == "temperature_difference":
+        return scale  # a change of that many degrees
     if offset != 0.0:
         raise UnitError(f"'{unit}' is an offset unit; use a difference unit such as 'K'")
     return scale
@@ -123,25 +146,57 @@ def parse_quantity(value, kind: str) -> float:
     75.0
     """
     if isinstance(value, bool) or not isinstance(value, (str, int, float)):
-        raise UnitError(f"expected a {describe(kind)}: got {value!r}")
+        raise UnitError(f"expected {_a(kind)}: got {value!r}")
     if not isinstance(value, str):
-        raise UnitError(f"a bare number needs a unit: give a {describe(kind)}")
+        raise UnitError(f"a bare number needs a unit: give {_a(kind)}")
     match = _NUMBER.match(value)
     if match is None:
-        raise UnitError(f"expected a number with a unit, a {describe(kind)}: got '{value}'")
+        raise UnitError(f"expected a number with a unit, {_a(kind)}: got '{value}'")
     number, unit = float(match.group(1)), match.group(2)
     if not unit:
-        raise UnitError(f"'{value}' has no unit: give a {describe(kind)}")
+        raise UnitError(f"'{value}' has no unit: give {_a(kind)}")
     if not math.isfinite(number):
         raise UnitError(f"'{value}' is not a finite number")
     if kind == "temperature":
         scale, offset, dim = _parse_unit(unit)
-        if dim != _dimensionality(kind):
-            raise UnitError(f"'{unit}' is not a unit of {describe(kind)}")
+        _check_dimension(unit, dim, kind)
         if unit.strip().lower().startswith("delta"):
             raise UnitError(f"'{value}' is a temperature difference; an absolute temperature is expected here")
         return float(_registry().Quantity(number, unit).to("kelvin").magnitude)
     return number * unit_factor(unit, kind)
+
+
+# --- helpers of the expression parser (axialfe.expressions) -----------------
+def unit_base(unit: str, difference: bool = False) -> tuple[float, dict[str, float]]:
+    """Return (scale, dimensions) of one unit name in SI base units.
+
+    ``dimensions`` maps pint's base dimensions (``'[length]'``, ...) to their
+    exponents.  With ``difference`` an offset temperature unit (degC) is read
+    as a difference of that many degrees; otherwise offset units are refused.
+
+    Examples
+    --------
+    >>> scale, dims = unit_base("kN")
+    >>> scale, sorted(dims.items())
+    (1000.0, [('[length]', 1), ('[mass]', 1), ('[time]', -2)])
+    """
+    if difference and unit.strip().lower() in _AS_DIFFERENCE:
+        unit = _AS_DIFFERENCE[unit.strip().lower()]
+    scale, offset, dim = _parse_unit(unit)
+    if offset != 0.0:
+        raise UnitError(f"'{unit}' is an offset unit; use a difference unit such as 'K'")
+    return scale, dict(dim)
+
+
+def kind_dimensions(kind: str) -> dict[str, float]:
+    """Return the base dimensions of one of :data:`KINDS` as a plain dict."""
+    return dict(_dimensionality(kind))
+
+
+def split_quantity(text: str) -> tuple[str, str] | None:
+    """Split ``"18 kN"`` into ``("18", "kN")``; None when it does not start with a number."""
+    match = _NUMBER.match(text)
+    return (match.group(1), match.group(2)) if match else None
 
 
 def to_unit(value, unit: str, kind: str):
@@ -188,3 +243,24 @@ class OutputUnits:
 
     def as_dict(self) -> dict[str, str]:
         return {k: getattr(self, k) for k in _KIND_OF}
+
+
+def temperature_to_kelvin(value: float, unit: str) -> float:
+    """An absolute temperature in ``unit`` (degC, degF, K, ...) in kelvin."""
+    return float(_registry().Quantity(value, unit).to("kelvin").magnitude)
+
+
+def kelvin_to_temperature(value, unit: str):
+    """Absolute temperature(s) in kelvin expressed in ``unit``."""
+    import numpy as np
+
+    q = _registry().Quantity(np.asarray(value, dtype=float), "kelvin").to(unit)
+    return q.magnitude
+
+
+def number_and_unit(text: str) -> tuple[float, str]:
+    """Split ``"-40 K"`` into (-40.0, 'K'); the unit may be empty."""
+    match = _NUMBER.match(text)
+    if match is None:
+        raise UnitError(f"expected a number with a unit: got '{text}'")
+    return float(match.group(1)), match.group(2)

@@ -338,23 +338,7 @@ def test_every_example_plots(tmp_path, path):
 
 
 # --- sweeps ---------------------------------------------------------------------------
-try:
-    from axialfe.sweep import Event, SweepResult
-except ImportError:  # the sweep module may not be merged yet: a stand-in with its attributes
-    @dataclass(frozen=True)
-    class Event:
-        name: str
-        event: str
-        value: float
-
-    @dataclass(frozen=True)
-    class SweepResult:
-        parameter: str
-        unit: str
-        values: np.ndarray
-        results: tuple
-        events: tuple
-        notes: tuple = ()
+from axialfe.sweep import Event, SweepResult, sweep as run_sweep  # noqa: E402
 
 
 RAIL = """
@@ -387,11 +371,11 @@ def test_plot_sweep_lines_and_events(tmp_path):
     state = load_states(model)[0]
     values = np.linspace(0.0, 80.0, 17)
     results = tuple(system.solve_state(state.with_temperature(v)) for v in values)
-    # closes when alpha*dT*L reaches the clearance: dT = c/(alpha*L) (issue of an expansion
-    # gap; e.g. Gere and Goodno, thermal effects with a gap, from memory) = 42.74 K
+    # closes when alpha*dT*L reaches the clearance: dT = c/(alpha*L) = 42.74 K (a bar heated
+    # against a gap; e.g. Gere and Goodno, Mechanics of Materials, thermal effects; from memory)
     close = 6e-3 / (11.7e-6 * 12.0)
     sweep = SweepResult("temperature_change", "K", values, results,
-                        (Event("joint", "closes", close),), ())
+                        (Event("joint", "closes", close),), (), model, "base")
     out = tmp_path / "sweep.png"
     fig = plot_sweep(sweep, out)
     img = mpimg.imread(out)
@@ -447,3 +431,17 @@ at = "b"
     positive = verts[verts[:, 1] > 0]
     assert positive[:, 0].max() < 500.0 + 1e-9
     assert np.any(np.isclose(verts[:, 0], 500.0) & (verts[:, 1] == 0.0))
+
+
+def test_plot_sweep_of_a_real_sweep(tmp_path):
+    model = parse_model(RAIL)
+    result = run_sweep(model, "temperature_change", 0.0, 80.0, 33, unit="K")
+    close = 6e-3 / (11.7e-6 * 12.0)          # c/(alpha*L), as above
+    assert [(e.name, e.event) for e in result.events] == [("joint", "closes")]
+    assert result.events[0].value == pytest.approx(close, rel=1e-9)
+    out = tmp_path / "sweep.svg"
+    fig = plot_sweep(result, out)
+    assert ET.parse(out).getroot().tag.endswith("svg")
+    gap_line, = _lines(fig, "sweep-gap-")
+    assert np.allclose(gap_line.get_ydata(), [r.gap_force[0] for r in result.results])
+    assert _lines(fig, "sweep-event-")[0].get_xdata()[0] == pytest.approx(close, rel=1e-9)

@@ -1,0 +1,397 @@
+"""Sweeps: the response along a temperature or load-factor range, with exact events.
+
+Between two changes of state the response is an affine function of the swept
+parameter s, so the path is tracked interval by interval: for the gap state of
+an interval the gap forces, openings and stresses are affine in s, each event
+(a gap closing or opening, a link going taut or slack, a segment reaching its
+yield strength) is the root of one of those affine functions, and the state
+after an event comes from the exact gap search just past it.  One factorisation
+serves the whole sweep.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from .errors import ModelError, SolveError, suggest
+from .loading import LoadState, load_states
+from .model import Model
+from .results import CaseResult
+from .solve import System, _names, solve_gaps
+from .units import (kelvin_to_temperature, parse_quantity, number_and_unit,
+                    temperature_to_kelvin, unit_factor)
+
+__all__ = ["PARAMETERS", "Event", "SweepResult", "sweep", "parse_range"]
+
+PARAMETERS = ("temperature_change", "temperature", "load_factor")
+_GAP_EVENTS = {("contact", True): "closes", ("contact", False): "opens",
+               ("slack", True): "taut", ("slack", False): "slack"}
+
+
+@dataclass(frozen=True)
+class Event:
+    """A change of state at parameter ``value`` (in the sweep's unit).
+
+    ``event`` is ``closes`` or ``opens`` (contacts), ``taut`` or ``slack``
+    (links) or ``yields`` (segments).
+    """
+
+    name: str
+    event: str
+    value: float
+
+
+@dataclass(frozen=True)
+class _Interval:
+    """One stretch of the path with a fixed gap state; everything affine in s."""
+
+    s_from: float
+    s_to: float
+    closed: np.ndarray
+    lam: tuple[np.ndarray, np.ndarray]    # value at s = 0 and slope
+    shift: tuple[np.ndarray, np.ndarray]
+    u: tuple[np.ndarray, np.ndarray]      # displacements: affine too, two solves
+
+
+class _Steps(Sequence):
+    """The results at the grid values, built on access (the sweep may be long)."""
+
+    def __init__(self, tracker, grid):
+        self._tracker, self._grid = tracker, grid
+
+    def __len__(self):
+        return len(self._grid)
+
+    def __getitem__(self, i):
+        if isinstance(i, slice):
+            return [self[j] for j in range(*i.indices(len(self)))]
+        return self._tracker.result_at(float(self._grid[i]))
+
+
+@dataclass(frozen=True, repr=False)
+class SweepResult:
+    """A solved sweep.
+
+    Attributes
+    ----------
+    parameter : str
+        One of :data:`PARAMETERS`.
+    unit : str
+        Unit of ``values`` and of every event value.
+    values : ndarray
+        The evenly spaced grid, both ends included.
+    results : sequence of CaseResult
+        One result per grid value, in the same form as a solved case.
+    events : tuple of Event
+        In the order they occur along the range.
+    notes : tuple of str
+    model : Model
+    case : str
+        The case swept.
+    """
+
+    parameter: str
+    unit: str
+    values: np.ndarray
+    results: Sequence
+    events: tuple[Event, ...]
+    notes: tuple[str, ...]
+    model: Model
+    case: str
+
+    def to_dict(self, units=None, steps=None) -> dict:
+        """Plain numbers in ``units``; ``steps`` may wrap :attr:`results` (a progress bar)."""
+        units = units or self.model.units
+        return {"title": self.model.title, "units": units.as_dict(), "parameter": self.parameter,
+                "unit": self.unit, "case": self.case, "values": self.values.tolist(),
+                "events": [{"name": e.name, "event": e.event, "value": e.value} for e in self.events],
+                "notes": list(self.notes),
+                "cases": [r.to_dict(units) for r in (self.results if steps is None else steps)]}
+
+    def __repr__(self):
+        return (f"<SweepResult of {self.parameter} over {self.values[0]:g}..{self.values[-1]:g} "
+                f"{self.unit}, {len(self.values)} steps, {len(self.events)} events>")
+
+
+def parse_range(text: str, parameter: str) -> tuple[float, float, str]:
+    """Read ``"-40 K..120 K"`` into (start, stop, unit) in the unit given.
+
+    Raises
+    ------
+    ModelError
+        When the text is not ``A..B`` or a value has the wrong unit.
+    """
+    where = f"--{parameter.replace('_', '-')}"
+    parts = text.split("..")
+    if len(parts) != 2 or not parts[0].strip() or not parts[1].strip():
+        raise ModelError(f"expected a range 'START..STOP', e.g. "
+                         f"'{ {'load_factor': '0..2', 'temperature': '-20 degC..150 degC'}.get(parameter, '-40 K..120 K') }': got '{text}'",
+                         place=where)
+    try:
+        (a, ua), (b, ub) = number_and_unit(parts[0]), number_and_unit(parts[1])
+    except ModelError as exc:
+        raise ModelError(exc.message, place=where) from None
+    if parameter == "load_factor":
+        if ua or ub:
+            raise ModelError(f"a load factor is a plain number: got '{text}'", place=where)
+        return a, b, "1"
+    unit = ua or ub
+    if not unit:
+        raise ModelError(f"'{text}' has no unit: give e.g. '-40 K..120 K'", place=where)
+    ub = ub or unit
+    kind = "temperature_difference" if parameter == "temperature_change" else "temperature"
+    try:
+        if kind == "temperature":
+            b_in = float(kelvin_to_temperature(temperature_to_kelvin(b, ub), unit))
+            parse_quantity(f"{a} {unit}", kind)
+        else:
+            b_in = b * unit_factor(ub, kind) / unit_factor(unit, kind)
+    except ModelError as exc:
+        raise ModelError(exc.message, place=where) from None
+    return a, b_in, unit
+
+
+class _Tracker:
+    """Follows the piecewise-affine path of one case along the internal parameter s."""
+
+    def __init__(self, system: System, base: LoadState, parameter: str, to_user):
+        self.system = system
+        self.base = base
+        self.parameter = parameter
+        self.to_user = to_user
+        s0, s1 = self.state(0.0), self.state(1.0)
+        F0, up0, t0 = system.state_vectors(s0)
+        F1, up1, t1 = system.state_vectors(s1)
+        self.F = (F0, F1 - F0)
+        self.up = (up0, up1 - up0)
+        self.terms = tuple((a, b - a) for a, b in zip(t0, t1))
+        g = len(system.model.gaps)
+        if g:
+            o_a, f_a = system.gap_problem(F0, up0)
+            o_b, f_b = system.gap_problem(F1, up1)
+            self.o0 = (o_a, o_b - o_a)
+            self.f = (f_a, f_b - f_a)
+            self.M, self.H = system.gap_matrix
+        self.intervals: list[_Interval] = []
+
+    def state(self, s) -> LoadState:
+        if self.parameter == "load_factor":
+            return self.base.scaled_loads(s)
+        return self.base.with_temperature(s)
+
+    def _at(self, pair, s):
+        return pair[0] + s * pair[1]
+
+    def gap_state(self, s):
+        """Exact gap search at s; returns the closed set."""
+        system = self.system
+        g = len(system.model.gaps)
+        if g == 0:
+            return np.zeros(0, dtype=bool)
+        return solve_gaps(self.M, self.H, self._at(self.o0, s), self._at(self.f, s), system,
+                          with_state=True)[2]
+
+    def affine_forces(self, closed):
+        """Gap forces and rigid shifts for a fixed closed set, affine in s."""
+        M, H = self.M, self.H
+        C = np.flatnonzero(closed)
+        p = H.shape[1]
+        A = np.block([[M[np.ix_(C, C)], -H[C]], [H[C].T, np.zeros((p, p))]])
+        out = []
+        for s in (0.0, 1.0):
+            rhs = np.concatenate([-self._at(self.o0, s)[C], self._at(self.f, s)])
+            try:
+                x = np.linalg.solve(A, rhs) if len(rhs) else rhs
+            except np.linalg.LinAlgError:
+                raise SolveError("the gap state is not unique along the sweep") from None
+            lam = np.zeros(len(closed))
+            lam[C] = x[:len(C)]
+            out.append((lam, x[len(C):]))
+        (l0, r0), (l1, r1) = out
+        return (l0, l1 - l0), (r0, r1 - r0)
+
+    def result_at(self, s_user: float) -> CaseResult:
+        s = self.from_user(s_user)
+        iv = self.interval_of(s)
+        return self._result(iv, s)
+
+    def interval(self, s_from, s_to, closed, lam, shift) -> _Interval:
+        """The interval of one gap state; u is affine in s, so two solves serve all its steps."""
+        def u_at(s):
+            return self.system.displacements(
+                self._at(self.F, s), self._at(self.up, s),
+                self._at(lam, s) if lam[0].size else None,
+                self._at(shift, s) if shift[0].size else None)
+
+        u0 = u_at(0.0)
+        return _Interval(s_from, s_to, closed, lam, shift, (u0, u_at(1.0) - u0))
+
+    def _result(self, iv: _Interval, s: float) -> CaseResult:
+        system = self.system
+        F = self._at(self.F, s)
+        lam = self._at(iv.lam, s) if iv.lam[0].size else np.zeros(0)
+        u = self._at(iv.u, s)
+        terms = tuple(self._at(t, s) for t in self.terms)
+        return system.recover(self.state(s), u, F, np.maximum(lam, 0.0) if lam.size else lam, terms)
+
+    def interval_of(self, s):
+        for iv in self.intervals:
+            lo, hi = sorted((iv.s_from, iv.s_to))
+            if lo - 1e-12 * (1 + abs(lo)) <= s <= hi + 1e-12 * (1 + abs(hi)):
+                return iv
+        return self.intervals[-1]
+
+
+def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
+          unit: str | None = None, case: str | None = None, progress=None) -> SweepResult:
+    """Solve a case along a parameter range and find its events exactly.
+
+    Parameters
+    ----------
+    model : Model
+    parameter : {'temperature_change', 'temperature', 'load_factor'}
+        ``temperature_change`` replaces every segment's thermal input by the
+        swept change; ``temperature`` sweeps an absolute temperature against
+        ``settings.reference_temperature``; ``load_factor`` scales the point
+        and distributed loads of the case (temperatures, self-weight, misfit
+        and settlements are held).
+    start, stop : float
+        The range in ``unit`` (it may decrease).
+    steps : int
+        Grid points, both ends included (at least 2).
+    unit : str, optional
+        Unit of start and stop: a temperature difference unit, an absolute
+        temperature unit, or None for a load factor.
+    case : str, optional
+        The case or combination to sweep (default: the first).
+
+    Raises
+    ------
+    SolveError
+        When equilibrium is lost along the range, naming the value.
+    """
+    if parameter not in PARAMETERS:
+        raise ModelError(f"unknown sweep parameter '{parameter}'", hint=suggest(parameter, PARAMETERS),
+                         options=PARAMETERS)
+    if steps < 2:
+        raise ModelError(f"--steps must be at least 2 (both ends of the range): got {steps}",
+                         place="--steps")
+    states = load_states(model)
+    names = [s.name for s in states]
+    if case is None:
+        base = states[0]
+    elif case in names:
+        base = states[names.index(case)]
+    else:
+        raise ModelError(f"unknown case '{case}'", place="--case", hint=suggest(case, names),
+                         options=names)
+
+    if parameter == "temperature_change":
+        unit = unit or "K"
+        factor = unit_factor(unit, "temperature_difference")
+        to_internal = lambda v: v * factor  # noqa: E731
+        to_user = lambda s: s / factor  # noqa: E731
+    elif parameter == "temperature":
+        if model.reference_temperature is None:
+            raise ModelError("a sweep of absolute temperature needs settings.reference_temperature",
+                             file=model.source, place="settings")
+        unit = unit or "K"
+        ref = model.reference_temperature
+        to_internal = lambda v: temperature_to_kelvin(v, unit) - ref  # noqa: E731
+        to_user = lambda s: float(kelvin_to_temperature(ref + s, unit))  # noqa: E731
+    else:
+        unit = "1"
+        to_internal = to_user = lambda v: float(v)  # noqa: E731
+
+    system = System(model)
+    tracker = _Tracker(system, base, parameter, to_user)
+    tracker.from_user = to_internal
+    s_start, s_stop = to_internal(start), to_internal(stop)
+    direction = 1.0 if s_stop >= s_start else -1.0
+    span = abs(s_stop - s_start)
+    delta = 1e-9 * max(span, 1e-12)
+    g = len(model.gaps)
+    gaps = model.gaps
+    yield_strength = np.array([seg.material.yield_strength or np.inf for seg in model.segments])
+    yielded = np.zeros(len(model.segments), dtype=bool)
+    events: list[Event] = []
+    notes: list[str] = []
+
+    def lost(exc, s):
+        shown = f"{to_user(s):.6g}" + ("" if unit == "1" else f" {unit}")
+        return SolveError(f"{exc.message} at {parameter} = {shown}", file=model.source)
+
+    s = s_start
+    try:
+        closed = tracker.gap_state(s + direction * delta) if g else np.zeros(0, dtype=bool)
+    except SolveError as exc:
+        raise lost(exc, s) from None
+    first = True
+    for _ in range(10_000 + 100 * g):
+        lam, shift = tracker.affine_forces(closed) if g else ((np.zeros(0),) * 2, (np.zeros(0),) * 2)
+        iv_probe = tracker.interval(s, s_stop, closed, lam, shift)
+        # gap events: a closed gap's force, or an open gap's opening, reaching zero
+        candidates = []
+        if g:
+            o = [tracker._at(tracker.o0, t) + tracker.M @ tracker._at(lam, t)
+                 - tracker.H @ tracker._at(shift, t) for t in (0.0, 1.0)]
+            value = np.where(closed, lam[0], o[0])
+            slope = np.where(closed, lam[1], o[1] - o[0])
+            with np.errstate(divide="ignore", invalid="ignore"):
+                root = np.where(slope != 0, -value / slope, np.inf)
+            ahead = (root - s) * direction > 2 * delta
+            if ahead.any():
+                candidates.append(root[ahead][np.argmin((root[ahead] - s) * direction)])
+        s_next = s_stop
+        if candidates and (candidates[0] - s_stop) * direction < 0:
+            s_next = float(candidates[0])
+        # yield events inside [s, s_next]: stresses are affine there
+        if np.isfinite(yield_strength).any():
+            r0, r1 = tracker._result(iv_probe, 0.0), tracker._result(iv_probe, 1.0)
+            sig0, dsig = r0.stress, r1.stress - r0.stress
+            sig_here = sig0 + s * dsig
+            fy = yield_strength[:, None]
+            if first:
+                already = np.any(np.abs(sig_here) >= fy * (1 - 1e-12), axis=1)
+                for j in np.flatnonzero(already & ~yielded):
+                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its yield "
+                                 f"strength at the start of the range")
+                yielded |= already
+            with np.errstate(divide="ignore", invalid="ignore"):
+                roots = np.stack([(fy - sig0) / dsig, (-fy - sig0) / dsig])
+            roots = np.where(np.isfinite(roots) & ((roots - s) * direction > 0)
+                             & ((roots - s_next) * direction <= 0), roots, np.nan)
+            dist = np.abs(roots - s)
+            for j in np.flatnonzero(~yielded & np.any(np.isfinite(dist), axis=(0, 2))):
+                at = np.nanargmin(dist[:, j, :])
+                s_y = float(roots[:, j, :].flat[at])
+                events.append(Event(model.segments[j].name, "yields", to_user(s_y)))
+                yielded[j] = True
+                notes.append(f"segment '{model.segments[j].name}' reaches its yield strength at "
+                             f"{parameter} = {to_user(s_y):.6g} {unit}; beyond it the sweep stays "
+                             "linear-elastic and the results are not valid for a yielded part")
+        first = False
+        tracker.intervals.append(replace(iv_probe, s_to=s_next))
+        if s_next == s_stop:
+            break
+        try:
+            new_closed = tracker.gap_state(s_next + direction * delta)
+        except SolveError as exc:
+            raise lost(exc, s_next) from None
+        for j in np.flatnonzero(new_closed != closed):
+            events.append(Event(gaps[j].name, _GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
+                                to_user(s_next)))
+        closed, s = new_closed, s_next
+        if progress is not None:
+            progress(abs(s - s_start) / max(span, 1e-300))
+    else:
+        raise SolveError("the sweep found too many changes of state to follow", file=model.source)
+
+    order = np.argsort([direction * to_internal(e.value) for e in events], kind="stable")
+    events = [events[i] for i in order]
+    grid = np.linspace(start, stop, steps)
+    return SweepResult(parameter=parameter, unit=unit, values=grid, results=_Steps(tracker, grid),
+                       events=tuple(events), notes=tuple(notes), model=model, case=base.name)

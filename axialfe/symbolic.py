@@ -1,0 +1,759 @@
+"""Closed forms: the model's own system assembled and solved exactly with sympy.
+
+For auditing a hand calculation: the same two-node bar elements as
+:mod:`axialfe.assemble` (``N_from = k*(du - delta0) + k*G``, node forces from
+element equilibrium), built with exact rationals and the declared symbols,
+assembled into the same global system, and solved exactly.  Unknowns are the
+displacements of the stations without a prescribed value and the forces of the
+closed gaps; the reduced system is solved by sparse elimination over the field
+of rational functions of the symbols (:func:`sympy.linsolve`), never by an
+inverse of the full matrix, and each result is simplified on its own.
+
+Gaps: the closed forms belong to one contact state (the numeric solver's, or
+one the user assumes); that state holds where its conditions hold: every
+closed contact carries compression (a taut link tension), every open gap has
+clearance left.  Symbols are real; a symbol standing alone (times a positive
+number) in a field that must be positive (modulus, expansion, size, area,
+density, stiffness, clearance, a distance between consecutive stations) is
+assumed positive, unless its value says otherwise.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass, field
+from fractions import Fraction
+
+import sympy
+
+from .errors import ModelError, SolveError, suggest
+from .model import Model
+
+__all__ = ["ClosedForm", "solve_symbolic", "numeric_model", "closed_form_dict",
+           "closed_form_text", "QUANTITIES", "TOLERANCE"]
+
+QUANTITIES = ("reactions", "displacements", "axial_forces", "stresses", "gaps", "conditions")
+TOLERANCE = 1e-9
+
+
+def _rat(value):
+    if isinstance(value, Fraction):
+        return sympy.Rational(value.numerator, value.denominator)
+    if isinstance(value, bool):
+        raise TypeError(value)
+    if isinstance(value, int):
+        return sympy.Integer(value)
+    if isinstance(value, float):
+        f = Fraction(repr(value))
+        return sympy.Rational(f.numerator, f.denominator)
+    return value
+
+
+@dataclass(frozen=True, repr=False)
+class ClosedForm:
+    """The closed-form solution of one case of a model.
+
+    Attributes
+    ----------
+    model : Model
+    case : str
+    symbols : dict of str to sympy.Symbol
+        Every declared symbol, with the assumptions used.
+    values : dict of str to sympy.Rational or None
+        Each symbol's value in SI base units, None when it has none.
+    displacements, reactions : dict of str to sympy.Expr
+        By station name (reactions summed per station, as
+        :meth:`axialfe.results.CaseResult.reaction` does).
+    axial_forces, stresses : dict of str to (sympy.Expr, sympy.Expr)
+        By segment name, at the ``from`` and the ``to`` end.
+    gap_forces : dict of str to sympy.Expr
+        Force of each gap (tension positive); 0 for an open one.
+    gap_closed : dict of str to bool
+        The contact state the closed forms belong to.
+    assumed : tuple of str
+        The gaps whose state was assumed by the caller.
+    conditions : tuple of sympy relations
+        Where the contact state holds; all must hold together.
+    notes : tuple of str
+    """
+
+    model: Model
+    case: str
+    symbols: dict
+    values: dict
+    displacements: dict
+    reactions: dict
+    axial_forces: dict
+    stresses: dict
+    gap_forces: dict
+    gap_closed: dict
+    assumed: tuple = ()
+    conditions: tuple = ()
+    notes: tuple = field(default=())
+
+    def _subs(self):
+        return {self.symbols[n]: v for n, v in self.values.items() if v is not None}
+
+    def evaluate(self, expr):
+        """The value of ``expr`` (SI) with the symbols' values; None if one is missing."""
+        expr = _rat(expr)
+        value = expr.xreplace(self._subs())
+        if value.free_symbols:
+            return None
+        return float(value)
+
+    def displacement(self, station: str):
+        self.model.station_index(station)
+        return self.displacements[station]
+
+    def force(self, segment: str):
+        self.model.segment_index(segment)
+        return self.axial_forces[segment]
+
+    def reaction(self, station: str):
+        if station not in self.reactions:
+            raise ModelError(f"station '{station}' has no support", place="reactions",
+                             hint=suggest(station, self.reactions))
+        return self.reactions[station]
+
+    def gap(self, name: str):
+        if name not in self.gap_forces:
+            raise ModelError(f"unknown gap '{name}'", place="gaps", hint=suggest(name, self.gap_forces))
+        return self.gap_forces[name]
+
+    def __repr__(self):
+        return (f"<ClosedForm of '{self.model.title}', case '{self.case}': "
+                f"{len(self.displacements)} stations, {len(self.axial_forces)} segments>")
+
+
+# --- the symbols and their assumptions ----------------------------------------
+def _positive_fields(model: Model):
+    """Yield every value whose field must be positive."""
+    seen = set()
+    for seg in model.segments:
+        mat = seg.material
+        if id(mat) not in seen:
+            seen.add(id(mat))
+            yield from (mat.elastic_modulus, mat.thermal_expansion, mat.density, mat.yield_strength)
+        for sec in seg.sections:
+            if id(sec) not in seen:
+                seen.add(id(sec))
+                for key, v in sec.dimensions:
+                    if key != "inner_diameter":
+                        yield v
+    for sup in model.supports:
+        if sup.kind == "spring":
+            yield sup.stiffness
+    for gap in model.gaps:
+        yield gap.clearance
+    xs = [st.x for st in model.stations]
+    if any(isinstance(x, sympy.Basic) and x.free_symbols for x in xs):
+        for a, b in zip(xs, xs[1:]):
+            yield _rat(b) - _rat(a)
+
+
+def _symbols(model: Model):
+    """Return (names -> real symbols of the model, names -> assumed symbols, values)."""
+    values = {d.name: (_rat(d.value) if d.value is not None else None) for d in model.symbols}
+    real = {d.name: sympy.Symbol(d.name, real=True) for d in model.symbols}
+    positive = set()
+    for v in _positive_fields(model):
+        if isinstance(v, sympy.Basic):
+            coeff, rest = v.as_coeff_Mul()
+            if coeff > 0 and rest.is_Symbol and rest.name in real:
+                positive.add(rest.name)
+    assumed = {}
+    for name in real:
+        value = values[name]
+        if name in positive and (value is None or value > 0):
+            assumed[name] = sympy.Symbol(name, positive=True)
+        else:
+            assumed[name] = real[name]
+    return real, assumed, values
+
+
+# --- assembly ------------------------------------------------------------------
+def _section_factors(sec, exact):
+    d = {k: exact(v) for k, v in sec.dimensions}
+    if sec.shape == "round":
+        return sympy.pi / 4, d["diameter"], d["diameter"]
+    if sec.shape == "tube":
+        return sympy.pi / 4, d["outer_diameter"] - d["inner_diameter"], d["outer_diameter"] + d["inner_diameter"]
+    if sec.shape == "rectangle":
+        return sympy.Integer(1), d["width"], d["height"]
+    return sympy.Integer(1), d["area"], sympy.Integer(1)
+
+
+def _element(seg, length, g_local, exact):
+    """Return (k, A_from, A_to, g_unit_q, w_self, g_self) of one segment, exactly."""
+    E = exact(seg.material.elastic_modulus)
+    rho = exact(seg.material.density) if seg.material.density is not None else sympy.Integer(0)
+    s0, s1 = seg.sections
+    c, p1, q1 = _section_factors(s0, exact)
+    _, p2, q2 = _section_factors(s1, exact)
+    a1, a2 = c * p1 * q1, c * p2 * q2
+    L = length
+    if sympy.cancel(p1 - p2) == 0 and sympy.cancel(q1 - q2) == 0:
+        k = E * a1 / L
+        return k, a1, a1, L**2 / (2 * E * a1), rho * g_local * a1 * L, rho * g_local * L**2 / (2 * E)
+    dp, dq = (p2 - p1) / L, (q2 - q1) / L
+    det = sympy.cancel(p1 * dq - q1 * dp)
+    if det == 0:
+        flex = L / (E * c * q1 * p2)
+    else:
+        t = L * det / (q1 * p2)
+        flex = L / (E * c * q1 * p2) * sympy.log(1 + t) / t
+    k = 1 / flex
+    s = sympy.Dummy("s", positive=True)
+    area = c * (p1 + dp * s) * (q1 + dq * s)
+    g_unit_q = w_self = g_self = sympy.Integer(0)
+    if seg.distributed_load:
+        g_unit_q = sympy.integrate(s / (E * area), (s, 0, L), conds="none")
+    if rho != 0 and g_local != 0:
+        vol = sympy.integrate(area, (s, 0, s))
+        w_self = rho * g_local * vol.subs(s, L)
+        g_self = rho * g_local * sympy.integrate(vol / (E * area), (s, 0, L), conds="none")
+    for term in (g_unit_q, g_self):
+        if term.has(sympy.Integral):
+            raise ModelError(f"no closed form for the load integral of tapered segment '{seg.name}'")
+    return k, a1, a2, g_unit_q, w_self, g_self
+
+
+def _state(model: Model, case: str | None, exact):
+    """Return (name, forces by station, dT by segment, settlement by support, q factor)."""
+    cases = {c.name: c for c in model.all_cases}
+    combos = {c.name: c for c in model.combinations}
+    name = case if case is not None else model.all_cases[0].name
+    if name not in cases and name not in combos:
+        options = [*cases, *combos]
+        raise ModelError(f"unknown case '{name}'", place="cases", hint=suggest(name, options),
+                         options=options)
+    default = exact(model.temperature_change) if model.temperature_change is not None else 0
+    own_t = [exact(s.temperature_change) if s.temperature_change is not None else default
+             for s in model.segments]
+    own_s = [exact(s.displacement) for s in model.supports]
+    seg_index = {s.name: i for i, s in enumerate(model.segments)}
+
+    def one(c, factor):
+        forces = {}
+        for load in c.loads:
+            forces[load.at] = forces.get(load.at, 0) + factor * exact(load.force)
+        t_set = {}
+        table = dict(c.temperature_change)
+        if "all" in table:
+            t_set = {i: factor * exact(table["all"]) for i in range(len(model.segments))}
+        for seg, dt in table.items():
+            if seg != "all":
+                t_set[seg_index[seg]] = factor * exact(dt)
+        moved = dict(c.settlements)
+        s_set = {j: factor * exact(moved[s.at]) for j, s in enumerate(model.supports)
+                 if s.kind == "settlement" and s.at in moved}
+        return forces, t_set, s_set
+
+    if name in cases:
+        forces, t_set, s_set = one(cases[name], 1)
+    else:
+        forces, t_set, s_set = {}, {}, {}
+        for case_name, factor in combos[name].factors:
+            f, t, st = one(cases[case_name], _rat(factor))
+            for k, v in f.items():
+                forces[k] = forces.get(k, 0) + v
+            for k, v in t.items():
+                t_set[k] = t_set.get(k, 0) + v
+            for k, v in st.items():
+                s_set[k] = s_set.get(k, 0) + v
+    dT = [t_set.get(i, own_t[i]) for i in range(len(model.segments))]
+    settle = [s_set.get(j, own_s[j]) for j in range(len(model.supports))]
+    return name, forces, dT, settle
+
+
+def _tidy(expr):
+    """Simplify one result: cancel to one fraction, then factor when that is shorter."""
+    expr = _rat(expr)
+    if expr.is_number:
+        return sympy.cancel(expr)
+    e = sympy.cancel(expr)
+    f = sympy.factor(e)
+    best = f if sympy.count_ops(f) <= sympy.count_ops(e) else e
+    return _fewer_minus(best)
+
+
+def _fewer_minus(expr):
+    """Take the minus out of brackets that read better negated: -x*(-a - b + c) -> x*(a + b - c)."""
+    if not expr.is_Mul:
+        return expr
+    parts, sign = [], 1
+    for f in sympy.Mul.make_args(expr):
+        base, exp = f.as_base_exp()
+        if base.is_Add and exp.is_Integer:
+            neg = sympy.Add(*[-t for t in base.args])
+            if str(neg).count("-") < str(base).count("-"):
+                parts.append(sympy.Pow(neg, exp))
+                sign *= (-1) ** int(exp)
+                continue
+        parts.append(f)
+    flipped = sympy.Mul(*parts) * sign
+    return flipped if str(flipped).count("-") < str(expr).count("-") else expr
+
+
+def _relation(g, prefer):
+    """Return the condition g >= 0 as a readable relation (solved for a symbol when linear)."""
+    g = sympy.factor(sympy.cancel(g))
+    if g.is_number:
+        return sympy.true if g >= 0 else sympy.false
+    num, den = sympy.fraction(g)
+    sign = 1
+    kept = []
+    for part in (num, den):
+        rest = []
+        for f in sympy.Mul.make_args(part):
+            if f.is_positive:
+                continue
+            if f.is_negative:
+                sign = -sign
+                continue
+            rest.append(f)
+        kept.append(sympy.Mul(*rest))
+    num, den = kept
+    if den != 1:
+        return sympy.Ge(_tidy(sign * num / den), 0)
+    for x in prefer:
+        if x not in num.free_symbols:
+            continue
+        poly = sympy.Poly(num, x)
+        if poly.degree() != 1:
+            continue
+        a, b = poly.all_coeffs()
+        a = sympy.factor(a)
+        if (sign * a).is_positive:
+            return sympy.Ge(x, _tidy(-b / a))
+        if (sign * a).is_negative:
+            return sympy.Le(x, _tidy(-b / a))
+    return sympy.Ge(sign * num, 0)
+
+
+def _check_positions(model, xs, subs):
+    """Symbolic positions: the stations must be listed in increasing x."""
+    if not any(isinstance(x, sympy.Basic) and x.free_symbols for x in xs):
+        return False
+    names = [st.name for st in model.stations]
+    for i in range(len(xs) - 1):
+        d = (xs[i + 1] - xs[i]).xreplace(subs)
+        if (not d.free_symbols and d <= 0) or d.is_nonpositive:
+            raise ModelError(f"stations with symbolic positions must be listed in increasing x: "
+                             f"'{names[i + 1]}' (x = {xs[i + 1]}) does not lie beyond "
+                             f"'{names[i]}' (x = {xs[i]})", place="stations", file=model.source)
+    return True
+
+
+def solve_symbolic(model: Model, case: str | None = None, assume=None, state=None) -> ClosedForm:
+    """Solve one case of a model exactly, in closed form.
+
+    Parameters
+    ----------
+    model : Model
+        A model read with ``symbolic=True`` (values are sympy expressions of
+        its symbols), or a plain numeric model (floats are read as the exact
+        decimals they print as).
+    case : str, optional
+        The case or combination (default: the first case).
+    assume : mapping of str to bool, optional
+        Gap name -> closed (True) or open (False): the contact state to give
+        the closed forms for.
+    state : mapping of str to bool, optional
+        The contact state found by the numeric solver, for gaps not assumed.
+
+    Returns
+    -------
+    ClosedForm
+
+    Raises
+    ------
+    ModelError
+        When the state of a gap is neither assumed nor known.
+    SolveError
+        When the assumed state leaves a part free to move, or has no solution.
+
+    Examples
+    --------
+    A bar between rigid walls with a load P at a, b short of the right wall,
+    takes -P*b/L at the left wall (Timoshenko, Strength of Materials, Part I,
+    statically indeterminate problems in tension; from memory):
+
+    >>> from axialfe.modelfile import parse_model
+    >>> text = '''
+    ... [symbols]
+    ... P = { unit = "kN" }
+    ... a = { unit = "mm" }
+    ... b = { unit = "mm" }
+    ... [materials.steel]
+    ... elastic_modulus = "200 GPa"
+    ... [sections.rod]
+    ... shape = "area"
+    ... area = "100 mm^2"
+    ... [stations]
+    ... left = "0 mm"
+    ... C = "a"
+    ... right = "a + b"
+    ... [[segments]]
+    ... from = "left"
+    ... to = "C"
+    ... material = "steel"
+    ... section = "rod"
+    ... [[segments]]
+    ... from = "C"
+    ... to = "right"
+    ... material = "steel"
+    ... section = "rod"
+    ... [[supports]]
+    ... at = "left"
+    ... [[supports]]
+    ... at = "right"
+    ... [[loads]]
+    ... at = "C"
+    ... force = "P"
+    ... '''
+    >>> cf = solve_symbolic(parse_model(text, symbolic=True))
+    >>> cf.reaction("left")
+    -P*b/(a + b)
+    """
+    real, syms, values = _symbols(model)
+    repl = {real[n]: syms[n] for n in real}
+    subs = {syms[n]: v for n, v in values.items() if v is not None}
+
+    def exact(v):
+        v = _rat(v)
+        return v.xreplace(repl) if isinstance(v, sympy.Basic) else v
+
+    assume = dict(assume or {})
+    gap_names = [g.name for g in model.gaps]
+    for name in assume:
+        if name not in gap_names:
+            raise ModelError(f"--assume names an unknown gap '{name}'", hint=suggest(name, gap_names),
+                             options=gap_names or None)
+    closed = {}
+    for name in gap_names:
+        if name in assume:
+            closed[name] = bool(assume[name])
+        elif state is not None and name in state:
+            closed[name] = bool(state[name])
+    undecided = [n for n in gap_names if n not in closed]
+    if undecided:
+        raise ModelError("the contact state is undecided: give every symbol a value, or assume "
+                         "the state of gap(s) " + ", ".join(f"'{n}'" for n in undecided)
+                         + " (e.g. --assume " + f"{undecided[0]}=closed)", file=model.source)
+
+    xs = [exact(st.x) for st in model.stations]
+    by_order = _check_positions(model, xs, subs)
+    index = {st.name: i for i, st in enumerate(model.stations)}
+    n = len(xs)
+    gravity = exact(model.gravity)
+    name, forces, dT, settle = _state(model, case, exact)
+
+    K = {}
+
+    def add(i, j, v):
+        K[(i, j)] = K.get((i, j), 0) + v
+
+    F = [sympy.Integer(0)] * n
+    for st, f in forces.items():
+        F[index[st]] += f
+    elems = []
+    for m, seg in enumerate(model.segments):
+        i, j = index[seg.start], index[seg.end]
+        dx = xs[j] - xs[i]
+        if dx == 0:
+            raise ModelError(f"stations '{seg.start}' and '{seg.end}' stand at the same position; "
+                             "a segment needs a length", place=f"segments[{m + 1}] ('{seg.name}')",
+                             file=model.source)
+        if dx.is_number:
+            e = 1 if dx > 0 else -1
+        elif by_order:
+            e = 1 if j > i else -1
+        else:  # pragma: no cover - positions are symbolic only with by_order
+            raise AssertionError
+        L = sympy.expand(e * dx)
+        k, a1, a2, g_unit_q, w_self, g_self = _element(seg, L, gravity * e, exact)
+        delta0 = exact(seg.material.thermal_expansion) * dT[m] * L + exact(seg.misfit)
+        q_local = exact(seg.distributed_load) * e
+        G = q_local * g_unit_q + g_self
+        W = q_local * L + w_self
+        add(i, i, k), add(j, j, k), add(i, j, -k), add(j, i, -k)
+        F[i] += e * (-k * delta0 + k * G)
+        F[j] += e * (k * delta0 + W - k * G)
+        elems.append((i, j, e, k, a1, a2, delta0, G, W))
+
+    presc = {}
+    springs = []
+    for s, sup in enumerate(model.supports):
+        at = index[sup.at]
+        if sup.kind == "spring":
+            springs.append((s, at, exact(sup.stiffness)))
+            add(at, at, exact(sup.stiffness))
+        else:
+            presc[at] = settle[s]
+
+    u = [sympy.Dummy(f"u{i}") for i in range(n)]
+    gaps = []
+    for g in model.gaps:
+        s1, s2 = g.sign
+        a = index[g.stations[0]]
+        b = index[g.stations[1]] if len(g.stations) == 2 else None
+        gaps.append((g, a, b, int(s1), int(s2), exact(g.clearance)))
+    lam = {g.name: sympy.Dummy(f"lam_{j}") for j, (g, *_r) in enumerate(gaps) if closed[g.name]}
+
+    def measure(a, b, s1, s2, disp):
+        return s1 * disp[a] + (s2 * disp[b] if b is not None else 0)
+
+    known = {u[i]: v for i, v in presc.items()}
+    eqs = []
+    unknowns = [u[i] for i in range(n) if i not in presc]
+    rows = {i: [] for i in range(n)}
+    for (i, j), v in K.items():
+        rows[i].append((j, v))
+    bt = {i: 0 for i in range(n)}
+    for g, a, b, s1, s2, c in gaps:
+        if g.name in lam:
+            bt[a] += s1 * lam[g.name]
+            if b is not None:
+                bt[b] += s2 * lam[g.name]
+            eqs.append(measure(a, b, s1, s2, u) - c)
+    for i in range(n):
+        if i in presc:
+            continue
+        eqs.append(sympy.Add(*[v * u[j] for j, v in rows[i]]) + bt[i] - F[i])
+    eqs = [sympy.expand(eq.xreplace(known)) if isinstance(eq, sympy.Basic) else eq for eq in eqs]
+    unknowns += list(lam.values())
+    solution = sympy.linsolve(eqs, unknowns) if unknowns else sympy.FiniteSet(())
+    stations = [st.name for st in model.stations]
+    if solution == sympy.S.EmptySet:
+        raise SolveError("no equilibrium in the assumed contact state " + _state_text(closed),
+                         file=model.source)
+    (values_u,) = tuple(solution)
+    sol = dict(zip(unknowns, values_u))
+    free = set(unknowns)
+    loose = [stations[i] for i in range(n) if i not in presc and sol[u[i]].free_symbols & free]
+    if loose or any(sol[v].free_symbols & free for v in lam.values()):
+        raise SolveError("stations " + ", ".join(f"'{s}'" for s in loose or stations)
+                         + " float in the contact state " + _state_text(closed)
+                         + ": no support, spring or closed gap holds them", file=model.source)
+    disp = [known.get(u[i], sol.get(u[i])) for i in range(n)]
+    disp = [sympy.Integer(0) if d == 0 else d for d in disp]
+    lam_v = {g: sol[v] for g, v in lam.items()}
+
+    # recovery, as axialfe.solve.System.recover
+    axial, stress = {}, {}
+    for seg, (i, j, e, k, a1, a2, delta0, G, W) in zip(model.segments, elems):
+        du = e * (disp[j] - disp[i])
+        n_from = k * (du - delta0) + k * G
+        n_to = n_from - W
+        axial[seg.name] = (_tidy(n_from), _tidy(n_to))
+        stress[seg.name] = (_tidy(n_from / a1), _tidy(n_to / a2))
+    R = [sympy.Add(*[v * disp[j] for j, v in rows[i]]) - F[i] for i in range(n)]
+    for g, a, b, s1, s2, c in gaps:
+        if g.name in lam:
+            R[a] += s1 * lam_v[g.name]
+            if b is not None:
+                R[b] += s2 * lam_v[g.name]
+    reactions = {}
+    for s, sup in enumerate(model.supports):
+        at = index[sup.at]
+        if sup.kind == "spring":
+            r = -exact(sup.stiffness) * disp[at]
+        else:
+            r = R[at] - sum((-kk * disp[at] for _, a_, kk in springs if a_ == at), sympy.Integer(0))
+        reactions[sup.at] = reactions.get(sup.at, 0) + r
+    reactions = {k: _tidy(v) for k, v in reactions.items()}
+    displacements = {stations[i]: _tidy(disp[i]) for i in range(n)}
+
+    gap_forces, conditions = {}, []
+    prefer = sorted((s for s in syms.values() if not s.is_positive), key=lambda s: list(syms.values()).index(s))
+    prefer += [s for s in syms.values() if s.is_positive]
+    for g, a, b, s1, s2, c in gaps:
+        if g.name in lam:
+            force = -lam_v[g.name] if g.kind == "contact" else lam_v[g.name]
+            gap_forces[g.name] = _tidy(force)
+            conditions.append(_relation(lam_v[g.name], prefer))
+        else:
+            gap_forces[g.name] = sympy.Integer(0)
+            conditions.append(_relation(c - measure(a, b, s1, s2, disp), prefer))
+    notes = []
+    kept = []
+    for rel in conditions:
+        if rel is sympy.true:
+            continue
+        if rel is sympy.false:
+            notes.append("the contact state " + _state_text(closed) + " never holds")
+            continue
+        kept.append(rel)
+        if all(v is not None for v in values.values()) or not (rel.free_symbols - set(subs)):
+            lhs = (rel.lhs - rel.rhs).xreplace(subs)
+            if not lhs.free_symbols:
+                value = float(lhs)
+                scale = max(abs(float(rel.lhs.xreplace(subs))), abs(float(rel.rhs.xreplace(subs))), 1e-300)
+                holds = value >= -1e-9 * scale if isinstance(rel, sympy.GreaterThan) else value <= 1e-9 * scale
+                if not holds:
+                    notes.append(f"condition {rel} fails for the given values: the assumed contact "
+                                 "state does not hold, so these formulas do not apply to them")
+    return ClosedForm(model=model, case=name, symbols=syms, values=values,
+                      displacements=displacements, reactions=reactions, axial_forces=axial,
+                      stresses=stress, gap_forces=gap_forces, gap_closed=closed,
+                      assumed=tuple(assume), conditions=tuple(kept), notes=tuple(notes))
+
+
+def _state_text(closed):
+    if not closed:
+        return "(no gaps)"
+    return "(" + ", ".join(f"'{g}' {'closed' if c else 'open'}" for g, c in closed.items()) + ")"
+
+
+# --- the numeric twin ----------------------------------------------------------------
+def numeric_model(model: Model) -> Model:
+    """Return ``model`` with every symbol replaced by its value (floats in SI).
+
+    Raises
+    ------
+    ModelError
+        When a symbol that the model uses has no value.
+    """
+    values = {}
+    for d in model.symbols:
+        values[sympy.Symbol(d.name, real=True)] = _rat(d.value) if d.value is not None else None
+    subs = {k: v for k, v in values.items() if v is not None}
+    memo = {}
+
+    def conv(obj):
+        if isinstance(obj, sympy.Basic):
+            v = obj.xreplace(subs)
+            if v.free_symbols:
+                names = ", ".join(sorted(f"'{s.name}'" for s in v.free_symbols))
+                raise ModelError(f"symbol(s) {names} have no value, so the model cannot be solved "
+                                 "numerically", file=model.source)
+            return float(v)
+        if dataclasses.is_dataclass(obj) and not isinstance(obj, type):
+            if id(obj) in memo:
+                return memo[id(obj)]
+            changes = {f.name: conv(getattr(obj, f.name)) for f in dataclasses.fields(obj)
+                       if f.name not in ("symbols", "units", "source", "title")}
+            new = dataclasses.replace(obj, **changes)
+            memo[id(obj)] = new
+            return new
+        if isinstance(obj, tuple):
+            return tuple(conv(o) for o in obj)
+        return obj
+
+    return conv(model)
+
+
+# --- reports -------------------------------------------------------------------------
+def _entries(cf: ClosedForm, numeric, units):
+    """Yield (group, key, expr, numeric SI value or None, unit key)."""
+    model = cf.model
+    for st, e in cf.reactions.items():
+        yield "reactions", st, e, (numeric.reaction(st) if numeric is not None else None), "force"
+    for st, e in cf.displacements.items():
+        yield "displacements", st, e, (numeric.displacement(st) if numeric is not None else None), "displacement"
+    for seg, (e, _) in cf.axial_forces.items():
+        yield "axial_forces", seg, e, (float(numeric.force(seg)[0]) if numeric is not None else None), "force"
+    for seg, (e, _) in cf.stresses.items():
+        i = model.segment_index(seg)
+        yield "stresses", seg, e, (float(numeric.stress[i][0]) if numeric is not None else None), "stress"
+    for g, e in cf.gap_forces.items():
+        yield "gaps", g, e, (numeric.gap(g)["force"] if numeric is not None else None), "force"
+
+
+def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compare=True) -> dict:
+    """The closed forms as plain data, keyed as in ``axialfe closed-form --format json``.
+
+    ``numeric`` is the numeric solver's :class:`~axialfe.results.CaseResult` of
+    the same case (or None).  With ``compare`` True, a closed form whose value
+    differs from it by more than :data:`TOLERANCE` (relative to the largest
+    value of the same quantity) raises :class:`SolveError`; with False the
+    differences are listed only; with None (numeric values of another contact
+    state) they are not computed.
+    """
+    units = units or cf.model.units
+    rows = list(_entries(cf, numeric, units))
+    scale = {}
+    for group, _, e, num, ukey in rows:
+        v = cf.evaluate(e)
+        for x in (v, num):
+            if x is not None:
+                scale[ukey] = max(scale.get(ukey, 0.0), abs(x))
+    data = {"title": cf.model.title, "case": cf.case, "units": units.as_dict(),
+            "symbols": {d.name: d.text for d in cf.model.symbols},
+            "assumptions": {n: ("positive" if s.is_positive else "real") for n, s in cf.symbols.items()},
+            "state": {g: ("closed" if c else "open") for g, c in cf.gap_closed.items()},
+            "assumed": list(cf.assumed)}
+    for group in QUANTITIES[:-1]:
+        if only is None or group in only:
+            data[group] = {}
+    for group, key, e, num, ukey in rows:
+        v = cf.evaluate(e)
+        if v is None:
+            num = None
+        diff = None
+        if v is not None and num is not None and compare is not None:
+            diff = abs(v - num) / scale[ukey] if scale.get(ukey) else 0.0
+            if compare is True and diff > TOLERANCE:
+                raise SolveError(f"the closed form of {group[:-1].replace('_', ' ')} '{key}' "
+                                 f"({e}) gives {v:.12g} but the numeric solver {num:.12g} "
+                                 f"(relative difference {diff:.1e} > {TOLERANCE:g})",
+                                 file=cf.model.source)
+        if group not in data:
+            continue
+        f = units.factor(ukey)
+        data[group][key] = {"expression": str(e), "latex": sympy.latex(e),
+                            "value": v / f if v is not None else None,
+                            "numeric": num / f if num is not None else None,
+                            "relative_difference": diff}
+    data["conditions"] = [str(c) for c in cf.conditions]
+    data["notes"] = list(cf.notes)
+    return data
+
+
+_TITLES = {"reactions": ("reactions (force of the support on the bar, + toward +x)", "force"),
+           "displacements": ("station displacements (+ toward +x)", "displacement"),
+           "axial_forces": ("axial force at each segment's 'from' end (+ in tension)", "force"),
+           "stresses": ("stress at each segment's 'from' end (+ in tension)", "stress"),
+           "gaps": ("gap forces (+ in tension, 0 when open)", "force")}
+
+
+def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
+    """The terminal report of :func:`closed_form_dict`'s data."""
+    key = "latex" if latex else "expression"
+    out = [f"axialfe closed form: {data['title']} (case '{data['case']}')"]
+    if data["symbols"]:
+        out.append("symbols: " + ", ".join(f"{n} = {v}" if v is not None else f"{n} (no value)"
+                                           for n, v in data["symbols"].items()))
+        pos = [n for n, a in data["assumptions"].items() if a == "positive"]
+        out.append("assumed: all symbols real" + (f"; positive: {', '.join(pos)}" if pos else ""))
+    out.append("closed forms in SI base units (m, N, Pa, K, kg); values in "
+               + ", ".join(f"{k} {v}" for k, v in data["units"].items()))
+    if data["state"]:
+        out.append("contact state: " + ", ".join(
+            f"'{g}' {s}" + (" (assumed)" if g in data["assumed"] else "")
+            for g, s in data["state"].items()))
+    if "conditions" in data and data["conditions"] and data.get("_show_conditions", True):
+        out.append("the formulas hold while all of these hold:")
+        out += [f"  {c}" for c in data["conditions"]]
+    for group, (title, ukey) in _TITLES.items():
+        if group not in data or not data[group]:
+            continue
+        out += ["", f" {title} [{data['units'][ukey]}]"]
+        width = max((len(k) for k in data[group]), default=0)
+        for name, entry in data[group].items():
+            out.append(f"  {name.ljust(width)} = {entry[key]}")
+            if entry["value"] is not None:
+                line = f"  {' ' * width}   = {entry['value']:.6g}"
+                if entry["numeric"] is not None and entry["relative_difference"] is not None:
+                    line += (f"   numeric {entry['numeric']:.6g}, relative difference "
+                             f"{entry['relative_difference']:.1e}")
+                elif entry["numeric"] is not None:
+                    line += f"   (numeric, other contact state: {entry['numeric']:.6g})"
+                out.append(line)
+    for note in data.get("notes", []):
+        out.append(f"note: {note}")
+    if cautions:
+        out += ["", "cautions:"] + [f" - {c}" for c in cautions]
+    return "\n".join(out) + "\n"

@@ -1,0 +1,110 @@
+"""Benchmark: a 20,000-segment model *file* solved end to end by ``axialfe solve``.
+
+Writes a generated model (a long stepped bar between two walls, mixed units,
+a few materials and sections, a temperature change on every segment, point
+loads at every tenth station, springs every thousandth) to a temporary folder,
+then times ``python -m axialfe solve`` on it as a user would run it, for the
+table and the JSON output.  It also times the stages in this process (TOML
+parse, model reading, solve, rendering) to show where the time goes.  Target:
+a few seconds.  Run from the project root:
+
+    python benchmarks/bench_file.py [n_segments] [--profile]
+"""
+
+from __future__ import annotations
+
+import cProfile
+import os
+import pstats
+import subprocess
+import sys
+import tempfile
+import time
+import tomllib
+from pathlib import Path
+
+import numpy as np
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT))  # this checkout's axialfe
+
+from axialfe.modelfile import read_model  # noqa: E402
+from axialfe.output import render  # noqa: E402
+from axialfe.solve import solve  # noqa: E402
+
+
+def write_model(path: Path, n: int, seed: int = 2) -> None:
+    rng = np.random.default_rng(seed)
+    lengths = rng.uniform(5.0, 20.0, n)
+    x = np.concatenate([[0.0], np.cumsum(lengths)])
+    out = ['title = "Generated chain"', "", "[settings]", 'temperature_change = "15 K"', "",
+           "[materials.bar-steel]", 'elastic_modulus = "29000 ksi"',
+           'thermal_expansion = "6.5e-6 /delta_degF"', ""]
+    for d in (16, 20, 25, 32, 40):
+        out += [f"[sections.d{d}]", 'shape = "round"', f'diameter = "{d} mm"', ""]
+    out += ["[stations]"]
+    out += [f's{i} = "{v:.6f} mm"' for i, v in enumerate(x)]
+    out.append("")
+    mats = ("bar-steel", "aluminium-alloy", "brass")
+    mi, si = rng.integers(0, 3, n), rng.choice([16, 20, 25, 32, 40], n)
+    dT = rng.uniform(-20.0, 60.0, n)
+    for i in range(n):
+        out += ["[[segments]]", f'name = "e{i}"', f'from = "s{i}"', f'to = "s{i + 1}"',
+                f'material = "{mats[mi[i]]}"', f'section = "d{si[i]}"']
+        if i % 3 == 0:
+            out.append(f'temperature_change = "{dT[i]:.3f} K"')
+        out.append("")
+    out += ["[[supports]]", 'at = "s0"', "", "[[supports]]", f'at = "s{n}"', ""]
+    for i in range(1000, n, 1000):
+        out += ["[[supports]]", f'at = "s{i}"', 'kind = "spring"', 'stiffness = "50 kN/mm"', ""]
+    for i in range(10, n, 10):
+        out += ["[[loads]]", f'at = "s{i}"', f'force = "{rng.uniform(-5, 5):.4f} kN"', ""]
+    path.write_text("\n".join(out), encoding="utf-8")
+
+
+def cli_time(path: Path, *args) -> float:
+    env = dict(os.environ, PYTHONPATH=str(ROOT) + os.pathsep + os.environ.get("PYTHONPATH", ""))
+    t0 = time.perf_counter()
+    done = subprocess.run([sys.executable, "-m", "axialfe", "solve", str(path), *args],
+                          capture_output=True, text=True, cwd=ROOT, env=env)
+    dt = time.perf_counter() - t0
+    if done.returncode != 0:
+        raise SystemExit(f"axialfe solve failed: {done.stderr}")
+    return dt
+
+
+def stages(path: Path):
+    t0 = time.perf_counter()
+    tomllib.loads(path.read_text(encoding="utf-8"))
+    t1 = time.perf_counter()
+    model = read_model(path)
+    t2 = time.perf_counter()
+    sol = solve(model)
+    t3 = time.perf_counter()
+    text = render(sol, "table")
+    t4 = time.perf_counter()
+    print(f"  in process: tomllib parse {t1 - t0:.3f} s, read_model (incl. parse) {t2 - t1:.3f} s,"
+          f" solve {t3 - t2:.3f} s, table {t4 - t3:.3f} s ({len(text) / 1e6:.1f} MB)")
+    print(f"  equilibrium residual {sol['base'].equilibrium_residual:.2e}")
+
+
+def main(n: int, profile: bool):
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "chain.toml"
+        write_model(path, n)
+        print(f"model file of {n:,} segments: {path.stat().st_size / 1e6:.1f} MB")
+        if profile:
+            prof = cProfile.Profile()
+            prof.runcall(lambda: render(solve(read_model(path)), "table"))
+            pstats.Stats(prof).sort_stats("cumulative").print_stats(25)
+            return
+        stages(path)
+        print(f"  axialfe solve (table), end to end   {cli_time(path):6.2f} s")
+        print(f"  axialfe solve --format json         {cli_time(path, '--format', 'json'):6.2f} s")
+        print(f"  axialfe solve --format csv -o file  "
+              f"{cli_time(path, '--format', 'csv', '-o', str(Path(tmp) / 'out.csv')):6.2f} s")
+
+
+if __name__ == "__main__":
+    args = [a for a in sys.argv[1:] if not a.startswith("--")]
+    main(int(args[0]) if args else 20_000, "--profile" in sys.argv)

@@ -1,0 +1,44 @@
+"""Shared test helpers: small model builders and an assertion that shows the case."""
+
+from __future__ import annotations
+
+import os
+
+import numpy as np
+import pytest
+from hypothesis import settings
+
+from axialfe.model import Material, Section
+
+settings.register_profile("axialfe", max_examples=40, derandomize=True, deadline=None)
+settings.load_profile(os.environ.get("AXIALFE_HYPOTHESIS", "axialfe"))
+
+EXAMPLES = os.path.join(os.path.dirname(__file__), os.pardir, "examples")
+
+
+def area(name, a, second_moment=None):
+    dims = (("area", a),) + ((("second_moment", second_moment),) if second_moment else ())
+    return Section(name, "area", dims)
+
+
+def steel(name="steel", E=200e9, alpha=12e-6, **kw):
+    return Material(name, E, alpha, **kw)
+
+
+def assert_close(actual, expected, rel=1e-9, abs_=0.0, what=""):
+    """np.testing.assert_allclose with the quantity named in the failure text."""
+    np.testing.assert_allclose(actual, expected, rtol=rel, atol=abs_, err_msg=what)
+
+
+@pytest.fixture
+def cli():
+    from typer.testing import CliRunner
+
+    from axialfe.cli import app
+
+    runner = CliRunner()
+
+    def run(*args):
+        return runner.invoke(app, [str(a) for a in args])
+
+    return run

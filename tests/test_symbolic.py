@@ -1,0 +1,319 @@
+"""Closed forms checked against textbook formulas, and against the numeric solver."""
+
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+import sympy
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from typer.testing import CliRunner
+
+from axialfe import solve_symbolic
+from axialfe.cli import app
+from axialfe.errors import ModelError
+from axialfe.model import Gap, Load, Material, Model, Section, Segment, Station, Support
+from axialfe.modelfile import parse_model
+from axialfe.solve import solve
+from axialfe.symbolic import numeric_model
+
+EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
+runner = CliRunner()
+
+
+def S(name):
+    return sympy.Symbol(name, positive=True)
+
+
+def R(name):
+    return sympy.Symbol(name, real=True)
+
+
+def same(expr, reference):
+    return sympy.simplify(expr - reference) == 0
+
+
+def series(symbols, stations, segments, supports, extra=""):
+    """Build a model text from pieces: segments are (from, to, material, section)."""
+    lines = ["[symbols]"] + [f"{k} = {v}" for k, v in symbols.items()]
+    lines += ["[stations]"] + [f'{k} = "{v}"' for k, v in stations.items()]
+    for a, b, mat, sec, *name in segments:
+        lines += ["[[segments]]", f'from = "{a}"', f'to = "{b}"', f'material = "{mat}"',
+                  f'section = "{sec}"'] + ([f'name = "{name[0]}"'] if name else [])
+    for at in supports:
+        lines += ["[[supports]]", f'at = "{at}"']
+    return "\n".join(lines) + "\n" + extra
+
+
+ONE_MATERIAL = """
+[materials.m]
+elastic_modulus = "E"
+[sections.s]
+shape = "area"
+area = "A"
+"""
+
+
+# --- references ------------------------------------------------------------------
+def test_fixed_fixed_bar_with_a_load_at_a():
+    # Reactions P*b/L and P*a/L, both against P (Timoshenko, Strength of Materials,
+    # Part I, statically indeterminate problems in tension; Gere and Goodno, Mechanics
+    # of Materials, statically indeterminate axial members; from memory)
+    text = series({"P": '{ unit = "kN" }', "a": '{ unit = "mm" }', "L": '{ unit = "mm" }',
+                   "E": '{ unit = "GPa" }', "A": '{ unit = "mm^2" }'},
+                  {"left": "0 mm", "C": "a", "right": "L"},
+                  [("left", "C", "m", "s"), ("C", "right", "m", "s")], ["left", "right"],
+                  ONE_MATERIAL + '[[loads]]\nat = "C"\nforce = "P"\n')
+    cf = solve_symbolic(parse_model(text, "pab.toml", symbolic=True))
+    P, a, L = R("P"), S("a"), R("L")
+    b = L - a
+    assert same(cf.reaction("left"), -P * b / L)
+    assert same(cf.reaction("right"), -P * a / L)
+    # the load point moves P*a*b/(E*A*L) (same source)
+    assert same(cf.displacement("C"), P * a * b / (S("E") * S("A") * L))
+    assert str(cf.reaction("left")) in ("-P*(L - a)/L", "P*(a - L)/L", "P*(-L + a)/L")
+
+
+def test_two_material_bar_between_walls_heated():
+    # R = dT*(alpha_1*L_1 + alpha_2*L_2)/(L_1/(E_1*A_1) + L_2/(E_2*A_2))
+    # (Gere and Goodno, Mechanics of Materials, thermal effects in statically
+    # indeterminate bars; Timoshenko, Part I; from memory)
+    text = series({"E_1": '{ unit = "GPa" }', "A_1": '{ unit = "mm^2" }', "L_1": '{ unit = "mm" }',
+                   "alpha_1": '{ unit = "1/K" }', "E_2": '{ unit = "GPa" }',
+                   "A_2": '{ unit = "mm^2" }', "L_2": '{ unit = "mm" }',
+                   "alpha_2": '{ unit = "1/K" }', "dT": '{ unit = "K" }'},
+                  {"left": "0 mm", "joint": "L_1", "right": "L_1 + L_2"},
+                  [("left", "joint", "m1", "s1"), ("joint", "right", "m2", "s2")],
+                  ["left", "right"], """
+[settings]
+temperature_change = "dT"
+[materials.m1]
+elastic_modulus = "E_1"
+thermal_expansion = "alpha_1"
+[materials.m2]
+elastic_modulus = "E_2"
+thermal_expansion = "alpha_2"
+[sections.s1]
+shape = "area"
+area = "A_1"
+[sections.s2]
+shape = "area"
+area = "A_2"
+""")
+    cf = solve_symbolic(parse_model(text, symbolic=True))
+    E1, A1, L1, a1, E2, A2, L2, a2 = (S(n) for n in ("E_1", "A_1", "L_1", "alpha_1", "E_2", "A_2",
+                                                      "L_2", "alpha_2"))
+    reference = R("dT") * (a1 * L1 + a2 * L2) / (L1 / (E1 * A1) + L2 / (E2 * A2))
+    assert sympy.simplify(cf.reaction("left") - reference) == 0  # the wall pushes toward +x
+    assert sympy.simplify(cf.force("left-joint")[0] + reference) == 0  # compression
+    assert sympy.simplify(cf.reaction("right") + reference) == 0
+
+
+def test_parallel_bars_share_a_load_in_proportion_to_EA():
+    # Share of bar 1: E1*A1/(E1*A1 + E2*A2) (Gere and Goodno, Mechanics of Materials,
+    # statically indeterminate structures, parallel bars; from memory)
+    text = series({"P": '{ unit = "kN" }', "E_1": '{ unit = "GPa" }', "A_1": '{ unit = "mm^2" }',
+                   "E_2": '{ unit = "GPa" }', "A_2": '{ unit = "mm^2" }', "L": '{ unit = "mm" }'},
+                  {"base": "0 mm", "cap": "L"},
+                  [("base", "cap", "m1", "s1", "core"), ("base", "cap", "m2", "s2", "tube")],
+                  ["base"], """
+[materials.m1]
+elastic_modulus = "E_1"
+[materials.m2]
+elastic_modulus = "E_2"
+[sections.s1]
+shape = "area"
+area = "A_1"
+[sections.s2]
+shape = "area"
+area = "A_2"
+[[loads]]
+at = "cap"
+force = "P"
+""")
+    cf = solve_symbolic(parse_model(text, symbolic=True))
+    E1, A1, E2, A2 = (S(n) for n in ("E_1", "A_1", "E_2", "A_2"))
+    assert same(cf.force("core")[0], R("P") * E1 * A1 / (E1 * A1 + E2 * A2))
+    assert same(cf.force("tube")[1], R("P") * E2 * A2 / (E1 * A1 + E2 * A2))
+
+
+GAP_MODEL = series({"P": '"30 kN"', "a": '"200 mm"', "b": '"300 mm"', "E": '"200 GPa"',
+                    "A": '"100 mm^2"', "c": '"0.1 mm"'},
+                   {"A_end": "0 mm", "C": "a", "B": "a + b"},
+                   [("A_end", "C", "m", "s"), ("C", "B", "m", "s")], ["A_end"],
+                   ONE_MATERIAL + """
+[[loads]]
+at = "C"
+force = "P"
+[[gaps]]
+name = "wall"
+at = "B"
+side = "+x"
+clearance = "c"
+""")
+
+
+def test_a_gap_that_closes_condition_and_formula():
+    # A bar fixed at A, load P at C (a from A), its free end B a clearance c short of a
+    # wall: it closes when P*a/(E*A) >= c, and then the wall takes (P*a - E*A*c)/(a + b)
+    # (Gere and Goodno, Mechanics of Materials, statically indeterminate bar with a gap;
+    # Hibbeler, Mechanics of Materials, axial load; from memory)
+    model = parse_model(GAP_MODEL, "gap.toml", symbolic=True)
+    cf = solve_symbolic(model, assume={"wall": True})
+    P, a, b, E, A, c = R("P"), S("a"), S("b"), S("E"), S("A"), S("c")
+    assert same(cf.gap("wall"), -(P * a - E * A * c) / (a + b))  # compression
+    (cond,) = cf.conditions
+    assert cond == sympy.Ge(P, A * E * c / a)
+    assert same(cf.displacement("B"), c)
+    # open: the condition is the reverse, the wall carries nothing
+    cf_open = solve_symbolic(model, assume={"wall": False})
+    assert cf_open.gap("wall") == 0
+    assert cf_open.conditions == (sympy.Le(P, A * E * c / a),)
+    # the given values (P*a/(E*A) = 0.3 mm > 0.1 mm) close it: the open state fails, with a note
+    assert any("fails for the given values" in note for note in cf_open.notes)
+    assert not cf.notes
+
+
+def test_the_numeric_state_is_used_and_matches():
+    model = parse_model(GAP_MODEL, "gap.toml", symbolic=True)
+    case = solve(numeric_model(model))["base"]
+    cf = solve_symbolic(model, state={"wall": bool(case.gap_closed[0])})
+    assert cf.gap_closed == {"wall": True}
+    assert cf.evaluate(cf.gap("wall")) == pytest.approx(case.gap("wall")["force"], rel=1e-12)
+    assert cf.evaluate(cf.gap("wall")) == pytest.approx(-(30000 * 0.2 - 200e9 * 1e-4 * 1e-4) / 0.5)
+
+
+def test_an_undecided_state_needs_an_assumption():
+    text = GAP_MODEL.replace('c = "0.1 mm"', 'c = { unit = "mm" }')
+    model = parse_model(text, "gap.toml", symbolic=True)
+    with pytest.raises(ModelError) as info:
+        solve_symbolic(model)
+    assert str(info.value) == ("gap.toml: the contact state is undecided: give every symbol a "
+                               "value, or assume the state of gap(s) 'wall' (e.g. --assume "
+                               "wall=closed)")
+
+
+def test_readable_back_by_sympy():
+    model = parse_model(GAP_MODEL, "gap.toml", symbolic=True)
+    cf = solve_symbolic(model, assume={"wall": True})
+    names = {n: s for n, s in cf.symbols.items()}
+    for expr in [*cf.reactions.values(), *cf.displacements.values(), cf.gap("wall")]:
+        assert same(sympy.parse_expr(str(expr), local_dict=names), expr)
+    for cond in cf.conditions:
+        back = sympy.parse_expr(str(cond), local_dict=names)
+        assert type(back) is type(cond) and same(back.lhs - back.rhs, cond.lhs - cond.rhs)
+
+
+# --- property: the closed form of random numeric models equals the sparse solution ---
+@st.composite
+def small_models(draw):
+    n = draw(st.integers(2, 5))
+    xs = sorted(draw(st.lists(st.integers(1, 40), min_size=n - 1, max_size=n - 1, unique=True)))
+    stations = [Station("s0", 0.0)] + [Station(f"s{i + 1}", x * 0.025) for i, x in enumerate(xs)]
+    mats = [Material("m1", 200e9, 12e-6), Material("m2", 70e9, 23e-6)]
+    secs = [Section("a1", "area", (("area", 1e-4),)), Section("r", "round", (("diameter", 0.02),))]
+    segments = []
+    for i in range(n - 1):
+        for j in range(draw(st.integers(1, 2))):
+            segments.append(Segment(f"e{i}-{j}", f"s{i}", f"s{i + 1}", draw(st.sampled_from(mats)),
+                                    draw(st.sampled_from(secs)),
+                                    temperature_change=float(draw(st.integers(-40, 80))),
+                                    misfit=draw(st.sampled_from([0.0, 1e-5, -2e-5]))))
+    supports = [Support("s0")]
+    last = f"s{n - 1}"
+    kind = draw(st.sampled_from(["none", "fixed", "spring", "settlement"]))
+    if kind == "fixed":
+        supports.append(Support(last))
+    elif kind == "spring":
+        supports.append(Support(last, "spring", stiffness=draw(st.sampled_from([1e6, 5e7]))))
+    elif kind == "settlement":
+        supports.append(Support(last, "settlement", displacement=1e-4))
+    loads = [Load(f"s{draw(st.integers(1, n - 1))}", float(draw(st.integers(-20, 20)) * 1000))]
+    gaps = ()
+    if kind == "none" and draw(st.booleans()):
+        gaps = (Gap("stop", (last,), 1e-4 * draw(st.integers(0, 5)), side="+x"),)
+    return Model(stations, segments, supports, loads, gaps)
+
+
+@settings(max_examples=25, derandomize=True, deadline=None)
+@given(small_models())
+def test_closed_form_equals_the_numeric_solution(model):
+    case = solve(model)["base"]
+    state = {g.name: bool(case.gap_closed[j]) for j, g in enumerate(model.gaps)}
+    cf = solve_symbolic(model, state=state)
+    scale_u = max(np.abs(case.u).max(), 1e-300)
+    scale_n = max(np.abs(case.axial_force).max(), np.abs(case.reactions).max(initial=0), 1e-300)
+    for i, stn in enumerate(model.stations):
+        assert abs(cf.evaluate(cf.displacement(stn.name)) - case.u[i]) <= 1e-9 * scale_u
+    for i, seg in enumerate(model.segments):
+        for end in (0, 1):
+            assert abs(cf.evaluate(cf.force(seg.name)[end]) - case.axial_force[i][end]) <= 1e-9 * scale_n
+    for sup in model.supports:
+        assert abs(cf.evaluate(cf.reaction(sup.at)) - case.reaction(sup.at)) <= 1e-9 * scale_n
+    for j, g in enumerate(model.gaps):
+        assert abs(cf.evaluate(cf.gap(g.name)) - case.gap_force[j]) <= 1e-9 * scale_n
+
+
+# --- the command -----------------------------------------------------------------
+@pytest.mark.parametrize("path", sorted(EXAMPLES.glob("*.toml")), ids=lambda p: p.name)
+def test_closed_form_runs_on_every_example(path):
+    result = runner.invoke(app, ["closed-form", str(path), "--format", "json"])
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.output)
+    for key in ("title", "units", "symbols", "reactions", "displacements", "axial_forces", "gaps",
+                "conditions"):
+        assert key in data
+    for group in ("reactions", "displacements", "axial_forces", "gaps"):
+        for entry in data[group].values():
+            assert set(entry) >= {"expression", "latex", "value", "numeric"}
+            if entry["value"] is not None and entry["relative_difference"] is not None:
+                assert entry["relative_difference"] <= 1e-9
+
+
+def test_closed_form_json_of_the_gap_example():
+    path = EXAMPLES / "closed-form-heated-bar-gap.toml"
+    data = json.loads(runner.invoke(app, ["closed-form", str(path), "-f", "json"]).output)
+    assert data["symbols"]["c"] == "0.12 mm"
+    assert data["conditions"] == ["dT >= c/(L_1*alpha_1 + L_2*alpha_2)"]
+    force = data["gaps"]["end-float"]
+    assert force["value"] == pytest.approx(force["numeric"], rel=1e-9)
+    assert data["axial_forces"]["sleeve"]["value"] < 0
+
+
+def test_only_latex_and_assume():
+    path = str(EXAMPLES / "closed-form-heated-bar-gap.toml")
+    result = runner.invoke(app, ["closed-form", path, "--only", "reactions", "--latex"])
+    assert result.exit_code == 0
+    assert "\\alpha_{1}" in result.output and "station displacements" not in result.output
+    result = runner.invoke(app, ["closed-form", path, "--assume", "end-float=open", "-f", "json"])
+    data = json.loads(result.output)
+    assert data["gaps"]["end-float"]["expression"] == "0"
+    assert data["conditions"] == ["dT <= c/(L_1*alpha_1 + L_2*alpha_2)"]
+    assert any("fails for the given values" in n for n in data["notes"])
+
+
+def test_symbols_without_values_give_null_values(tmp_path):
+    text = GAP_MODEL.replace('P = "30 kN"', 'P = { unit = "kN" }')
+    path = tmp_path / "gap.toml"
+    path.write_text(text)
+    result = runner.invoke(app, ["closed-form", str(path), "--assume", "wall=closed", "-f", "json"])
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.output)
+    assert data["symbols"]["P"] is None
+    assert data["reactions"]["A_end"]["value"] is None
+    assert data["reactions"]["A_end"]["numeric"] is None
+    assert data["displacements"]["B"]["value"] == pytest.approx(0.1)  # = c, known
+
+
+@pytest.mark.parametrize("args, message", [
+    (["--assume", "wal=closed"], "error: --assume: unknown gap 'wal'; did you mean 'wall'?"),
+    (["--assume", "wall=shut"], "error: --assume takes GAP=closed or GAP=open: got 'wall=shut'"),
+    (["--only", "reaktions"], "error: --only: unknown quantity 'reaktions'; did you mean 'reactions'?"),
+])
+def test_bad_options_give_one_line(tmp_path, args, message):
+    path = tmp_path / "gap.toml"
+    path.write_text(GAP_MODEL)
+    result = runner.invoke(app, ["closed-form", str(path), *args])
+    assert result.exit_code == 2
+    assert result.output.strip() == message
