@@ -50,7 +50,8 @@ from .model import CheckSettings
 from .results import CaseResult, Solution
 from .units import OutputUnits
 
-__all__ = ["CheckEntry", "CaseChecks", "CheckReport", "check_case", "check_solution", "KINDS"]
+__all__ = ["CheckEntry", "CaseChecks", "CheckReport", "check_case", "check_solution", "KINDS",
+           "CHECKS", "strength_checks", "buckling_checks", "limit_checks"]
 
 KINDS = ("strength", "buckling", "displacement", "gap")
 
@@ -213,14 +214,15 @@ def check_case(result: CaseResult, settings: CheckSettings | None = None,
         Strength entries for every segment, buckling entries for the
         compressed segments, then one entry per limit.
     """
-    model = result.model
-    settings = settings or model.checks
-    units = units or model.units
-    sf = settings.safety_factor
-    case = result.name
-    L_unit, F_unit = units.length, units.force
-    out = []
+    settings = settings or result.model.checks
+    units = units or result.model.units
+    return tuple(e for check in CHECKS for e in check(result, settings, units))
 
+
+def strength_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
+    """One strength entry per segment: max|sigma| * safety factor / yield strength."""
+    model, case, sf = result.model, result.name, settings.safety_factor
+    out = []
     smax = np.abs(result.stress).max(axis=1)
     for i, seg in enumerate(model.segments):
         fy = seg.material.yield_strength
@@ -232,7 +234,13 @@ def check_case(result: CaseResult, settings: CheckSettings | None = None,
         util = float(smax[i]) * sf / fy
         out.append(CheckEntry("strength", seg.name, case, util, util <= 1.0, None, "stress",
                               float(smax[i]), fy))
+    return out
 
+
+def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
+    """One Euler buckling entry per segment in compression at either end."""
+    model, case, sf = result.model, result.name, settings.safety_factor
+    out = []
     for i, seg in enumerate(model.segments):
         compression = float(max(-result.axial_force[i, 0], -result.axial_force[i, 1]))
         areas = [s.area for s in seg.sections]
@@ -240,7 +248,7 @@ def check_case(result: CaseResult, settings: CheckSettings | None = None,
             continue
         k = seg.effective_length_factor or settings.effective_length_factor
         length = seg.buckling_length or float(result.length[i])
-        basis = f"K = {k:g}, L = {_fmt(length, L_unit, units, 'length')}"
+        basis = f"K = {k:g}, L = {_fmt(length, units.length, units, 'length')}"
         moments = [s.second_moment for s in seg.sections]
         if any(m is None for m in moments):
             out.append(CheckEntry("buckling", seg.name, case, None, None,
@@ -273,7 +281,13 @@ def check_case(result: CaseResult, settings: CheckSettings | None = None,
             continue
         out.append(CheckEntry("buckling", seg.name, case, util, util <= 1.0, basis, "force",
                               compression, p_cr, k, length, slender, limit))
+    return out
 
+
+def limit_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
+    """One entry per ``[[limits]]`` item: |u| / allowable, or min_opening / opening."""
+    model, case = result.model, result.name
+    out = []
     gap_names = [g.name for g in model.gaps]
     for lim in model.limits:
         if lim.at is not None:
@@ -293,7 +307,11 @@ def check_case(result: CaseResult, settings: CheckSettings | None = None,
             util = lim.min_opening / opening
             out.append(CheckEntry("gap", lim.gap, case, util, util <= 1.0, None, "displacement",
                                   lim.min_opening, opening))
-    return tuple(out)
+    return out
+
+
+# The checks in the order of their entries; a new check is one function here.
+CHECKS = (strength_checks, buckling_checks, limit_checks)
 
 
 def check_solution(solution: Solution, units: OutputUnits | None = None) -> CheckReport:
