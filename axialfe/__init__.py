@@ -12,6 +12,9 @@ Modules, one job each (anything not in ``axialfe.__all__`` is internal):
 - ``solve``: factorisation, the gap search and recovery of forces and reactions;
 - ``results``: frozen result objects with named arrays and look-ups;
 - ``output``: tables, JSON, CSV and Markdown for the terminal and files;
+- ``checks``: design checks (strength, Euler buckling, deformation limits) of solved cases;
+- ``plot``: force, stress and displacement diagrams and sweep plots (matplotlib, Agg);
+- ``report``: the self-contained HTML or Markdown report document;
 - ``cli``: the thin typer command line;
 - ``errors``: the exception family.
 """

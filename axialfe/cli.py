@@ -87,7 +87,7 @@ def solve(model: ModelPath,
           format: Annotated[Format, typer.Option("--format", "-f", help="Output format.")] = Format.table,
           output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
-    """Solve a model: displacements, segment forces and stresses, reactions, gaps."""
+    """Solve a model: displacements, segment forces and stresses, reactions, gaps, checks."""
     from .modelfile import read_model
     from .output import render
     from .solve import solve as run
@@ -291,6 +291,105 @@ def _model_values(model):
             stack.extend(obj)
         else:
             yield obj
+
+
+# --- design checks, diagrams and the report document ---------------------------
+EXIT_FAIL = 1        # axialfe check: some check fails
+EXIT_UNDECIDED = 3   # axialfe check: none fails, some need an engineer's review
+
+
+class CheckFormat(str, Enum):
+    table = "table"
+    json = "json"
+
+
+class ReportFormat(str, Enum):
+    html = "html"
+    markdown = "markdown"
+
+
+def _pick_case(solution, name):
+    return solution.cases[0] if name is None else solution[name]
+
+
+@app.command()
+def check(model: ModelPath,
+          format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
+          output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+    """Run the design checks (strength, buckling, limits) of every case.
+
+    Exit code 0 when every check passes, 1 when any fails, 3 when none fails
+    but some cannot be decided (an engineer must review them); 2 for bad input.
+    """
+    import json
+
+    from .checks import check_solution
+    from .modelfile import read_model
+    from .output import CAUTIONS, checks_table
+    from .solve import solve as run
+
+    with user_errors():
+        m = read_model(model)
+        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        report = check_solution(run(m), units)
+        if format is CheckFormat.json:
+            text = json.dumps({"title": m.title, "units": units.as_dict(),
+                               "cases": [{"name": c.case, "checks": [e.to_dict() for e in c]}
+                                         for c in report.cases],
+                               "governing": report.governing_dict(), "status": report.status,
+                               "cautions": list(CAUTIONS)}, indent=2) + "\n"
+        else:
+            text = checks_table(report, units, title=m.title)
+        emit(text, output)
+    raise typer.Exit(report.exit_code)
+
+
+@app.command()
+def plot(model: ModelPath,
+         output: Annotated[Path, typer.Option("--output", "-o", dir_okay=False,
+                                              help="The figure file: .png or .svg.")],
+         what: Annotated[str, typer.Option("--what", help="force, stress, displacement or all.")] = "all",
+         case: Annotated[Optional[str], typer.Option("--case", help="The case to draw (default: the first).")] = None,
+         force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+         displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+    """Draw the axial force, stress and displacement diagrams of one case."""
+    from .errors import ModelError, suggest
+    from .modelfile import read_model
+    from .plot import WHAT, _suffix, plot_case
+    from .solve import solve as run
+
+    with user_errors():
+        if what not in WHAT:
+            raise ModelError(f"--what: unknown diagram '{what}'", hint=suggest(what, WHAT),
+                             options=WHAT)
+        _suffix(output)
+        m = read_model(model)
+        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        result = _pick_case(run(m), case)
+        plot_case(result, what, output, units)
+        typer.echo(f"wrote {output}", err=True)
+
+
+@app.command()
+def report(model: ModelPath,
+           output: Annotated[Path, typer.Option("--output", "-o", dir_okay=False,
+                                                help="The report file: .html, or .md for Markdown.")],
+           format: Annotated[Optional[ReportFormat], typer.Option(
+               "--format", "-f", help="html or markdown (default: by the file's suffix).")] = None,
+           force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+    """Write a self-contained report: input, results, calculation sheet, checks, diagrams."""
+    from .modelfile import read_model
+    from .report import report_format, write_report
+    from .solve import solve as run
+
+    with user_errors():
+        fmt = report_format(output, format.value if format else None)
+        m = read_model(model)
+        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        write_report(run(m), output, fmt, units)
+        typer.echo(f"wrote {output}", err=True)
 
 
 def main():  # pragma: no cover - entry point

@@ -371,8 +371,16 @@ class Limit:
             if self.displacement is None:
                 raise ModelError(f"a limit at '{self.at}' needs 'displacement'", place="limits")
             _positive(self.displacement, "displacement", "limits")
-        elif self.min_opening is None:
-            raise ModelError(f"a limit on gap '{self.gap}' needs 'min_opening'", place="limits")
+            if self.min_opening is not None:
+                raise ModelError("'min_opening' belongs to a limit on a gap, not at a station",
+                                 place="limits")
+        else:
+            if self.min_opening is None:
+                raise ModelError(f"a limit on gap '{self.gap}' needs 'min_opening'", place="limits")
+            _positive(self.min_opening, "min_opening", "limits")
+            if self.displacement is not None:
+                raise ModelError("'displacement' belongs to a limit at a station, not on a gap",
+                                 place="limits")
 
 
 @dataclass(frozen=True)

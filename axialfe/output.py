@@ -14,7 +14,8 @@ import json
 from .results import Solution
 from .units import OutputUnits
 
-__all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS"]
+__all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS",
+           "checks_table", "checks_markdown"]
 
 FORMATS = ("table", "json", "csv", "markdown")
 
@@ -90,8 +91,8 @@ def summary_line(model) -> str:
     return ", ".join(parts)
 
 
-def to_table(solution: Solution, units: OutputUnits | None = None, extra=None) -> str:
-    """The readable terminal report."""
+def to_table(solution: Solution, units: OutputUnits | None = None, extra=None, checks=None) -> str:
+    """The readable terminal report (with the checks of ``checks``, a CheckReport, when given)."""
     units = units or solution.model.units
     data = solution.to_dict(units)
     model = solution.model
@@ -110,6 +111,12 @@ def to_table(solution: Solution, units: OutputUnits | None = None, extra=None) -
         for note in case.get("notes", []):
             out.append(f" note: {note}")
         out.append("")
+        if checks is not None:  # --- design checks (axialfe.checks) ---
+            out += _check_lines(checks.case(case["name"]), units)
+            out.append("")
+    if checks is not None:
+        out += _governing_lines(checks, units)
+        out.append("")
     if extra:
         out += extra
     out.append("cautions:")
@@ -117,8 +124,13 @@ def to_table(solution: Solution, units: OutputUnits | None = None, extra=None) -
     return "\n".join(out) + "\n"
 
 
-def to_json(solution: Solution, units: OutputUnits | None = None, extra: dict | None = None) -> str:
+def to_json(solution: Solution, units: OutputUnits | None = None, extra: dict | None = None,
+            checks=None) -> str:
     data = solution.to_dict(units)
+    if checks is not None:  # --- design checks (axialfe.checks) ---
+        for case in data["cases"]:
+            case["checks"] = [e.to_dict() for e in checks.case(case["name"])]
+        data["governing"] = checks.governing_dict()
     if extra:
         data.update(extra)
     data["cautions"] = list(CAUTIONS)
@@ -161,7 +173,7 @@ def _md_escape(text) -> str:
     return str(text).replace("|", "\\|")
 
 
-def to_markdown(solution: Solution, units: OutputUnits | None = None) -> str:
+def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=None) -> str:
     units = units or solution.model.units
     data = solution.to_dict(units)
     out = [f"# {_md_escape(data['title'])}", "",
@@ -175,11 +187,95 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None) -> str:
             out += ["| " + " | ".join(_md_escape(c) for c in r) + " |" for r in rows]
             out.append("")
         out += [f"Equilibrium residual: {case['equilibrium_residual']:.2e}", ""]
+        if checks is not None:  # --- design checks (axialfe.checks) ---
+            out += checks_markdown(checks.case(case["name"]), units)
+    if checks is not None:
+        out += ["**Governing check:** " + _md_escape(_governing_text(checks)), "",
+                "Basis: " + checks.settings_text() + ".", ""]
     out += ["## Cautions", ""] + [f"- {c}" for c in CAUTIONS]
     return "\n".join(out) + "\n"
 
 
-def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None) -> str:
-    """Return the solution as text in ``fmt`` (one of :data:`FORMATS`)."""
-    return {"table": to_table, "json": to_json, "csv": to_csv, "markdown": to_markdown}[fmt](
-        solution, units)
+def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None,
+           checks=None) -> str:
+    """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
+
+    The table, JSON and Markdown forms carry the design checks: ``checks`` (a
+    :class:`~axialfe.checks.CheckReport`), computed here when not given.
+    """
+    if fmt == "csv":
+        return to_csv(solution, units)
+    if checks is None:
+        from .checks import check_solution
+
+        checks = check_solution(solution, units)
+    return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
+        solution, units, checks=checks)
+
+
+# --- design checks (axialfe.checks) -----------------------------------------
+_CHECK_HEADERS = ("check", "name", "demand", "capacity", "utilization", "result", "note")
+
+
+def _check_cells(entry, units: OutputUnits):
+    key = entry.quantity
+    unit = getattr(units, key)
+
+    def value(v):
+        return "-" if v is None else f"{_g(v / units.factor(key), 4)} {unit}"
+
+    util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
+    return [entry.kind, entry.name, value(entry.demand), value(entry.capacity), util,
+            entry.verdict, entry.note or ""]
+
+
+def _check_lines(case_checks, units: OutputUnits, title=True):
+    """Lines of the checks table of one case."""
+    out = [f" checks of case '{case_checks.case}' (utilization = demand x safety factor / capacity;"
+           " result pass, FAIL, or review where the tool cannot decide)"] if title else []
+    if not len(case_checks):
+        return out + ["  (no checks)"]
+    rows = [_check_cells(e, units) for e in case_checks]
+    lines = _grid(list(_CHECK_HEADERS), rows)
+    return out + lines
+
+
+def _governing_text(checks) -> str:
+    g = checks.governing
+    if g is None:
+        return "none (no check has a utilization)"
+    return f"{g.kind} of '{g.name}' in case '{g.case}', utilization {g.utilization:.3f} ({g.verdict})"
+
+
+def _governing_lines(checks, units: OutputUnits):
+    counts = {"pass": 0, "FAIL": 0, "review": 0}
+    for e in checks.entries:
+        counts[e.verdict] += 1
+    return [f"governing check: {_governing_text(checks)}",
+            f"checks: {counts['pass']} pass, {counts['FAIL']} fail, {counts['review']} need review"
+            f" (overall: {checks.status})",
+            f"check basis: {checks.settings_text()}"]
+
+
+def checks_table(checks, units: OutputUnits | None = None, title: str | None = None) -> str:
+    """The checks of every case, the governing entry and the cautions, as text."""
+    units = units or OutputUnits()
+    out = [f"axialfe check: {title}"] if title else []
+    if title:
+        out.append("units: " + ", ".join(f"{k} {v}" for k, v in units.as_dict().items()))
+        out.append("")
+    for c in checks.cases:
+        out += _check_lines(c, units)
+        out.append("")
+    out += _governing_lines(checks, units)
+    out += ["", "cautions:"] + [f" - {c}" for c in CAUTIONS]
+    return "\n".join(out) + "\n"
+
+
+def checks_markdown(case_checks, units: OutputUnits) -> list[str]:
+    """Markdown lines of the checks table of one case."""
+    out = ["**checks** (utilization = demand x safety factor / capacity)", "",
+           "| " + " | ".join(_CHECK_HEADERS) + " |", "|" + "|".join("---" for _ in _CHECK_HEADERS) + "|"]
+    out += ["| " + " | ".join(_md_escape(c) for c in _check_cells(e, units)) + " |"
+            for e in case_checks]
+    return out + [""]

@@ -1,0 +1,556 @@
+"""Diagrams: axial force, stress and displacement along x, a sketch of the bar, sweeps.
+
+The curves come from :func:`diagram_data` (plain arrays, in display units) and
+are drawn with matplotlib's object interface (no pyplot, no global state) on
+the Agg canvas, so plotting works without a display.  The file's suffix picks
+the format: ``.png`` (raster, 150 dpi or more) or ``.svg`` (vector).
+
+Layout: a sketch strip of the bar on top (segments as blocks whose height
+follows their area, supports, gaps and the loads of the case), then the chosen
+diagrams stacked over a shared x axis.  Segments that overlap along x
+(parallel parts such as a bolt inside a sleeve) go to separate *lanes*; each
+lane is one labelled line, series segments continue one another, and a jump of
+the value at a station shows as a vertical step.  Tension is shaded above the
+axis, compression below, in two colours of their own.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+
+from .errors import ModelError
+from .results import CaseResult
+from .units import OutputUnits
+
+__all__ = ["WHAT", "FIGURE_SUFFIXES", "Curve", "lanes", "diagram_data", "plot_case",
+           "plot_sweep", "save_figure"]
+
+WHAT = ("force", "stress", "displacement", "all")
+FIGURE_SUFFIXES = (".png", ".svg")
+DPI = 150
+
+# The project's own restrained palette: ink, slate-teal tension, ochre compression.
+INK = "#27303a"
+MUTED = "#8a939c"
+TENSION = "#3b7f86"
+COMPRESSION = "#b7842f"
+LANE_COLOURS = ("#27303a", "#6a4f8c", "#3d7a4e", "#9a4a3f", "#4a6a9a", "#7a6a2a")
+LANE_STYLES = ("-", "--", "-.", ":", (0, (5, 1, 1, 1)), (0, (1, 1)))
+BLOCK_FACE = "#dfe3e6"
+SUPPORT_COLOUR = "#4d565e"
+
+_QUANTITY = {"force": ("axial force", "force"), "stress": ("stress", "stress"),
+             "displacement": ("displacement", "displacement")}
+_LABEL_LIMIT = 30      # beyond this many segments only the extremes are labelled
+_SAMPLES = 41          # points along a segment whose curve is not a straight line
+
+
+@dataclass(frozen=True)
+class Curve:
+    """The curve of one segment: ``x`` (length unit) and ``y`` (display unit), x increasing."""
+
+    segment: str
+    index: int
+    lane: int
+    x: np.ndarray
+    y: np.ndarray
+
+
+def _text(value) -> str:
+    """Model text made safe for matplotlib (no math mode from a '$' in a name)."""
+    return str(value).replace("$", r"\$")
+
+
+def lanes(model) -> np.ndarray:
+    """Assign each segment a lane so that segments of one lane do not overlap along x.
+
+    Series segments share lane 0; a segment parallel to another goes to the
+    next free lane (greedy interval colouring in order of position).
+
+    Returns
+    -------
+    ndarray of int, shape (n_segments,)
+    """
+    xs = np.array([st.x for st in model.stations])
+    idx = model._station_index
+    a = np.array([xs[idx[s.start]] for s in model.segments])
+    b = np.array([xs[idx[s.end]] for s in model.segments])
+    lo, hi = np.minimum(a, b), np.maximum(a, b)
+    tol = 1e-12 * max(float(np.ptp(xs)), 1e-300)
+    order = np.lexsort((hi, lo))
+    lane = np.zeros(len(model.segments), dtype=int)
+    ends: list[float] = []
+    for i in order:
+        for k, end in enumerate(ends):
+            if end <= lo[i] + tol:
+                lane[i], ends[k] = k, hi[i]
+                break
+        else:
+            lane[i] = len(ends)
+            ends.append(hi[i])
+    return lane
+
+
+def _overlapping(model, lane) -> np.ndarray:
+    """True for segments that share some length of x with a segment of another lane."""
+    xs = np.array([st.x for st in model.stations])
+    idx = model._station_index
+    a = np.array([xs[idx[s.start]] for s in model.segments])
+    b = np.array([xs[idx[s.end]] for s in model.segments])
+    lo, hi = np.minimum(a, b), np.maximum(a, b)
+    out = np.zeros(len(lo), dtype=bool)
+    if lane.max(initial=0) == 0:
+        return out
+    order = np.argsort(lo)
+    active: list[int] = []
+    for i in order:
+        active = [j for j in active if hi[j] > lo[i]]
+        for j in active:
+            if min(hi[i], hi[j]) > max(lo[i], lo[j]):
+                out[i] = out[j] = True
+        active.append(i)
+    return out
+
+
+def _area_along(seg, s):
+    """Area at fractions ``s`` (0 at ``from``, 1 at ``to``) of a possibly tapered segment."""
+    c, p0, q0 = seg.section.factors
+    _, p1, q1 = (seg.end_section or seg.section).factors
+    return c * (p0 + (p1 - p0) * s) * (q0 + (q1 - q0) * s)
+
+
+def diagram_data(result: CaseResult, what: str, units: OutputUnits | None = None) -> list[Curve]:
+    """The curve of each segment for diagram ``what`` in display units.
+
+    Axial force is linear along a segment (exact for distributed loads and
+    self-weight); stress is N/A(x), sampled along a taper; displacement is the
+    station displacements joined by the integral of the strain, sampled where
+    the strain varies.  The end values equal the results exactly.
+
+    Parameters
+    ----------
+    result : CaseResult
+    what : {'force', 'stress', 'displacement'}
+    units : OutputUnits, optional
+        Default: the model's.
+
+    Returns
+    -------
+    list of Curve, one per segment in model order
+    """
+    if what not in _QUANTITY:
+        raise ModelError(f"unknown diagram '{what}'", options=WHAT[:3])
+    model = result.model
+    units = units or model.units
+    fx = units.factor("length")
+    fy = units.factor(_QUANTITY[what][1])
+    idx = model._station_index
+    lane = lanes(model)
+    curves = []
+    for i, seg in enumerate(model.segments):
+        ia, ib = idx[seg.start], idx[seg.end]
+        xa, xb = model.stations[ia].x, model.stations[ib].x
+        n0, n1 = result.axial_force[i]
+        tapered = seg.end_section is not None
+        if what == "force":
+            s = np.array([0.0, 1.0])
+            y = np.array([n0, n1])
+        elif what == "stress":
+            if tapered:
+                s = np.linspace(0.0, 1.0, _SAMPLES)
+                y = (n0 + (n1 - n0) * s) / _area_along(seg, s)
+                y[0], y[-1] = result.stress[i]
+            else:
+                s = np.array([0.0, 1.0])
+                y = np.array(result.stress[i], dtype=float)
+        else:
+            ua, ub = result.u[ia], result.u[ib]
+            if tapered or n0 != n1:
+                s = np.linspace(0.0, 1.0, _SAMPLES)
+                strain = (n0 + (n1 - n0) * s) / (seg.material.elastic_modulus * _area_along(seg, s))
+                length = float(result.length[i])
+                e = np.concatenate([[0.0], np.cumsum((strain[1:] + strain[:-1]) / 2 * np.diff(s))])
+                e *= length
+                ee = float(result.elastic_elongation[i])
+                e += (ee - e[-1]) * s            # the integral hits the exact elastic part
+                direction = 1.0 if xb > xa else -1.0
+                y = ua + (ub - ua) * s + direction * (e - ee * s)
+                y[0], y[-1] = ua, ub
+            else:
+                s = np.array([0.0, 1.0])
+                y = np.array([ua, ub])
+        x = xa + (xb - xa) * s
+        if xb < xa:
+            x, y = x[::-1], y[::-1]
+        curves.append(Curve(seg.name, i, int(lane[i]), x / fx, np.asarray(y, dtype=float) / fy))
+    return curves
+
+
+def _lane_polylines(curves):
+    """Join the curves of each lane into one polyline (NaN where the lane has a hole)."""
+    by_lane: dict[int, list[Curve]] = {}
+    for c in curves:
+        by_lane.setdefault(c.lane, []).append(c)
+    out = {}
+    for k, items in sorted(by_lane.items()):
+        items.sort(key=lambda c: (c.x[0], c.x[-1]))
+        xs, ys = [], []
+        for j, c in enumerate(items):
+            if j and not math.isclose(items[j - 1].x[-1], c.x[0], rel_tol=1e-12, abs_tol=1e-12):
+                xs.append([np.nan])
+                ys.append([np.nan])
+            xs.append(c.x)
+            ys.append(c.y)
+        out[k] = (np.concatenate(xs), np.concatenate(ys), items)
+    return out
+
+
+def _with_crossings(x, y):
+    """The polyline with its zero crossings inserted, so that clipping at 0 is exact."""
+    with np.errstate(invalid="ignore"):
+        flip = (y[:-1] * y[1:] < 0) & (x[1:] != x[:-1])
+    k = np.flatnonzero(flip)
+    if not len(k):
+        return x, y
+    t = y[k] / (y[k] - y[k + 1])
+    xz = x[k] + t * (x[k + 1] - x[k])
+    return np.insert(x, k + 1, xz), np.insert(y, k + 1, 0.0)
+
+
+def _style_axes(ax):
+    for side in ("top", "right"):
+        ax.spines[side].set_visible(False)
+    for side in ("left", "bottom"):
+        ax.spines[side].set_color(MUTED)
+    ax.tick_params(colors=INK, labelsize=8, length=3)
+    ax.grid(True, color="#e6e8ea", linewidth=0.6, linestyle=(0, (2, 2)))
+    ax.set_axisbelow(True)
+
+
+def _fmt(value):
+    if value == 0 or abs(value) < 1e-300:
+        return "0"
+    return f"{value:.4g}"
+
+
+def _lane_label(items, parallel):
+    names = [c.segment for c in items if parallel[c.index]] or [c.segment for c in items]
+    text = ", ".join(names[:3]) + (f" and {len(names) - 3} more" if len(names) > 3 else "")
+    return _text(text)
+
+
+def _draw_diagram(ax, result, what, units, station_x):
+    curves = diagram_data(result, what, units)
+    model = result.model
+    lane = np.array([c.lane for c in curves])
+    parallel = _overlapping(model, lane)
+    polys = _lane_polylines(curves)
+    several = len(polys) > 1
+    ax.axhline(0.0, color=MUTED, linewidth=0.8)
+    if len(station_x) <= 400:
+        ax.vlines(station_x, 0.0, 1.0, transform=ax.get_xaxis_transform(), colors="#d3d7db",
+                  linewidth=0.6, zorder=0)
+    label_all = len(curves) <= _LABEL_LIMIT
+    seen: list[tuple[float, float]] = []      # values labelled already (coinciding lanes)
+    for k, (x, y, items) in polys.items():
+        colour = LANE_COLOURS[k % len(LANE_COLOURS)]
+        style = LANE_STYLES[k % len(LANE_STYLES)]
+        if what != "displacement":
+            xc, yc = _with_crossings(x, y)
+            alpha = 0.28 if not several else 0.18
+            ax.fill_between(xc, np.maximum(yc, 0.0), 0.0, color=TENSION, alpha=alpha, linewidth=0)
+            ax.fill_between(xc, np.minimum(yc, 0.0), 0.0, color=COMPRESSION, alpha=alpha,
+                            linewidth=0)
+        line, = ax.plot(x, y, color=colour, linestyle=style, linewidth=1.4,
+                        label=_lane_label(items, parallel) if several else None)
+        line.set_gid(f"{what}-lane-{k}")
+        _label_values(ax, items, colour, label_all, seen)
+        if several:
+            for c in items:
+                if parallel[c.index]:
+                    m = len(c.x) // 2
+                    ax.annotate(_text(c.segment), (0.5 * (c.x[0] + c.x[-1]), c.y[m]),
+                                xytext=(0, 6 + 9 * k), textcoords="offset points",
+                                ha="center", fontsize=7, color=colour, style="italic")
+    name, key = _QUANTITY[what]
+    ax.set_ylabel(f"{name} [{getattr(units, key)}]", fontsize=8, color=INK)
+    if what != "displacement":
+        ax.text(0.995, 0.97, "tension +", transform=ax.transAxes, ha="right", va="top",
+                fontsize=7, color=TENSION)
+        ax.text(0.995, 0.03, "compression -", transform=ax.transAxes, ha="right", va="bottom",
+                fontsize=7, color=COMPRESSION)
+    if several:
+        ax.legend(fontsize=7, frameon=False, loc="upper left")
+    ymin, ymax = ax.get_ylim()
+    pad = 0.12 * max(ymax - ymin, 1e-300)
+    ax.set_ylim(ymin - pad, ymax + pad)
+    _style_axes(ax)
+    return curves
+
+
+def _label_values(ax, items, colour, label_all, seen):
+    """Label the value at each station end of each curve (both sides where it jumps).
+
+    A value already labelled at the same point (by a coinciding lane) is not repeated.
+    """
+    def fresh(point):
+        for px, py in seen:
+            if (math.isclose(px, point[0], rel_tol=1e-9, abs_tol=1e-12)
+                    and math.isclose(py, point[1], rel_tol=1e-6, abs_tol=1e-12)):
+                return False
+        seen.append(point)
+        return True
+
+    if not label_all:
+        ys = np.concatenate([c.y for c in items])
+        xs = np.concatenate([c.x for c in items])
+        for j in {int(np.nanargmax(ys)), int(np.nanargmin(ys))}:
+            ax.annotate(_fmt(ys[j]), (xs[j], ys[j]), xytext=(0, 4), textcoords="offset points",
+                        ha="center", fontsize=7, color=colour)
+        return
+    prev = None
+    for c in items:
+        left, right = (c.x[0], c.y[0]), (c.x[-1], c.y[-1])
+        joined = prev is not None and math.isclose(prev[0], left[0], rel_tol=1e-12, abs_tol=1e-12)
+        same = joined and math.isclose(prev[1], left[1], rel_tol=1e-6, abs_tol=1e-12)
+        if not same and fresh(left):
+            ax.annotate(_fmt(left[1]), left, xytext=(3, 4 if left[1] >= 0 else -10),
+                        textcoords="offset points", ha="left", fontsize=7, color=colour)
+        if fresh(right):
+            ax.annotate(_fmt(right[1]), right, xytext=(-3, 4 if right[1] >= 0 else -10),
+                        textcoords="offset points", ha="right", fontsize=7, color=colour)
+        prev = right
+
+
+def _draw_sketch(ax, result, units):
+    """The bar itself: blocks by area, supports, gaps and the loads of the case."""
+    from matplotlib.collections import PolyCollection
+
+    model = result.model
+    fx = units.factor("length")
+    xs = np.array([st.x for st in model.stations]) / fx
+    idx = model._station_index
+    lane = lanes(model)
+    n_lanes = int(lane.max(initial=0)) + 1
+    areas = np.array([max(s.area for s in seg.sections) for seg in model.segments])
+    a_max = areas.max()
+    span = float(np.ptp(xs)) or 1.0
+    band = 1.0 / n_lanes
+    few = len(model.segments) <= 20
+    blocks, edges = [], []
+    for i, seg in enumerate(model.segments):
+        xa, xb = xs[idx[seg.start]], xs[idx[seg.end]]
+        h0 = max(seg.section.area / a_max, 0.08) * 0.7 * band
+        h1 = max((seg.end_section or seg.section).area / a_max, 0.08) * 0.7 * band
+        centre = 0.5 - (lane[i] - (n_lanes - 1) / 2) * band
+        blocks.append([(xa, centre - h0 / 2), (xb, centre - h1 / 2), (xb, centre + h1 / 2),
+                       (xa, centre + h0 / 2)])
+        edges.append(LANE_COLOURS[lane[i] % len(LANE_COLOURS)])
+        if few:
+            ax.text(0.5 * (xa + xb), centre, _text(seg.name), ha="center", va="center",
+                    fontsize=7, color=INK, clip_on=True)
+    ax.add_collection(PolyCollection(blocks, closed=True, facecolors=BLOCK_FACE, edgecolors=edges,
+                                     linewidths=0.9 if len(blocks) <= 400 else 0.0))
+    lo, hi = xs.min(), xs.max()
+    for sup in model.supports:
+        x = xs[idx[sup.at]]
+        side = -1.0 if x <= lo + 0.5 * span else 1.0   # the wall stands outside the bar
+        wall = x + side * (0.035 * span if sup.kind == "spring" else 0.0)
+        ax.plot([wall, wall], [0.1, 0.9], color=SUPPORT_COLOUR, linewidth=2.0)
+        for y in np.linspace(0.12, 0.88, 7):
+            ax.plot([wall, wall + side * 0.012 * span], [y, y + 0.06], color=SUPPORT_COLOUR,
+                    linewidth=0.8)
+        if sup.kind == "spring":
+            zx = np.linspace(x, wall, 11)
+            zy = 0.5 + 0.06 * np.array([0, 1, -1, 1, -1, 1, -1, 1, -1, 1, 0])
+            ax.plot(zx, zy, color=SUPPORT_COLOUR, linewidth=0.9)
+        if sup.kind == "settlement":
+            ax.annotate("", (wall + side * 0.03 * span, 0.95), (wall, 0.95),
+                        arrowprops={"arrowstyle": "->", "color": SUPPORT_COLOUR, "lw": 0.8})
+    for gap in model.gaps:
+        x = xs[idx[gap.stations[0]]]
+        if len(gap.stations) == 2:
+            xo = xs[idx[gap.stations[1]]]
+            ax.plot([x, x], [0.02, 0.98], color=INK, linewidth=0.8, linestyle=(0, (1, 1.5)))
+            ax.plot([xo, xo], [0.02, 0.98], color=INK, linewidth=0.8, linestyle=(0, (1, 1.5)))
+        else:
+            off = (0.02 if gap.side == "+x" else -0.02) * span
+            ax.plot([x + off, x + off], [0.15, 0.85], color=INK, linewidth=2.4)
+        ax.text(x, 1.02, _text(f"{gap.name} ({gap.kind})"), ha="center", va="bottom",
+                fontsize=6.5, color=INK)
+    fF = units.factor("force")
+    for j, force in enumerate(result.applied):
+        if force == 0:
+            continue
+        x = xs[j]
+        d = 0.06 * span * (1.0 if force > 0 else -1.0)
+        ax.annotate("", (x + d, 0.5), (x, 0.5),
+                    arrowprops={"arrowstyle": "-|>", "color": INK, "lw": 1.4,
+                                "mutation_scale": 9})
+        ax.text(x + d, 0.58, f"{_fmt(force / fF)} {units.force}", ha="center", va="bottom",
+                fontsize=7, color=INK,
+                bbox={"boxstyle": "round,pad=0.15", "facecolor": "white", "edgecolor": "none",
+                      "alpha": 0.8})
+    if len(model.stations) <= _LABEL_LIMIT:
+        at: dict[float, list[str]] = {}
+        for st, x in zip(model.stations, xs):
+            at.setdefault(float(x), []).append(st.name)
+        for x, names in at.items():
+            ax.text(x, -0.04, _text(", ".join(names)), ha="center", va="top", fontsize=6.5,
+                    color=MUTED)
+    ax.set_ylim(-0.2, 1.15)
+    ax.set_xlim(lo - 0.08 * span, hi + 0.08 * span)
+    ax.set_yticks([])
+    for side in ("top", "right", "left", "bottom"):
+        ax.spines[side].set_visible(False)
+    ax.tick_params(labelbottom=False, length=0)
+
+
+def plot_case(result: CaseResult, what: str = "all", path=None, units: OutputUnits | None = None,
+              dpi: int = DPI):
+    """Draw the diagrams of one case, and write them to ``path`` when given.
+
+    Parameters
+    ----------
+    result : CaseResult
+    what : {'force', 'stress', 'displacement', 'all'}
+    path : str or Path, optional
+        A ``.png`` or ``.svg`` file.
+    units : OutputUnits, optional
+    dpi : int
+        Resolution of a PNG (at least 150).
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        12 x 10 in for ``all`` (1800 x 1500 px at 150 dpi), 10 x 6.5 in otherwise.
+    """
+    from matplotlib.figure import Figure
+
+    if what not in WHAT:
+        raise ModelError(f"unknown diagram '{what}'", options=WHAT)
+    if path is not None:
+        _suffix(path)
+    model = result.model
+    units = units or model.units
+    kinds = list(_QUANTITY) if what == "all" else [what]
+    size = (12.0, 10.0) if what == "all" else (10.0, 6.5)
+    fig = Figure(figsize=size, dpi=dpi, layout="constrained")
+    ratios = [0.9] + [2.0] * len(kinds)
+    axes = fig.subplots(len(kinds) + 1, 1, sharex=True, height_ratios=ratios)
+    _draw_sketch(axes[0], result, units)
+    station_x = [st.x / units.factor("length") for st in model.stations]
+    for ax, kind in zip(axes[1:], kinds):
+        _draw_diagram(ax, result, kind, units, station_x)
+    axes[-1].set_xlabel(f"x [{units.length}]", fontsize=8, color=INK)
+    axes[-1].tick_params(labelbottom=True)
+    title = {"all": "axial force, stress and displacement", "force": "axial force",
+             "stress": "stress", "displacement": "displacement"}[what]
+    fig.suptitle(_text(f"{model.title}: {title}, case '{result.name}'"), fontsize=10, color=INK,
+                 x=0.01, ha="left")
+    if path is not None:
+        save_figure(fig, path, dpi)
+    return fig
+
+
+def _suffix(path) -> str:
+    suffix = Path(path).suffix.lower()
+    if suffix not in FIGURE_SUFFIXES:
+        raise ModelError(f"cannot write a figure as '{suffix or Path(path).name}'",
+                         file=str(path), options=FIGURE_SUFFIXES)
+    return suffix
+
+
+def save_figure(fig, path, dpi: int = DPI):
+    """Write ``fig`` as PNG or SVG by the suffix of ``path``."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    suffix = _suffix(path)
+    FigureCanvasAgg(fig)
+    fmt = suffix[1:]
+    meta = {"Date": None} if fmt == "svg" else {}
+    try:
+        fig.savefig(path, format=fmt, dpi=max(dpi, DPI), metadata=meta)
+    except OSError as exc:
+        raise ModelError(f"cannot write the figure: {exc}", file=str(path)) from exc
+
+
+def plot_sweep(sweep, path=None, units: OutputUnits | None = None, dpi: int = DPI):
+    """Plot each gap's force and each segment's stress against the swept parameter.
+
+    Parameters
+    ----------
+    sweep : SweepResult
+        With ``parameter``, ``unit``, ``values`` (in the sweep unit), ``results``
+        (one CaseResult per value) and ``events`` (``name``, ``event``, ``value``).
+    path : str or Path, optional
+        A ``.png`` or ``.svg`` file.
+    units : OutputUnits, optional
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        The stress of a segment is the one at its end of larger magnitude.
+    """
+    from matplotlib.figure import Figure
+
+    if path is not None:
+        _suffix(path)
+    results = tuple(sweep.results)
+    if not results:
+        raise ModelError("the sweep has no results to plot")
+    model = results[0].model
+    units = units or model.units
+    values = np.asarray(sweep.values, dtype=float)
+    n_gaps = len(model.gaps)
+    rows = 2 if n_gaps else 1
+    fig = Figure(figsize=(10.0, 3.6 * rows + 0.8), dpi=dpi, layout="constrained")
+    axes = np.atleast_1d(fig.subplots(rows, 1, sharex=True))
+    fF, fS = units.factor("force"), units.factor("stress")
+    legend_ok = len(model.segments) <= 12
+    if n_gaps:
+        gap_force = np.array([r.gap_force for r in results]) / fF
+        for j, gap in enumerate(model.gaps):
+            k = j % len(LANE_COLOURS)
+            line, = axes[0].plot(values, gap_force[:, j], color=LANE_COLOURS[k],
+                                 linestyle=LANE_STYLES[k], linewidth=1.3,
+                                 label=_text(gap.name) if n_gaps <= 12 else None)
+            line.set_gid(f"sweep-gap-{j}")
+        axes[0].set_ylabel(f"gap force [{units.force}]", fontsize=8, color=INK)
+        if n_gaps <= 12:
+            axes[0].legend(fontsize=7, frameon=False)
+    stress = np.array([r.stress for r in results])          # (steps, segments, 2)
+    pick = np.argmax(np.abs(stress), axis=2)
+    signed = np.take_along_axis(stress, pick[..., None], axis=2)[..., 0] / fS
+    ax = axes[-1]
+    for i, seg in enumerate(model.segments):
+        k = i % len(LANE_COLOURS)
+        line, = ax.plot(values, signed[:, i], color=LANE_COLOURS[k], linestyle=LANE_STYLES[k],
+                        linewidth=1.2, label=_text(seg.name) if legend_ok else None)
+        line.set_gid(f"sweep-segment-{i}")
+    ax.set_ylabel(f"stress [{units.stress}]", fontsize=8, color=INK)
+    if legend_ok:
+        ax.legend(fontsize=7, frameon=False)
+    events = tuple(sweep.events)
+    for a in axes:
+        a.axhline(0.0, color=MUTED, linewidth=0.8)
+        for n, ev in enumerate(events):
+            line = a.axvline(ev.value, color=COMPRESSION, linewidth=0.9, linestyle=(0, (3, 2)))
+            line.set_gid(f"sweep-event-{n}")
+        _style_axes(a)
+    for n, ev in enumerate(events[:16]):
+        axes[0].annotate(_text(f"{ev.name} {ev.event} at {ev.value:.4g} {sweep.unit}"),
+                         (ev.value, 1.0), xycoords=("data", "axes fraction"), rotation=90,
+                         ha="right", va="top", fontsize=6.5, color=COMPRESSION,
+                         xytext=(-2, -2), textcoords="offset points")
+    ax.set_xlabel(_text(f"{sweep.parameter.replace('_', ' ')} [{sweep.unit}]"), fontsize=8,
+                  color=INK)
+    fig.suptitle(_text(f"{model.title}: sweep of {sweep.parameter.replace('_', ' ')}"),
+                 fontsize=10, color=INK, x=0.01, ha="left")
+    if path is not None:
+        save_figure(fig, path, dpi)
+    return fig

@@ -1,0 +1,512 @@
+"""The report document: one self-contained HTML (or Markdown) file an engineer can file.
+
+Sections, in order: the job, the assumptions, an echo of the input, the results
+of each case, a calculation sheet per case (each segment's elongation split into
+N*L/(E*A), alpha*dT*L and misfit, summed and compared with the relative
+displacement of its end stations; each station's displacement in words), the
+design checks with the governing case, the diagrams (inline SVG), and the
+cautions.  Every text that comes from the model is escaped; the file needs no
+network and no other file.
+"""
+
+from __future__ import annotations
+
+import base64
+import datetime
+import html
+import io
+from pathlib import Path
+
+import numpy as np
+
+from .errors import ModelError
+from .output import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _governing_text
+from .results import CaseResult, Solution
+from .units import OutputUnits
+
+__all__ = ["REPORT_FORMATS", "SECTIONS", "report_format", "build_html", "build_markdown",
+           "write_report", "station_words", "calculation_rows"]
+
+REPORT_FORMATS = {"html": (".html", ".htm"), "markdown": (".md", ".markdown")}
+SECTIONS = ("job", "assumptions", "input", "results", "calculation", "checks", "diagrams",
+            "cautions")
+_TITLES = {"job": "The job", "assumptions": "Assumptions", "input": "Input",
+           "results": "Results", "calculation": "Calculation sheet", "checks": "Design checks",
+           "diagrams": "Diagrams", "cautions": "Cautions"}
+_MINUS = "\u2212"
+
+
+def report_format(path, fmt: str | None = None) -> str:
+    """The report format for ``path``: ``fmt`` checked against the suffix, or the suffix's.
+
+    Raises
+    ------
+    ModelError
+        For a suffix that is neither HTML nor Markdown, or one that contradicts ``fmt``.
+    """
+    suffix = Path(path).suffix.lower()
+    by_suffix = next((k for k, v in REPORT_FORMATS.items() if suffix in v), None)
+    allowed = REPORT_FORMATS[fmt] if fmt else tuple(s for v in REPORT_FORMATS.values() for s in v)
+    if fmt not in (None, *REPORT_FORMATS):
+        raise ModelError(f"unknown report format '{fmt}'", options=tuple(REPORT_FORMATS))
+    if suffix not in allowed:
+        what = {"html": "an HTML report", "markdown": "a Markdown report", None: "a report"}[fmt]
+        raise ModelError(f"cannot write {what} as '{suffix or Path(path).name}'",
+                         file=str(path), options=allowed)
+    return fmt or by_suffix
+
+
+# --- numbers and words -------------------------------------------------------
+def _g(value, digits=4) -> str:
+    if value is None:
+        return "-"
+    if value == 0:
+        return "0"
+    text = f"{value:.{digits}g}"
+    if "e" in text and 1e-4 <= abs(value) < 1e7:     # plain digits read better in a sheet
+        text = f"{float(text):.10f}".rstrip("0").rstrip(".")
+    return text.replace("-", _MINUS)
+
+
+def station_words(u: float, unit: str, factor: float, scale: float = 0.0) -> str:
+    """A displacement in words, e.g. ``'0.142 mm toward \u2212x'``.
+
+    Parameters
+    ----------
+    u : float
+        Displacement in m, positive toward +x.
+    unit : str
+    factor : float
+        SI value of one ``unit``.
+    scale : float
+        Displacements below 1e-12 * scale count as none.
+
+    Examples
+    --------
+    >>> station_words(-0.000142, "mm", 1e-3)
+    '0.142 mm toward \u2212x'
+    >>> station_words(0.0, "mm", 1e-3)
+    '0 mm (does not move)'
+    """
+    if u == 0 or abs(u) <= 1e-12 * scale:
+        return f"0 {unit} (does not move)"
+    direction = "+x" if u > 0 else f"{_MINUS}x"
+    return f"{abs(u) / factor:.4g} {unit} toward {direction}"
+
+
+def calculation_rows(result: CaseResult, units: OutputUnits) -> list[dict]:
+    """The hand-calculation split of each segment's elongation, in display units.
+
+    For a uniform segment the elastic part is computed as a hand calculation
+    does, N_mean * L / (E * A) (exact for a force varying linearly along it);
+    for a taper it is the integral of N / (E * A(x)) from the solver.  Each row
+    holds ``elastic``, ``thermal`` (alpha * dT * L), ``misfit``, their ``sum``,
+    ``relative`` (the change of distance between the end stations from their
+    displacements) and ``closure`` (sum minus relative), plus the terms as text.
+    """
+    model = result.model
+    fF, fL, fD, fS = (units.factor(k) for k in ("force", "length", "displacement", "stress"))
+    idx = model._station_index
+    rows = []
+    for i, seg in enumerate(model.segments):
+        ia, ib = idx[seg.start], idx[seg.end]
+        xa, xb = model.stations[ia].x, model.stations[ib].x
+        direction = 1.0 if xb > xa else -1.0
+        L = float(result.length[i])
+        E = seg.material.elastic_modulus
+        n0, n1 = (float(v) for v in result.axial_force[i])
+        n_mean = 0.5 * (n0 + n1)
+        alpha = seg.material.thermal_expansion
+        dT = float(result.temperature_change[i])
+        if seg.end_section is None:
+            A = seg.section.area
+            elastic = n_mean * L / (E * A)
+            n_text = "N" if n0 == n1 else "N_mean"
+            elastic_text = (f"{n_text}\u00b7L/(E\u00b7A) = {_g(n_mean / fF)} {units.force} \u00d7 "
+                            f"{_g(L / fL)} {units.length} / ({_g(E / fS, 6)} {units.stress} \u00d7 "
+                            f"{_g(A / fL ** 2)} {units.length}\u00b2)")
+        else:
+            elastic = float(result.elastic_elongation[i])
+            elastic_text = "\u222bN/(E\u00b7A(x))dx over the taper (exact taper stiffness)"
+        thermal = alpha * dT * L
+        thermal_text = (f"\u03b1\u00b7\u0394T\u00b7L = {alpha:.4g} /K \u00d7 {_g(dT)} K \u00d7 "
+                        f"{_g(L / fL)} {units.length}")
+        total = elastic + thermal + seg.misfit
+        relative = direction * (float(result.u[ib]) - float(result.u[ia]))
+        rows.append({"segment": seg.name, "elastic": elastic / fD, "thermal": thermal / fD,
+                     "misfit": seg.misfit / fD, "sum": total / fD, "relative": relative / fD,
+                     "closure": (total - relative) / fD, "elastic_text": elastic_text,
+                     "thermal_text": thermal_text,
+                     "relative_text": (f"u({seg.end}) {_MINUS} u({seg.start})" if direction > 0
+                                       else f"u({seg.start}) {_MINUS} u({seg.end})")})
+    return rows
+
+
+# --- the input echo ----------------------------------------------------------
+def _section_text(sec, units):
+    fL = units.factor("length")
+    parts = []
+    for key, value in sec.dimensions:
+        if key == "area":
+            parts.append(f"area {_g(value / fL ** 2)} {units.length}\u00b2")
+        elif key == "second_moment":
+            parts.append(f"I {_g(value / fL ** 4)} {units.length}\u2074")
+        else:
+            parts.append(f"{key.replace('_', ' ')} {_g(value / fL)} {units.length}")
+    return f"{sec.name}: {sec.shape}, " + ", ".join(parts)
+
+
+def _input_tables(model, units):
+    """Yield (title, headers, rows) echoing the model's input."""
+    fF, fL, fS = units.factor("force"), units.factor("length"), units.factor("stress")
+    L, F, S = units.length, units.force, units.stress
+    yield ("stations", ["station", f"x [{L}]"], [[st.name, _g(st.x / fL, 6)] for st in model.stations])
+    mats = {}
+    for seg in model.segments:
+        mats.setdefault(seg.material.name, seg.material)
+    yield ("materials", ["material", f"E [{S}]", "\u03b1 [1/K]", f"yield strength [{S}]",
+                         "density [kg/m\u00b3]", "source"],
+           [[m.name, _g(m.elastic_modulus / fS, 6), _g(m.thermal_expansion),
+             _g(m.yield_strength / fS) if m.yield_strength else "not given",
+             _g(m.density) if m.density else "-", m.source or "given in the model"]
+            for m in mats.values()])
+    seg_rows = []
+    for seg in model.segments:
+        own = [] if seg.temperature_change is None else [f"\u0394T {_g(seg.temperature_change)} K"]
+        if seg.misfit:
+            own.append(f"misfit {_g(seg.misfit / fL)} {L}")
+        if seg.distributed_load:
+            own.append(f"distributed load {_g(seg.distributed_load / fF * fL)} {F}/{L}")
+        if seg.buckling_length:
+            own.append(f"buckling length {_g(seg.buckling_length / fL)} {L}")
+        if seg.effective_length_factor:
+            own.append(f"K {_g(seg.effective_length_factor)}")
+        section = _section_text(seg.section, units)
+        if seg.end_section is not None:
+            section += " tapering to " + _section_text(seg.end_section, units)
+        area = seg.section.area if seg.end_section is None else None
+        seg_rows.append([seg.name, seg.start, seg.end, seg.material.name, section,
+                         _g(area / fL ** 2) if area else "tapered", "; ".join(own) or "-"])
+    yield ("segments", ["segment", "from", "to", "material", "section", f"A [{L}\u00b2]",
+                        "own values"], seg_rows)
+    if model.supports:
+        rows = []
+        for s in model.supports:
+            extra = (f"stiffness {_g(s.stiffness / fF * fL)} {F}/{L}" if s.kind == "spring" else
+                     f"displacement {_g(s.displacement / units.factor('displacement'))} "
+                     f"{units.displacement}" if s.kind == "settlement" else "-")
+            rows.append([s.at, s.kind, extra])
+        yield ("supports", ["at", "kind", "value"], rows)
+    load_rows = []
+    for case in model.all_cases:
+        for ld in case.loads:
+            load_rows.append([case.name, ld.at, _g(ld.force / fF, 6)])
+    if load_rows:
+        yield ("point loads (+ toward +x)", ["case", "at", f"force [{F}]"], load_rows)
+    temp_rows = []
+    if model.reference_temperature is not None:
+        temp_rows.append(["reference temperature", f"{_g(model.reference_temperature - 273.15, 6)} "
+                          "\u00b0C"])
+    if model.temperature_change is not None:
+        temp_rows.append(["model-wide temperature change", f"{_g(model.temperature_change)} K"])
+    for case in model.cases:
+        for name, dT in case.temperature_change:
+            temp_rows.append([f"case '{case.name}', {'every segment' if name == 'all' else name}",
+                              f"{_g(dT)} K"])
+    if model.gravity:
+        temp_rows.append(["gravity along +x (self-weight)", f"{_g(model.gravity)} m/s\u00b2"])
+    if temp_rows:
+        yield ("temperatures and self-weight", ["item", "value"], temp_rows)
+    if model.gaps:
+        rows = []
+        for g in model.gaps:
+            where = (f"between {g.stations[0]} and {g.stations[1]}" if len(g.stations) == 2
+                     else f"at {g.stations[0]}, stop on the {g.side} side")
+            rows.append([g.name, g.kind, where,
+                         _g(g.clearance / units.factor("displacement"), 6)])
+        yield ("gaps", ["gap", "kind", "where", f"clearance [{units.displacement}]"], rows)
+    if model.combinations:
+        yield ("combinations", ["combination", "factors"],
+               [[c.name, ", ".join(f"{f:g} \u00d7 {n}" for n, f in c.factors)]
+                for c in model.combinations])
+    if model.limits:
+        D, fD = units.displacement, units.factor("displacement")
+        yield ("deformation limits", ["limit", "value"],
+               [[f"|u| at {lim.at}", f"at most {_g(lim.displacement / fD)} {D}"] if lim.at else
+                [f"opening of gap {lim.gap}", f"at least {_g(lim.min_opening / fD)} {D}"]
+                for lim in model.limits])
+
+
+def _job_text(model) -> str:
+    from .output import summary_line
+
+    src = f" (file {Path(model.source).name})" if model.source else ""
+    return (f"Axial analysis of \u201c{model.title}\u201d{src}: {summary_line(model)}. "
+            "Every segment is a two-node bar element; the assembly is solved by the direct "
+            "stiffness method for the displacements of the stations, from which the axial force "
+            "and stress of each segment, the reactions of the supports and the state of each "
+            "gap follow. This report echoes the input, lists the results and sets out the "
+            "elongation of each segment the way a hand calculation does, so that a reviewer "
+            "can follow the arithmetic.")
+
+
+def _assumptions(report) -> list[str]:
+    return [
+        "Linear-elastic material, small displacements, axial load only (no bending, no "
+        "shear); the stress N/A is uniform over each cross-section.",
+        "Signs: x, displacements and external forces are positive toward +x; axial force and "
+        "stress are positive in tension; a reaction is the force a support exerts on the bar.",
+        "Thermal strain is \u03b1\u00b7\u0394T; a misfit is the length made minus the distance "
+        "between the stations; a distributed load and self-weight vary the force linearly "
+        "along a segment.",
+        "A gap is an exact one-way constraint: a contact carries compression only once closed, a "
+        "slack link tension only once taut.",
+        "Design checks: " + report.settings_text() + ". Euler's formula is used only for "
+        "slender members (K\u00b7L/r at least \u03c0\u221a(E/f_y)); shorter members are left "
+        "to an inelastic column curve of the applicable code.",
+    ]
+
+
+# --- diagrams ----------------------------------------------------------------
+def _svg(result, units) -> str:
+    from .plot import plot_case
+
+    fig = plot_case(result, "all", None, units)
+    buf = io.BytesIO()
+    from matplotlib.backends.backend_svg import FigureCanvasSVG
+
+    FigureCanvasSVG(fig)
+    fig.savefig(buf, format="svg", metadata={"Date": None})
+    text = buf.getvalue().decode("utf-8")
+    text = text[text.index("<svg"):]
+    return text.replace("<svg ", '<svg role="img" style="max-width:100%;height:auto" ', 1)
+
+
+def _png_base64(result, units) -> str:
+    from .plot import plot_case
+
+    fig = plot_case(result, "all", None, units)
+    buf = io.BytesIO()
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    FigureCanvasAgg(fig)
+    fig.savefig(buf, format="png", dpi=150)
+    return base64.b64encode(buf.getvalue()).decode("ascii")
+
+
+# --- HTML --------------------------------------------------------------------
+_CSS = """
+body { font: 14px/1.45 system-ui, sans-serif; color: #27303a; max-width: 1100px;
+       margin: 2em auto; padding: 0 1em; }
+h1 { font-size: 1.5em; border-bottom: 2px solid #27303a; padding-bottom: .2em; }
+h2 { font-size: 1.2em; margin-top: 2em; border-bottom: 1px solid #c9ced3; }
+h3 { font-size: 1em; margin-top: 1.4em; }
+table { border-collapse: collapse; margin: .5em 0 1em; font-size: 12.5px; }
+th, td { border: 1px solid #d3d7db; padding: .2em .5em; vertical-align: top; }
+th { background: #eef0f2; text-align: left; }
+td.num { text-align: right; font-variant-numeric: tabular-nums; }
+.fail { color: #9a3b2f; font-weight: bold; } .review { color: #8a6417; font-weight: bold; }
+.pass { color: #2f6f4e; } .meta { color: #6b747c; } figure { margin: 1em 0; }
+"""
+
+
+def _e(text) -> str:
+    return html.escape(str(text), quote=True)
+
+
+def _is_num(text: str) -> bool:
+    try:
+        float(str(text).replace(_MINUS, "-"))
+        return True
+    except ValueError:
+        return False
+
+
+def _html_table(headers, rows, classes=None) -> str:
+    head = "".join(f"<th>{_e(h)}</th>" for h in headers)
+    body = []
+    for r, row in enumerate(rows):
+        cells = []
+        for c, cell in enumerate(row):
+            cls = classes[r][c] if classes and classes[r][c] else ("num" if _is_num(cell) else "")
+            cells.append(f'<td class="{cls}">{_e(cell)}</td>' if cls else f"<td>{_e(cell)}</td>")
+        body.append("<tr>" + "".join(cells) + "</tr>")
+    return f"<table><thead><tr>{head}</tr></thead><tbody>{''.join(body)}</tbody></table>"
+
+
+def _calc_headers(units):
+    D = units.displacement
+    return ["segment", f"N\u00b7L/(E\u00b7A) [{D}]", "elastic part worked out",
+            f"\u03b1\u00b7\u0394T\u00b7L [{D}]", "thermal part worked out", f"misfit [{D}]",
+            f"sum [{D}]", f"relative displacement [{D}]", "from", f"sum {_MINUS} relative [{D}]"]
+
+
+def _calc_table_rows(result, units):
+    return [[r["segment"], _g(r["elastic"], 6), r["elastic_text"], _g(r["thermal"], 6),
+             r["thermal_text"], _g(r["misfit"], 6), _g(r["sum"], 6), _g(r["relative"], 6),
+             r["relative_text"], _g(r["closure"], 2)]
+            for r in calculation_rows(result, units)]
+
+
+def _station_word_rows(result, units):
+    fD = units.factor("displacement")
+    scale = float(np.abs(result.u).max(initial=0.0))
+    return [[st.name, station_words(float(result.u[i]), units.displacement, fD, scale)]
+            for i, st in enumerate(result.model.stations)]
+
+
+def build_html(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
+               checks=None) -> str:
+    """The report as one self-contained HTML document.
+
+    Parameters
+    ----------
+    solution : Solution
+    units : OutputUnits, optional
+        Default: the model's.
+    date : str, optional
+        ISO date shown under the title (default: today).
+    checks : CheckReport, optional
+        Computed when not given.
+    """
+    from .checks import check_solution
+
+    model = solution.model
+    units = units or model.units
+    checks = checks or check_solution(solution, units)
+    date = date or datetime.date.today().isoformat()
+    data = solution.to_dict(units)
+    out = ["<!DOCTYPE html>", '<html lang="en">', "<head>", '<meta charset="utf-8">',
+           '<meta name="viewport" content="width=device-width, initial-scale=1">',
+           f"<title>{_e(model.title)}</title>", f"<style>{_CSS}</style>", "</head>", "<body>",
+           f"<h1>{_e(model.title)}</h1>",
+           f'<p class="meta">Axial analysis report, <time datetime="{_e(date)}">{_e(date)}</time>; '
+           "units: " + _e(", ".join(f"{k} {v}" for k, v in units.as_dict().items())) + "</p>"]
+
+    def section(key):
+        out.append(f'<section id="{key}"><h2>{_TITLES[key]}</h2>')
+
+    section("job")
+    out.append(f"<p>{_e(_job_text(model))}</p></section>")
+    section("assumptions")
+    out.append("<ul>" + "".join(f"<li>{_e(a)}</li>" for a in _assumptions(checks)) + "</ul></section>")
+    section("input")
+    for title, headers, rows in _input_tables(model, units):
+        out.append(f"<h3>{_e(title)}</h3>" + _html_table(headers, rows))
+    out.append("</section>")
+    section("results")
+    for n, case in enumerate(data["cases"]):
+        out.append(f'<h3 id="results-{n}">Case \u201c{_e(case["name"])}\u201d</h3>')
+        for title, headers, rows in _case_tables(case, data["units"]):
+            out.append(f"<p><strong>{_e(title)}</strong></p>" + _html_table(headers, rows))
+        out.append(f"<p>Equilibrium residual: {case['equilibrium_residual']:.2e} (largest "
+                   "out-of-balance station force over the largest force).</p>")
+        for note in case.get("notes", []):
+            out.append(f"<p>Note: {_e(note)}</p>")
+    out.append("</section>")
+    section("calculation")
+    out.append("<p>Each segment's elongation is the sum of its elastic part N\u00b7L/(E\u00b7A), "
+               "its thermal part \u03b1\u00b7\u0394T\u00b7L and its misfit; the sum must equal "
+               "the relative displacement of its end stations (the last column is the "
+               "difference).</p>")
+    for n, result in enumerate(solution.cases):
+        out.append(f'<h3 id="calculation-{n}">Case \u201c{_e(result.name)}\u201d</h3>')
+        out.append(_html_table(_calc_headers(units), _calc_table_rows(result, units)))
+        out.append("<p><strong>Displacement of each station</strong></p>")
+        out.append(_html_table(["station", "displacement"], _station_word_rows(result, units)))
+    out.append("</section>")
+    section("checks")
+    verdict_class = {"pass": "pass", "FAIL": "fail", "review": "review"}
+    for n, case in enumerate(checks.cases):
+        out.append(f'<h3 id="checks-{n}">Case \u201c{_e(case.case)}\u201d</h3>')
+        rows = [_check_cells(e, units) for e in case]
+        classes = [[None] * 5 + [verdict_class[e.verdict], None] for e in case]
+        out.append(_html_table(_CHECK_HEADERS, rows, classes) if rows else "<p>No checks.</p>")
+    out.append(f'<p id="governing"><strong>Governing check:</strong> '
+               f"{_e(_governing_text(checks))}. Overall: {_e(checks.status)}.</p>")
+    out.append(f"<p>Basis: {_e(checks.settings_text())}.</p></section>")
+    section("diagrams")
+    for n, result in enumerate(solution.cases):
+        out.append(f'<figure id="diagram-{n}">{_svg(result, units)}'
+                   f"<figcaption>Axial force, stress and displacement along x, case "
+                   f"\u201c{_e(result.name)}\u201d.</figcaption></figure>")
+    out.append("</section>")
+    section("cautions")
+    out.append("<ul>" + "".join(f"<li>{_e(c)}</li>" for c in CAUTIONS) + "</ul></section>")
+    out += ["</body>", "</html>"]
+    return "\n".join(out) + "\n"
+
+
+# --- Markdown ----------------------------------------------------------------
+def _md(text) -> str:
+    text = html.escape(str(text), quote=False)
+    for ch in "\\`*_[]#|":
+        text = text.replace(ch, "\\" + ch)
+    return text
+
+
+def _md_table(headers, rows) -> list[str]:
+    return (["| " + " | ".join(_md(h) for h in headers) + " |",
+             "|" + "|".join("---" for _ in headers) + "|"]
+            + ["| " + " | ".join(_md(c) for c in r) + " |" for r in rows] + [""])
+
+
+def build_markdown(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
+                   checks=None) -> str:
+    """The report as one Markdown document (diagrams as embedded base64 PNG)."""
+    from .checks import check_solution
+
+    model = solution.model
+    units = units or model.units
+    checks = checks or check_solution(solution, units)
+    date = date or datetime.date.today().isoformat()
+    data = solution.to_dict(units)
+    out = [f"# {_md(model.title)}", "",
+           f"Axial analysis report, {date}; units: "
+           + ", ".join(f"{k} {v}" for k, v in units.as_dict().items()), ""]
+    out += [f"## {_TITLES['job']}", "", _md(_job_text(model)), ""]
+    out += [f"## {_TITLES['assumptions']}", ""] + [f"- {_md(a)}" for a in _assumptions(checks)] + [""]
+    out += [f"## {_TITLES['input']}", ""]
+    for title, headers, rows in _input_tables(model, units):
+        out += [f"### {_md(title)}", ""] + _md_table(headers, rows)
+    out += [f"## {_TITLES['results']}", ""]
+    for case in data["cases"]:
+        out += [f"### Case \u201c{_md(case['name'])}\u201d", ""]
+        for title, headers, rows in _case_tables(case, data["units"]):
+            out += [f"**{_md(title)}**", ""] + _md_table(headers, rows)
+        out += [f"Equilibrium residual: {case['equilibrium_residual']:.2e}", ""]
+        out += [f"Note: {_md(n)}" for n in case.get("notes", [])]
+    out += [f"## {_TITLES['calculation']}", "",
+            "Elongation = N\u00b7L/(E\u00b7A) + \u03b1\u00b7\u0394T\u00b7L + misfit; the sum must "
+            "equal the relative displacement of the end stations.", ""]
+    for result in solution.cases:
+        out += [f"### Case \u201c{_md(result.name)}\u201d", ""]
+        out += _md_table(_calc_headers(units), _calc_table_rows(result, units))
+        out += ["**Displacement of each station**", ""]
+        out += _md_table(["station", "displacement"], _station_word_rows(result, units))
+    out += [f"## {_TITLES['checks']}", ""]
+    for case in checks.cases:
+        out += [f"### Case \u201c{_md(case.case)}\u201d", ""]
+        out += _md_table(_CHECK_HEADERS, [_check_cells(e, units) for e in case])
+    out += [f"**Governing check:** {_md(_governing_text(checks))}. Overall: {checks.status}.", "",
+            f"Basis: {_md(checks.settings_text())}.", ""]
+    out += [f"## {_TITLES['diagrams']}", ""]
+    for n, result in enumerate(solution.cases):
+        out += [f"![diagram {n + 1}: axial force, stress and displacement, case "
+                f"{_md(result.name)}](data:image/png;base64,{_png_base64(result, units)})", ""]
+    out += [f"## {_TITLES['cautions']}", ""] + [f"- {_md(c)}" for c in CAUTIONS]
+    return "\n".join(out) + "\n"
+
+
+def write_report(solution: Solution, path, fmt: str | None = None,
+                 units: OutputUnits | None = None, date: str | None = None) -> Path:
+    """Write the report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None)."""
+    path = Path(path)
+    fmt = report_format(path, fmt)
+    build = build_html if fmt == "html" else build_markdown
+    text = build(solution, units, date)
+    try:
+        path.write_text(text, encoding="utf-8")
+    except OSError as exc:
+        raise ModelError(f"cannot write the report: {exc}", file=str(path)) from exc
+    return path
