@@ -149,7 +149,11 @@ def sweep(model: ModelPath,
           steps: Annotated[int, typer.Option("--steps", help="Grid points, both ends included.")] = 101,
           case: Annotated[Optional[str], typer.Option("--case", help="Case to sweep (default: the first).")] = None,
           format: Annotated[SweepFormat, typer.Option("--format", "-f", help="Output format.")] = SweepFormat.table,
-          output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+          output: Output = None,
+          plot: Annotated[Optional[Path], typer.Option(
+              "--plot", dir_okay=False, help="Also draw gap forces and segment stresses against "
+              "the parameter, events marked (.png or .svg).")] = None,
+          force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a case along a temperature or load range and report the exact events."""
     from .errors import ModelError
@@ -177,6 +181,11 @@ def sweep(model: ModelPath,
         else:
             text_out = sweep_csv(result, units, progress=long)
         emit(text_out, output)
+        if plot is not None:
+            from .plot import plot_sweep
+
+            plot_sweep(result, plot, units)
+            typer.echo(f"wrote {plot}", err=True)
 # --- closed form -------------------------------------------------------------
 class ClosedFormat(str, Enum):
     table = "table"

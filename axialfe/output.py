@@ -64,11 +64,14 @@ def _case_tables(case: dict, units: dict):
     F, L, D, S = units["force"], units["length"], units["displacement"], units["stress"]
     yield ("stations", ["station", f"x [{L}]", f"displacement [{D}]"],
            [[s["name"], _g(s["x"]), _g(s["displacement"])] for s in case["stations"]])
+    heated = any(s["temperature_change"] for s in case["segments"])
     yield ("segments", ["segment", "from", "to", f"L [{L}]", f"N from [{F}]", f"N to [{F}]",
-                        f"stress from [{S}]", f"stress to [{S}]", f"elongation [{D}]"],
+                        f"stress from [{S}]", f"stress to [{S}]", f"elongation [{D}]"]
+           + (["dT [K]"] if heated else []),
            [[s["name"], s["from"], s["to"], _g(s["length"]), _g(s["axial_force"][0]),
              _g(s["axial_force"][1]), _g(s["stress"][0]), _g(s["stress"][1]),
-             _g(s["elongation"])] for s in case["segments"]])
+             _g(s["elongation"])] + ([_g(s["temperature_change"])] if heated else [])
+            for s in case["segments"]])
     if case["reactions"]:
         yield ("reactions (force of the support on the bar, + toward +x)",
                ["at", "support", f"force [{F}]"],

@@ -506,6 +506,14 @@ def plot_sweep(sweep, path=None, units: OutputUnits | None = None, dpi: int = DP
     model = results[0].model
     units = units or model.units
     values = np.asarray(sweep.values, dtype=float)
+    if getattr(sweep, "exact", None) is not None and sweep.events:
+        # the response is linear between events: drawing the events' own points puts
+        # every kink exactly where it is, not at the nearest grid values
+        extra = sorted({float(e.value) for e in sweep.events} - set(values.tolist()))
+        merged = np.concatenate([values, extra])
+        order = np.argsort(merged * (1.0 if values[-1] >= values[0] else -1.0), kind="stable")
+        results = tuple((results + tuple(sweep.result_at(v) for v in extra))[i] for i in order)
+        values = merged[order]
     n_gaps = len(model.gaps)
     rows = 2 if n_gaps else 1
     fig = Figure(figsize=(10.0, 3.6 * rows + 0.8), dpi=dpi, layout="constrained")

@@ -118,6 +118,7 @@ class CaseResult:
                      "axial_force": (self.axial_force[i] / fF).tolist(),
                      "stress": (self.stress[i] / fS).tolist(),
                      "elongation": float(self.elongation[i] / fD),
+                     "temperature_change": float(self.temperature_change[i]),
                      "thermal_strain": float(self.thermal_strain[i]),
                      "mechanical_strain": self.mechanical_strain[i].tolist()}
                     for i, s in enumerate(m.segments)]

@@ -12,7 +12,7 @@ serves the whole sweep.
 from __future__ import annotations
 
 from collections.abc import Sequence
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -91,6 +91,8 @@ class SweepResult:
     model : Model
     case : str
         The case swept.
+    exact : callable, optional
+        The exact result at any value of the range (set by :func:`sweep`).
     """
 
     parameter: str
@@ -101,6 +103,16 @@ class SweepResult:
     notes: tuple[str, ...]
     model: Model
     case: str
+    exact: object = field(default=None, compare=False, repr=False)
+
+    def result_at(self, value: float) -> CaseResult:
+        """The exact result at any ``value`` of the range (events included)."""
+        lo, hi = sorted((float(self.values[0]), float(self.values[-1])))
+        if self.exact is None:
+            raise ModelError("this sweep result keeps only its grid values")
+        if not lo <= value <= hi:
+            raise ModelError(f"{value:g} {self.unit} lies outside the swept range {lo:g}..{hi:g}")
+        return self.exact(float(value))
 
     def to_dict(self, units=None, steps=None) -> dict:
         """Plain numbers in ``units``; ``steps`` may wrap :attr:`results` (a progress bar)."""
@@ -395,4 +407,5 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     events = [events[i] for i in order]
     grid = np.linspace(start, stop, steps)
     return SweepResult(parameter=parameter, unit=unit, values=grid, results=_Steps(tracker, grid),
-                       events=tuple(events), notes=tuple(notes), model=model, case=base.name)
+                       events=tuple(events), notes=tuple(notes), model=model, case=base.name,
+                       exact=tracker.result_at)

@@ -443,5 +443,10 @@ def test_plot_sweep_of_a_real_sweep(tmp_path):
     fig = plot_sweep(result, out)
     assert ET.parse(out).getroot().tag.endswith("svg")
     gap_line, = _lines(fig, "sweep-gap-")
-    assert np.allclose(gap_line.get_ydata(), [r.gap_force[0] for r in result.results])
+    # the curve runs through the grid and through the exact event, where the force is 0
+    x, y = gap_line.get_data()
+    grid = [i for i, v in enumerate(x) if v in set(result.values.tolist())]
+    assert np.allclose(y[grid], [r.gap_force[0] for r in result.results])
+    at = int(np.flatnonzero(x == result.events[0].value)[0])
+    assert x[at - 1] < x[at] < x[at + 1] and y[at] == pytest.approx(0.0, abs=1e-6)
     assert _lines(fig, "sweep-event-")[0].get_xdata()[0] == pytest.approx(close, rel=1e-9)
