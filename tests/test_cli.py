@@ -98,7 +98,8 @@ def test_json_keys_of_the_spec(bar):
     assert [set(s) for s in case["stations"]] == [{"name", "x", "displacement"}] * 3
     for seg in case["segments"]:
         assert set(seg) == {"name", "from", "to", "length", "axial_force", "stress",
-                            "elongation", "thermal_strain", "mechanical_strain"}
+                            "elongation", "temperature_change", "thermal_strain",
+                            "mechanical_strain"}
         assert len(seg["axial_force"]) == len(seg["stress"]) == len(seg["mechanical_strain"]) == 2
     for r in case["reactions"]:
         assert {"at", "force"} <= set(r)
