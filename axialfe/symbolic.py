@@ -185,7 +185,17 @@ def _section_factors(sec, exact):
 
 
 def _element(seg, length, g_local, exact):
-    """Return (k, A_from, A_to, g_unit_q, w_self, g_self) of one segment, exactly."""
+    """Return (k, A_from, A_to, g_unit_q, w_self, g_self) of one segment, exactly.
+
+    A tapered segment's area is ``c*P(s)*Q(s)`` with ``P`` and ``Q`` linear in
+    the distance ``s`` from its ``from`` end (see :func:`_section_factors`).
+    Its flexibility, ``integral ds/(E*A)``, is ``L/(E*c*p1*p2)`` for a cone
+    (``P`` proportional to ``Q``) and otherwise
+    ``L*(log(p1/p2) - log(q1/q2))/(E*c*(p1*q2 - q1*p2))``: for a linear area
+    ``L*log(A1/A2)/(E*(A1 - A2))`` (Gere and Goodno, Mechanics of Materials,
+    nonuniform bars; from memory).  The load integrals are taken by partial
+    fractions in ``s`` and written with the same two logarithms.
+    """
     E = exact(seg.material.elastic_modulus)
     rho = exact(seg.material.density) if seg.material.density is not None else sympy.Integer(0)
     s0, s1 = seg.sections
@@ -196,27 +206,53 @@ def _element(seg, length, g_local, exact):
     if sympy.cancel(p1 - p2) == 0 and sympy.cancel(q1 - q2) == 0:
         k = E * a1 / L
         return k, a1, a1, L**2 / (2 * E * a1), rho * g_local * a1 * L, rho * g_local * L**2 / (2 * E)
-    dp, dq = (p2 - p1) / L, (q2 - q1) / L
-    det = sympy.cancel(p1 * dq - q1 * dp)
-    if det == 0:
-        flex = L / (E * c * q1 * p2)
-    else:
-        t = L * det / (q1 * p2)
-        flex = L / (E * c * q1 * p2) * sympy.log(1 + t) / t
+    # log(p1/p2) and log(q1/q2), by the ratio their negatives are the logarithm of
+    lp, lq = (sympy.log(sympy.cancel(x1 / x2)) if sympy.cancel(x1 - x2) != 0 else sympy.Integer(0)
+              for x1, x2 in ((p1, p2), (q1, q2)))
+    logs = {sympy.cancel(p2 / p1): -lp, sympy.cancel(q2 / q1): -lq}
+    det = sympy.cancel(p1 * q2 - q1 * p2)
+    flex = L / (E * c * q1 * p2) if det == 0 else L * (lp - lq) / (E * c * det)
     k = 1 / flex
     s = sympy.Dummy("s", positive=True)
-    area = c * (p1 + dp * s) * (q1 + dq * s)
+    P, Q = p1 + (p2 - p1) / L * s, q1 + (q2 - q1) / L * s
     g_unit_q = w_self = g_self = sympy.Integer(0)
     if seg.distributed_load:
-        g_unit_q = sympy.integrate(s / (E * area), (s, 0, L), conds="none")
+        g_unit_q = _integral(s, s, P, Q, L, logs) / (E * c)
     if rho != 0 and g_local != 0:
-        vol = sympy.integrate(area, (s, 0, s))
+        vol = c * sympy.integrate(sympy.expand(P * Q), (s, 0, s))
         w_self = rho * g_local * vol.subs(s, L)
-        g_self = rho * g_local * sympy.integrate(vol / (E * area), (s, 0, L), conds="none")
-    for term in (g_unit_q, g_self):
-        if term.has(sympy.Integral):
-            raise ModelError(f"no closed form for the load integral of tapered segment '{seg.name}'")
+        g_self = rho * g_local * _integral(vol, s, P, Q, L, logs) / (E * c)
     return k, a1, a2, g_unit_q, w_self, g_self
+
+
+def _integral(num, s, P, Q, L, logs):
+    """Integral of ``num/(P*Q)`` over s from 0 to L (``num`` a polynomial in s).
+
+    By partial fractions in s: polynomial terms integrate to polynomials, a
+    term ``a/(b*s + d)**n`` to ``a/b*log((b*L + d)/d)`` (n = 1) or a power; a
+    logarithm of a ratio in ``logs`` (ratio -> its logarithm) is written as given.
+    """
+    total = sympy.Integer(0)
+    for term in sympy.Add.make_args(sympy.apart(sympy.cancel(num / (P * Q)), s)):
+        coeff, part = term.as_independent(s, as_Add=False)
+        num_s, den_s = sympy.fraction(sympy.factor(part))
+        if not den_s.has(s):
+            total += coeff * sympy.integrate(num_s / den_s, (s, 0, L))
+            continue
+        const, lin = den_s.as_independent(s, as_Add=False)
+        base, n = lin.as_base_exp()
+        poly = sympy.Poly(base, s)
+        if num_s.has(s) or poly.degree() != 1 or not n.is_Integer:  # pragma: no cover
+            raise AssertionError(f"unexpected partial fraction {term}")
+        b, d = poly.all_coeffs()
+        a = coeff * num_s / const
+        end = b * L + d
+        if n == 1:
+            ratio = sympy.cancel(end / d)
+            total += a / b * logs.get(ratio, sympy.log(ratio))
+        else:
+            total += a / b * (end ** (1 - n) - d ** (1 - n)) / (1 - n)
+    return total
 
 
 def _state(model: Model, case: str | None, exact):
@@ -267,15 +303,53 @@ def _state(model: Model, case: str | None, exact):
     return name, forces, dT, settle
 
 
-def _tidy(expr):
-    """Simplify one result: cancel to one fraction, then factor when that is shorter."""
+def _hide_logs(expr, hidden):
+    """Replace each logarithm in ``expr`` by a real dummy (kept in ``hidden``, log -> dummy)."""
+    expr = _rat(expr)
+    if not isinstance(expr, sympy.Basic):
+        return expr
+    for atom in expr.atoms(sympy.log):
+        if atom not in hidden:
+            hidden[atom] = sympy.Dummy(f"log{len(hidden)}", real=True)
+    return expr.xreplace(hidden)
+
+
+def _tidy(expr, drivers=()):
+    """Simplify one result: cancel to one fraction, then factor when that is shorter.
+
+    A sum left in the result is grouped by the ``drivers`` (the symbols of the
+    loads, temperature changes, misfits, settlements and clearances), each
+    coefficient factored, when that reads shorter: ``dT*(L_1*alpha_1 +
+    L_2*alpha_2) - c`` rather than ``L_1*alpha_1*dT + L_2*alpha_2*dT - c``.
+    """
     expr = _rat(expr)
     if expr.is_number:
         return sympy.cancel(expr)
     e = sympy.cancel(expr)
     f = sympy.factor(e)
     best = f if sympy.count_ops(f) <= sympy.count_ops(e) else e
+    if drivers:
+        best = best.replace(lambda x: x.is_Add, lambda x: _grouped(x, drivers))
     return _fewer_minus(best)
+
+
+def _grouped(add, drivers):
+    """``add`` grouped by the drivers it holds, when that is shorter."""
+    held = [d for d in drivers if add.has(d)]
+    if not held:
+        return add
+    parts = sympy.collect(add, held, evaluate=False)
+    if len(parts) < 2:
+        return add
+    terms = []
+    for k, v in parts.items():
+        v = sympy.factor(v)
+        if v.is_Add and str(-v).count("-") < str(v).count("-"):
+            terms.append(-sympy.Mul(k, -v, evaluate=False))
+        else:
+            terms.append(_fewer_minus(v) * k)
+    grouped = sympy.Add(*terms)
+    return grouped if len(str(grouped)) < len(str(add)) else add
 
 
 def _fewer_minus(expr):
@@ -287,7 +361,7 @@ def _fewer_minus(expr):
         base, exp = f.as_base_exp()
         if base.is_Add and exp.is_Integer:
             neg = sympy.Add(*[-t for t in base.args])
-            if str(neg).count("-") < str(base).count("-"):
+            if str(neg).count("-") <= str(base).count("-"):
                 parts.append(sympy.Pow(neg, exp))
                 sign *= (-1) ** int(exp)
                 continue
@@ -449,8 +523,14 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     n = len(xs)
     gravity = exact(model.gravity)
     name, forces, dT, settle = _state(model, case, exact)
+    causes = [*forces.values(), *dT, *settle, gravity]
+    causes += [exact(v) for s in model.segments for v in (s.misfit, s.distributed_load)]
+    causes += [exact(g.clearance) for g in model.gaps]
+    used = set().union(*(v.free_symbols for v in causes if isinstance(v, sympy.Basic)))
+    drivers = [s for s in syms.values() if s in used]
 
     K = {}
+    hidden = {}
 
     def add(i, j, v):
         K[(i, j)] = K.get((i, j), 0) + v
@@ -476,8 +556,10 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         k, a1, a2, g_unit_q, w_self, g_self = _element(seg, L, gravity * e, exact)
         delta0 = exact(seg.material.thermal_expansion) * dT[m] * L + exact(seg.misfit)
         q_local = exact(seg.distributed_load) * e
-        G = q_local * g_unit_q + g_self
-        W = q_local * L + w_self
+        # a tapered segment's logarithms stand as single unknowns through the solution,
+        # so that no expansion splits log(A_1/A_2) into log(A_1) - log(A_2)
+        k, G, W = (_hide_logs(v, hidden) for v in (k, q_local * g_unit_q + g_self,
+                                                   q_local * L + w_self))
         add(i, i, k), add(j, j, k), add(i, j, -k), add(j, i, -k)
         F[i] += e * (-k * delta0 + k * G)
         F[j] += e * (k * delta0 + W - k * G)
@@ -541,14 +623,19 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     disp = [sympy.Integer(0) if d == 0 else d for d in disp]
     lam_v = {g: sol[v] for g, v in lam.items()}
 
+    back = {d: v for v, d in hidden.items()}
+
+    def tidy(expr):
+        return _tidy(expr, drivers).xreplace(back)
+
     # recovery, as axialfe.solve.System.recover
     axial, stress = {}, {}
     for seg, (i, j, e, k, a1, a2, delta0, G, W) in zip(model.segments, elems):
         du = e * (disp[j] - disp[i])
         n_from = k * (du - delta0) + k * G
         n_to = n_from - W
-        axial[seg.name] = (_tidy(n_from), _tidy(n_to))
-        stress[seg.name] = (_tidy(n_from / a1), _tidy(n_to / a2))
+        axial[seg.name] = (tidy(n_from), tidy(n_to))
+        stress[seg.name] = (tidy(n_from / a1), tidy(n_to / a2))
     R = [sympy.Add(*[v * disp[j] for j, v in rows[i]]) - F[i] for i in range(n)]
     for g, a, b, s1, s2, c in gaps:
         if g.name in lam:
@@ -563,8 +650,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         else:
             r = R[at] - sum((-kk * disp[at] for _, a_, kk in springs if a_ == at), sympy.Integer(0))
         reactions[sup.at] = reactions.get(sup.at, 0) + r
-    reactions = {k: _tidy(v) for k, v in reactions.items()}
-    displacements = {stations[i]: _tidy(disp[i]) for i in range(n)}
+    reactions = {k: tidy(v) for k, v in reactions.items()}
+    displacements = {stations[i]: tidy(disp[i]) for i in range(n)}
 
     gap_forces, conditions = {}, []
     prefer = sorted((s for s in syms.values() if not s.is_positive), key=lambda s: list(syms.values()).index(s))
@@ -572,11 +659,11 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     for g, a, b, s1, s2, c in gaps:
         if g.name in lam:
             force = -lam_v[g.name] if g.kind == "contact" else lam_v[g.name]
-            gap_forces[g.name] = _tidy(force)
-            conditions.append(_relation(lam_v[g.name], prefer))
+            gap_forces[g.name] = tidy(force)
+            conditions.append(_relation(lam_v[g.name], prefer).xreplace(back))
         else:
             gap_forces[g.name] = sympy.Integer(0)
-            conditions.append(_relation(c - measure(a, b, s1, s2, disp), prefer))
+            conditions.append(_relation(c - measure(a, b, s1, s2, disp), prefer).xreplace(back))
     notes = []
     kept = []
     for rel in conditions:

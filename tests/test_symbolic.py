@@ -317,3 +317,108 @@ def test_bad_options_give_one_line(tmp_path, args, message):
     result = runner.invoke(app, ["closed-form", str(path), *args])
     assert result.exit_code == 2
     assert result.output.strip() == message
+
+
+# --- tapered segments ------------------------------------------------------------
+TAPER = """
+[symbols]
+P = { unit = "kN" }
+L = { unit = "mm" }
+E = { unit = "GPa" }
+%s
+[materials.m]
+elastic_modulus = "E"
+[sections.wide]
+%s
+[sections.narrow]
+%s
+[stations]
+wide = "0 mm"
+narrow = "L"
+[[segments]]
+name = "taper"
+from = "wide"
+to = "narrow"
+material = "m"
+section = "wide"
+end_section = "narrow"
+[[supports]]
+at = "wide"
+[[loads]]
+at = "narrow"
+force = "P"
+"""
+
+
+def test_solid_cone_in_closed_form():
+    # delta = 4*P*L/(pi*E*d1*d2) (Gere and Goodno, Mechanics of Materials, nonuniform
+    # bars, tapered bar of circular cross-section; from memory)
+    text = TAPER % ('d_1 = { unit = "mm" }\nd_2 = { unit = "mm" }',
+                    'shape = "round"\ndiameter = "d_1"', 'shape = "round"\ndiameter = "d_2"')
+    cf = solve_symbolic(parse_model(text, "cone.toml", symbolic=True))
+    P, L, E, d1, d2 = R("P"), S("L"), S("E"), S("d_1"), S("d_2")
+    assert sympy.simplify(cf.displacement("narrow") - 4 * P * L / (sympy.pi * E * d1 * d2)) == 0
+    assert str(cf.displacement("narrow")) == "4*L*P/(pi*E*d_1*d_2)"
+    # stresses P/A at both ends (equilibrium of a cut; common practice)
+    assert same(cf.stresses["taper"][1], 4 * P / (sympy.pi * d2**2))
+
+
+def test_linearly_tapered_area_in_closed_form():
+    # k = E*(A2 - A1)/(L*ln(A2/A1)) (integral of dx/(E*A(x)) with A linear; Gere and
+    # Goodno, Mechanics of Materials, nonuniform bars; from memory)
+    text = TAPER % ('A_1 = { unit = "mm^2" }\nA_2 = { unit = "mm^2" }',
+                    'shape = "area"\narea = "A_1"', 'shape = "area"\narea = "A_2"')
+    cf = solve_symbolic(parse_model(text, "taper.toml", symbolic=True))
+    P, L, E, A1, A2 = R("P"), S("L"), S("E"), S("A_1"), S("A_2")
+    k = E * (A2 - A1) / (L * sympy.log(A2 / A1))
+    assert sympy.simplify(sympy.expand_log(cf.displacement("narrow") - P / k)) == 0
+    # printed with one logarithm of the ratio, not log(A_1) - log(A_2)
+    assert str(cf.displacement("narrow")) == "L*P*log(A_1/A_2)/(E*(A_1 - A_2))"
+
+
+def test_tapered_bar_between_walls_keeps_one_logarithm():
+    # A tapered part (flexibility f1 = a*log(A_1/A_2)/(E*(A_1 - A_2)), as above) and a
+    # prismatic part (f2 = b/(E*A_2)) between walls, load P at the joint: the left wall
+    # takes -P*f2/(f1 + f2) (compatibility of springs in series between rigid walls;
+    # Gere and Goodno, statically indeterminate axial members; from memory)
+    text = series({"P": '{ unit = "kN" }', "a": '{ unit = "mm" }', "b": '{ unit = "mm" }',
+                   "E": '{ unit = "GPa" }', "A_1": '{ unit = "mm^2" }', "A_2": '{ unit = "mm^2" }'},
+                  {"left": "0 mm", "C": "a", "right": "a + b"},
+                  [("left", "C", "m", "s1", "taper"), ("C", "right", "m", "s2")], ["left", "right"],
+                  '[materials.m]\nelastic_modulus = "E"\n[sections.s1]\nshape = "area"\n'
+                  'area = "A_1"\n[sections.s2]\nshape = "area"\narea = "A_2"\n'
+                  '[[loads]]\nat = "C"\nforce = "P"\n')
+    text = text.replace('name = "taper"', 'name = "taper"\nend_section = "s2"')
+    cf = solve_symbolic(parse_model(text, symbolic=True))
+    P, a, b, E, A1, A2 = R("P"), S("a"), S("b"), S("E"), S("A_1"), S("A_2")
+    f1, f2 = a * sympy.log(A1 / A2) / (E * (A1 - A2)), b / (E * A2)
+    assert sympy.simplify(sympy.expand_log(cf.reaction("left") + P * f2 / (f1 + f2))) == 0
+    for expr in (*cf.reactions.values(), *cf.displacements.values()):
+        assert "log(A_1)" not in str(expr) and "log(A_2)" not in str(expr)
+
+
+@pytest.mark.parametrize("shape, start, end", [
+    ("area", {"area": 4e-4}, {"area": 1e-4}),
+    ("round", {"diameter": 0.05}, {"diameter": 0.02}),
+    ("tube", {"outer_diameter": 0.06, "inner_diameter": 0.052},
+     {"outer_diameter": 0.03, "inner_diameter": 0.018}),
+    ("rectangle", {"width": 0.04, "height": 0.01}, {"width": 0.015, "height": 0.02}),
+])
+def test_tapered_load_integrals_equal_the_numeric_solution(shape, start, end):
+    # self-weight and a distributed load on a taper between walls, heated: the closed
+    # form (partial fractions, exact logarithms) against the numeric solver's exact taper
+    s0 = Section("s0", shape, tuple(start.items()))
+    s1 = Section("s1", shape, tuple(end.items()))
+    mat = Material("steel", 200e9, 12e-6, density=7850.0)
+    model = Model([Station("top", 0.0), Station("mid", 0.7), Station("bottom", 1.2)],
+                  [Segment("taper", "top", "mid", mat, s0, end_section=s1, distributed_load=-3e3,
+                           temperature_change=25.0),
+                   Segment("prism", "mid", "bottom", mat, s1)],
+                  [Support("top"), Support("bottom")], [Load("mid", 4e3)], gravity=-9.80665)
+    case = solve(model)["base"]
+    cf = solve_symbolic(model)
+    scale = np.abs(case.axial_force).max()
+    for i, seg in enumerate(model.segments):
+        for end_ in (0, 1):
+            assert abs(cf.evaluate(cf.force(seg.name)[end_]) - case.axial_force[i][end_]) <= 1e-9 * scale
+    assert cf.evaluate(cf.displacement("mid")) == pytest.approx(case.displacement("mid"), rel=1e-9)
