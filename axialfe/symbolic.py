@@ -406,6 +406,53 @@ def _relation(g, prefer):
     return sympy.Ge(sign * num, 0)
 
 
+def used_symbols(model: Model) -> set:
+    """The names of the symbols that the values of ``model`` use."""
+    used, stack = set(), [model]
+    while stack:
+        obj = stack.pop()
+        if isinstance(obj, sympy.Basic):
+            used |= {s.name for s in obj.free_symbols}
+        elif dataclasses.is_dataclass(obj) and not isinstance(obj, type):
+            stack.extend(getattr(obj, f.name) for f in dataclasses.fields(obj)
+                         if f.name not in ("symbols", "locate"))
+        elif isinstance(obj, tuple):
+            stack.extend(obj)
+    return used
+
+
+def _contact_state(model, case, assume, state):
+    """Gap name -> closed: assumed, else given, else the numeric solver's when it can run."""
+    gap_names = [g.name for g in model.gaps]
+    for name in assume:
+        if name not in gap_names:
+            raise ModelError(f"--assume names an unknown gap '{name}'", hint=suggest(name, gap_names),
+                             options=gap_names or None)
+    closed = {}
+    for name in gap_names:
+        if name in assume:
+            closed[name] = bool(assume[name])
+        elif state is not None and name in state:
+            closed[name] = bool(state[name])
+    undecided = [n for n in gap_names if n not in closed]
+    if not undecided:
+        return closed
+    values = {d.name: d.value for d in model.symbols}
+    missing = [n for n in values if n in used_symbols(model) and values[n] is None]
+    if missing:
+        raise ModelError("the contact state is undecided while symbol(s) "
+                         + ", ".join(f"'{n}'" for n in missing) + " have no value: assume the "
+                         "state of gap(s) " + ", ".join(f"'{n}'" for n in undecided)
+                         + f" (e.g. --assume {undecided[0]}=closed)", file=model.source,
+                         line=model.line_of(f"gaps.{undecided[0]}"))
+    from .solve import solve
+
+    found = solve(numeric_model(model))[case]
+    for j, g in enumerate(model.gaps):
+        closed.setdefault(g.name, bool(found.gap_closed[j]))
+    return {n: closed[n] for n in gap_names}
+
+
 def _check_positions(model, xs, subs):
     """Symbolic positions: the stations must be listed in increasing x."""
     if not any(isinstance(x, sympy.Basic) and x.free_symbols for x in xs):
@@ -416,7 +463,8 @@ def _check_positions(model, xs, subs):
         if (not d.free_symbols and d <= 0) or d.is_nonpositive:
             raise ModelError(f"stations with symbolic positions must be listed in increasing x: "
                              f"'{names[i + 1]}' (x = {xs[i + 1]}) does not lie beyond "
-                             f"'{names[i]}' (x = {xs[i]})", place="stations", file=model.source)
+                             f"'{names[i]}' (x = {xs[i]})", file=model.source,
+                             line=model.line_of(f"stations.{names[i + 1]}"))
     return True
 
 
@@ -499,30 +547,14 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         v = _rat(v)
         return v.xreplace(repl) if isinstance(v, sympy.Basic) else v
 
-    assume = dict(assume or {})
-    gap_names = [g.name for g in model.gaps]
-    for name in assume:
-        if name not in gap_names:
-            raise ModelError(f"--assume names an unknown gap '{name}'", hint=suggest(name, gap_names),
-                             options=gap_names or None)
-    closed = {}
-    for name in gap_names:
-        if name in assume:
-            closed[name] = bool(assume[name])
-        elif state is not None and name in state:
-            closed[name] = bool(state[name])
-    undecided = [n for n in gap_names if n not in closed]
-    if undecided:
-        raise ModelError("the contact state is undecided: give every symbol a value, or assume "
-                         "the state of gap(s) " + ", ".join(f"'{n}'" for n in undecided)
-                         + " (e.g. --assume " + f"{undecided[0]}=closed)", file=model.source)
-
     xs = [exact(st.x) for st in model.stations]
     by_order = _check_positions(model, xs, subs)
+    name, forces, dT, settle = _state(model, case, exact)
+    assume = dict(assume or {})
+    closed = _contact_state(model, name, assume, state)
     index = {st.name: i for i, st in enumerate(model.stations)}
     n = len(xs)
     gravity = exact(model.gravity)
-    name, forces, dT, settle = _state(model, case, exact)
     causes = [*forces.values(), *dT, *settle, gravity]
     causes += [exact(v) for s in model.segments for v in (s.misfit, s.distributed_load)]
     causes += [exact(g.clearance) for g in model.gaps]
@@ -545,7 +577,7 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         if dx == 0:
             raise ModelError(f"stations '{seg.start}' and '{seg.end}' stand at the same position; "
                              "a segment needs a length", place=f"segments[{m + 1}] ('{seg.name}')",
-                             file=model.source)
+                             file=model.source, line=model.line_of(f"stations.{seg.start}"))
         if dx.is_number:
             e = 1 if dx > 0 else -1
         elif by_order:
@@ -608,17 +640,28 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     unknowns += list(lam.values())
     solution = sympy.linsolve(eqs, unknowns) if unknowns else sympy.FiniteSet(())
     stations = [st.name for st in model.stations]
-    if solution == sympy.S.EmptySet:
-        raise SolveError("no equilibrium in the assumed contact state " + _state_text(closed),
-                         file=model.source)
+    in_state = f" in the contact state {_state_text(closed)}" if closed else ""
+    consistent = solution != sympy.S.EmptySet
+    if not consistent:  # find what moves freely: the solution without loads
+        zero = {x: 0 for x in unknowns}
+        solution = sympy.linsolve([sympy.expand(eq - eq.xreplace(zero)) for eq in eqs], unknowns)
     (values_u,) = tuple(solution)
     sol = dict(zip(unknowns, values_u))
     free = set(unknowns)
     loose = [stations[i] for i in range(n) if i not in presc and sol[u[i]].free_symbols & free]
-    if loose or any(sol[v].free_symbols & free for v in lam.values()):
-        raise SolveError("stations " + ", ".join(f"'{s}'" for s in loose or stations)
-                         + " float in the contact state " + _state_text(closed)
-                         + ": no support, spring or closed gap holds them", file=model.source)
+    shared = [g for g, v in lam.items() if sol[v].free_symbols & free]
+    if loose:
+        raise SolveError("stations " + ", ".join(f"'{s}'" for s in loose) + f" float{in_state}: "
+                         "no support, spring or closed gap holds them", file=model.source,
+                         line=model.line_of(f"stations.{loose[0]}"))
+    if not consistent:
+        first = next((g for g, c in closed.items() if c), None)
+        raise SolveError(f"no equilibrium{in_state}: the closed gaps cannot all close at once",
+                         file=model.source, line=model.line_of(f"gaps.{first}") if first else None)
+    if shared:
+        raise SolveError("the closed gaps " + ", ".join(f"'{g}'" for g in shared) + " share their "
+                         f"force in no unique way{in_state}: assume one of them open",
+                         file=model.source, line=model.line_of(f"gaps.{shared[0]}"))
     disp = [known.get(u[i], sol.get(u[i])) for i in range(n)]
     disp = [sympy.Integer(0) if d == 0 else d for d in disp]
     lam_v = {g: sol[v] for g, v in lam.items()}
@@ -669,10 +712,10 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     for rel in conditions:
         if rel is sympy.true:
             continue
+        kept.append(rel)
         if rel is sympy.false:
             notes.append("the contact state " + _state_text(closed) + " never holds")
             continue
-        kept.append(rel)
         if all(v is not None for v in values.values()) or not (rel.free_symbols - set(subs)):
             lhs = (rel.lhs - rel.rhs).xreplace(subs)
             if not lhs.free_symbols:
@@ -767,7 +810,9 @@ def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compar
         for x in (v, num):
             if x is not None:
                 scale[ukey] = max(scale.get(ukey, 0.0), abs(x))
-    data = {"title": cf.model.title, "case": cf.case, "units": units.as_dict(),
+    data = {"title": cf.model.title, "case": cf.case,
+            "cases": [c.name for c in (*cf.model.all_cases, *cf.model.combinations)],
+            "units": units.as_dict(),
             "symbols": {d.name: d.text for d in cf.model.symbols},
             "assumptions": {n: ("positive" if s.is_positive else "real") for n, s in cf.symbols.items()},
             "state": {g: ("closed" if c else "open") for g, c in cf.gap_closed.items()},
@@ -794,7 +839,8 @@ def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compar
                             "value": v / f if v is not None else None,
                             "numeric": num / f if num is not None else None,
                             "relative_difference": diff}
-    data["conditions"] = [str(c) for c in cf.conditions]
+    if only is None or "conditions" in only:
+        data["conditions"] = [str(c) for c in cf.conditions]
     data["notes"] = list(cf.notes)
     return data
 
@@ -810,6 +856,9 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
     """The terminal report of :func:`closed_form_dict`'s data."""
     key = "latex" if latex else "expression"
     out = [f"axialfe closed form: {data['title']} (case '{data['case']}')"]
+    others = [c for c in data.get("cases", ()) if c != data["case"]]
+    if others:
+        out.append("other cases: " + ", ".join(others) + " (choose one with --case NAME)")
     if data["symbols"]:
         out.append("symbols: " + ", ".join(f"{n} = {v}" if v is not None else f"{n} (no value)"
                                            for n, v in data["symbols"].items()))
@@ -821,9 +870,12 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
         out.append("contact state: " + ", ".join(
             f"'{g}' {s}" + (" (assumed)" if g in data["assumed"] else "")
             for g, s in data["state"].items()))
-    if "conditions" in data and data["conditions"] and data.get("_show_conditions", True):
+    if data.get("conditions"):
         out.append("the formulas hold while all of these hold:")
         out += [f"  {c}" for c in data["conditions"]]
+    elif "conditions" in data and data["state"]:
+        out.append("the contact state holds " + ("for any values of the symbols" if data["symbols"]
+                                                 else "without a condition left"))
     for group, (title, ukey) in _TITLES.items():
         if group not in data or not data[group]:
             continue

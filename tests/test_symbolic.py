@@ -12,7 +12,7 @@ from typer.testing import CliRunner
 
 from axialfe import solve_symbolic
 from axialfe.cli import app
-from axialfe.errors import ModelError
+from axialfe.errors import ModelError, SolveError
 from axialfe.model import Gap, Load, Material, Model, Section, Segment, Station, Support
 from axialfe.modelfile import parse_model
 from axialfe.solve import solve
@@ -187,11 +187,50 @@ def test_the_numeric_state_is_used_and_matches():
 def test_an_undecided_state_needs_an_assumption():
     text = GAP_MODEL.replace('c = "0.1 mm"', 'c = { unit = "mm" }')
     model = parse_model(text, "gap.toml", symbolic=True)
+    assert text.splitlines()[33] == "[[gaps]]"  # line 34
     with pytest.raises(ModelError) as info:
         solve_symbolic(model)
-    assert str(info.value) == ("gap.toml: the contact state is undecided: give every symbol a "
-                               "value, or assume the state of gap(s) 'wall' (e.g. --assume "
+    assert str(info.value) == ("gap.toml:34: the contact state is undecided while symbol(s) 'c' "
+                               "have no value: assume the state of gap(s) 'wall' (e.g. --assume "
                                "wall=closed)")
+
+
+def test_without_a_state_the_numeric_solver_decides_it():
+    # every symbol has a value: the state is the numeric solver's (closed here, as the
+    # load moves C by P*a/(E*A) = 0.3 mm > c)
+    cf = solve_symbolic(parse_model(GAP_MODEL, "gap.toml", symbolic=True))
+    assert cf.gap_closed == {"wall": True}
+
+
+def located(text, **kw):
+    with pytest.raises((ModelError, SolveError)) as info:
+        solve_symbolic(parse_model(text, "m.toml", symbolic=True), **kw)
+    return str(info.value)
+
+
+def test_errors_without_one_place_give_the_line_of_what_they_name():
+    lines = GAP_MODEL.splitlines()
+    line_a = lines.index('A_end = "0 mm"') + 1
+    # stations out of order: the line of the station that does not lie beyond
+    swapped = GAP_MODEL.replace('C = "a"\nB = "a + b"', 'B = "a + b"\nC = "a"')
+    line_c = swapped.splitlines().index('C = "a"') + 1
+    assert located(swapped) == (
+        f"m.toml:{line_c}: stations with symbolic positions must be listed in "
+        "increasing x: 'C' (x = a) does not lie beyond 'B' (x = a + b)")
+    # a part that floats in the assumed state: the line of the first station named
+    free = GAP_MODEL.replace('[[supports]]\nat = "A_end"\n', "")
+    assert located(free, assume={"wall": False}) == (
+        f"m.toml:{line_a}: stations 'A_end', 'C', 'B' float in the contact state "
+        "('wall' open): no support, spring or closed gap holds them")
+    # two closed gaps on one station: the line of the first gap
+    second = '[[gaps]]\nname = "stop"\nat = "B"\nside = "+x"\nclearance = "%s"\n'
+    gap_line = lines.index("[[gaps]]") + 1
+    assert located(GAP_MODEL + second % "c", assume={"wall": True, "stop": True}) == (
+        f"m.toml:{gap_line}: the closed gaps 'wall', 'stop' share their force in no unique way in "
+        "the contact state ('wall' closed, 'stop' closed): assume one of them open")
+    assert located(GAP_MODEL + second % "2*c", assume={"wall": True, "stop": True}) == (
+        f"m.toml:{gap_line}: no equilibrium in the contact state ('wall' closed, 'stop' closed): "
+        "the closed gaps cannot all close at once")
 
 
 def test_readable_back_by_sympy():
@@ -422,3 +461,98 @@ def test_tapered_load_integrals_equal_the_numeric_solution(shape, start, end):
         for end_ in (0, 1):
             assert abs(cf.evaluate(cf.force(seg.name)[end_]) - case.axial_force[i][end_]) <= 1e-9 * scale
     assert cf.evaluate(cf.displacement("mid")) == pytest.approx(case.displacement("mid"), rel=1e-9)
+
+
+# --- cases and combinations ----------------------------------------------------------
+CASES = series({"P": '"20 kN"', "Q": '"-8 kN"', "dT": '"30 K"', "a": '"200 mm"', "L": '"500 mm"',
+                "E": '"200 GPa"', "A": '"300 mm^2"', "alpha": '"12e-6 /K"', "s": '"0.05 mm"'},
+               {"left": "0 mm", "C": "a", "right": "L"},
+               [("left", "C", "m", "s", "near"), ("C", "right", "m", "s", "far")],
+               ["left"], """
+[materials.m]
+elastic_modulus = "E"
+thermal_expansion = "alpha"
+[sections.s]
+shape = "area"
+area = "A"
+[[supports]]
+at = "right"
+kind = "settlement"
+displacement = "0 mm"
+[[cases]]
+name = "dead"
+loads = [{ at = "C", force = "P" }]
+[[cases]]
+name = "live"
+loads = [{ at = "C", force = "Q" }]
+settlements = [{ at = "right", displacement = "s" }]
+[[cases]]
+name = "heat"
+temperature_change = { all = "dT" }
+[[combinations]]
+name = "ultimate"
+factors = { dead = 1.35, live = 1.5, heat = 0.6 }
+""")
+
+
+def test_a_combination_equals_its_factored_model():
+    # superposition of linear-elastic load cases (Gere and Goodno, Mechanics of
+    # Materials, principle of superposition; from memory): the combination's closed
+    # form is that of one model carrying the factored loads, and the factored sum of
+    # the cases' closed forms
+    model = parse_model(CASES, "cases.toml", symbolic=True)
+    combo = solve_symbolic(model, case="ultimate")
+    assert combo.case == "ultimate"
+    factored = CASES[:CASES.index("[[cases]]")] + """
+[[loads]]
+at = "C"
+force = "27/20*P + 3/2*Q"
+[settings]
+temperature_change = "3/5*dT"
+"""
+    factored = factored.replace('displacement = "0 mm"', 'displacement = "3/2*s"')
+    one = solve_symbolic(parse_model(factored, "factored.toml", symbolic=True))
+    parts = {c: solve_symbolic(model, case=c) for c in ("dead", "live", "heat")}
+    weights = {"dead": sympy.Rational(27, 20), "live": sympy.Rational(3, 2), "heat": sympy.Rational(3, 5)}
+    for group in ("reactions", "displacements"):
+        for key, expr in getattr(combo, group).items():
+            assert same(expr, getattr(one, group)[key])
+            assert same(expr, sum(w * getattr(parts[c], group)[key] for c, w in weights.items()))
+    for seg, (n_from, n_to) in combo.axial_forces.items():
+        assert same(n_from, one.axial_forces[seg][0]) and same(n_to, one.axial_forces[seg][1])
+
+
+def test_every_case_evaluates_to_the_numeric_solution():
+    model = parse_model(CASES, "cases.toml", symbolic=True)
+    solution = solve(numeric_model(model))
+    assert solution.names == ("dead", "live", "heat", "ultimate")
+    for case in solution:
+        cf = solve_symbolic(model, case=case.name)
+        for stn in model.stations:
+            assert cf.evaluate(cf.displacement(stn.name)) == pytest.approx(
+                case.displacement(stn.name), rel=1e-12, abs=1e-18)
+        for sup in model.supports:
+            assert cf.evaluate(cf.reaction(sup.at)) == pytest.approx(case.reaction(sup.at), rel=1e-12)
+        for seg in model.segments:
+            assert cf.evaluate(cf.force(seg.name)[0]) == pytest.approx(case.force(seg.name)[0], rel=1e-12)
+
+
+def test_the_case_option_picks_one(tmp_path):
+    path = tmp_path / "cases.toml"
+    path.write_text(CASES)
+    numeric = solve(numeric_model(parse_model(CASES, symbolic=True)))
+    for name in ("live", "ultimate"):
+        result = runner.invoke(app, ["closed-form", str(path), "--case", name, "-f", "json"])
+        assert result.exit_code == 0, result.output
+        data = json.loads(result.output)
+        assert data["case"] == name
+        entry = data["reactions"]["left"]
+        assert entry["numeric"] == pytest.approx(numeric[name].reaction("left"), rel=1e-12)  # N
+        assert entry["value"] == pytest.approx(entry["numeric"], rel=1e-9)
+    live = json.loads(runner.invoke(app, ["closed-form", str(path), "--case", "live", "-f",
+                                          "json"]).output)
+    assert "Q" in live["reactions"]["left"]["expression"]
+    assert "P" not in live["reactions"]["left"]["expression"]
+    result = runner.invoke(app, ["closed-form", str(path), "--case", "lve"])
+    assert result.exit_code == 2
+    assert result.output.strip() == "error: --case: unknown case 'lve'; did you mean 'live'?"
