@@ -223,12 +223,14 @@ def closed_form(model: ModelPath,
                 latex: Annotated[bool, typer.Option("--latex", help="Print the formulas as LaTeX.")] = False,
                 only: Annotated[Optional[list[str]], typer.Option(
                     "--only", help="Show only these: reactions, displacements, axial_forces, "
-                                   "stresses, gaps, conditions (repeat or separate by commas).")] = None,
+                                   "stresses, gaps (repeat or separate by commas), or 'conditions' "
+                                   "for none of them; the conditions of the contact state are "
+                                   "always shown.")] = None,
                 format: Annotated[ClosedFormat, typer.Option("--format", "-f", help="Output format.")] = ClosedFormat.table,
                 assume: Annotated[Optional[list[str]], typer.Option(
                     "--assume", help="Give the formulas for this contact state: GAP=closed or "
                                      "GAP=open (repeatable).")] = None,
-                case: Annotated[Optional[str], typer.Option("--case", help="The case (default: the first).")] = None,
+                case: Annotated[Optional[str], typer.Option("--case", help="The case or combination (default: the first case).")] = None,
                 output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
                 displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a model in closed form with sympy: formulas in the declared symbols, checked

@@ -697,8 +697,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     displacements = {stations[i]: tidy(disp[i]) for i in range(n)}
 
     gap_forces, conditions = {}, []
-    prefer = sorted((s for s in syms.values() if not s.is_positive), key=lambda s: list(syms.values()).index(s))
-    prefer += [s for s in syms.values() if s.is_positive]
+    # a condition is solved for the first real symbol it is linear in (a load, dT), else a positive one
+    prefer = sorted(syms.values(), key=lambda s: bool(s.is_positive))
     for g, a, b, s1, s2, c in gaps:
         if g.name in lam:
             force = -lam_v[g.name] if g.kind == "contact" else lam_v[g.name]
@@ -716,15 +716,14 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         if rel is sympy.false:
             notes.append("the contact state " + _state_text(closed) + " never holds")
             continue
-        if all(v is not None for v in values.values()) or not (rel.free_symbols - set(subs)):
-            lhs = (rel.lhs - rel.rhs).xreplace(subs)
-            if not lhs.free_symbols:
-                value = float(lhs)
-                scale = max(abs(float(rel.lhs.xreplace(subs))), abs(float(rel.rhs.xreplace(subs))), 1e-300)
-                holds = value >= -1e-9 * scale if isinstance(rel, sympy.GreaterThan) else value <= 1e-9 * scale
-                if not holds:
-                    notes.append(f"condition {rel} fails for the given values: the assumed contact "
-                                 "state does not hold, so these formulas do not apply to them")
+        lhs = (rel.lhs - rel.rhs).xreplace(subs)
+        if not lhs.free_symbols:  # every symbol in it has a value: check it
+            value = float(lhs)
+            scale = max(abs(float(rel.lhs.xreplace(subs))), abs(float(rel.rhs.xreplace(subs))), 1e-300)
+            holds = value >= -1e-9 * scale if isinstance(rel, sympy.GreaterThan) else value <= 1e-9 * scale
+            if not holds:
+                notes.append(f"condition {rel} fails for the given values: the assumed contact "
+                             "state does not hold, so these formulas do not apply to them")
     return ClosedForm(model=model, case=name, symbols=syms, values=values,
                       displacements=displacements, reactions=reactions, axial_forces=axial,
                       stresses=stress, gap_forces=gap_forces, gap_closed=closed,
@@ -776,7 +775,7 @@ def numeric_model(model: Model) -> Model:
 
 
 # --- reports -------------------------------------------------------------------------
-def _entries(cf: ClosedForm, numeric, units):
+def _entries(cf: ClosedForm, numeric):
     """Yield (group, key, expr, numeric SI value or None, unit key)."""
     model = cf.model
     for st, e in cf.reactions.items():
@@ -803,7 +802,7 @@ def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compar
     state) they are not computed.
     """
     units = units or cf.model.units
-    rows = list(_entries(cf, numeric, units))
+    rows = list(_entries(cf, numeric))
     scale = {}
     for group, _, e, num, ukey in rows:
         v = cf.evaluate(e)
@@ -839,8 +838,7 @@ def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compar
                             "value": v / f if v is not None else None,
                             "numeric": num / f if num is not None else None,
                             "relative_difference": diff}
-    if only is None or "conditions" in only:
-        data["conditions"] = [str(c) for c in cf.conditions]
+    data["conditions"] = [str(c) for c in cf.conditions]  # always: where the formulas apply
     data["notes"] = list(cf.notes)
     return data
 
@@ -859,7 +857,11 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
     others = [c for c in data.get("cases", ()) if c != data["case"]]
     if others:
         out.append("other cases: " + ", ".join(others) + " (choose one with --case NAME)")
-    if data["symbols"]:
+    if not data["symbols"]:
+        out.append("no [symbols] declared, so each closed form is an exact number; for formulas, "
+                   "declare symbols (e.g. [symbols] P = \"18 kN\") and use them as values "
+                   "(force = \"P\")")
+    else:
         out.append("symbols: " + ", ".join(f"{n} = {v}" if v is not None else f"{n} (no value)"
                                            for n, v in data["symbols"].items()))
         pos = [n for n, a in data["assumptions"].items() if a == "positive"]
@@ -870,10 +872,10 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
         out.append("contact state: " + ", ".join(
             f"'{g}' {s}" + (" (assumed)" if g in data["assumed"] else "")
             for g, s in data["state"].items()))
-    if data.get("conditions"):
+    if data["conditions"]:
         out.append("the formulas hold while all of these hold:")
         out += [f"  {c}" for c in data["conditions"]]
-    elif "conditions" in data and data["state"]:
+    elif data["state"]:
         out.append("the contact state holds " + ("for any values of the symbols" if data["symbols"]
                                                  else "without a condition left"))
     for group, (title, ukey) in _TITLES.items():
@@ -883,7 +885,7 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
         width = max((len(k) for k in data[group]), default=0)
         for name, entry in data[group].items():
             out.append(f"  {name.ljust(width)} = {entry[key]}")
-            if entry["value"] is not None:
+            if entry["value"] is not None and (entry["expression"] != "0" or entry["numeric"] is not None):
                 line = f"  {' ' * width}   = {entry['value']:.6g}"
                 if entry["numeric"] is not None and entry["relative_difference"] is not None:
                     line += (f"   numeric {entry['numeric']:.6g}, relative difference "

@@ -556,3 +556,20 @@ def test_the_case_option_picks_one(tmp_path):
     result = runner.invoke(app, ["closed-form", str(path), "--case", "lve"])
     assert result.exit_code == 2
     assert result.output.strip() == "error: --case: unknown case 'lve'; did you mean 'live'?"
+
+
+def test_the_conditions_are_shown_with_any_selection():
+    # a formula of a contact state is read with the conditions under which that state holds
+    path = str(EXAMPLES / "closed-form-heated-bar-gap.toml")
+    text = runner.invoke(app, ["closed-form", path, "--only", "reactions"]).output
+    assert "the formulas hold while all of these hold:\n  dT >= c/(L_1*alpha_1 + L_2*alpha_2)\n" in text
+    assert "gap forces" not in text
+    data = json.loads(runner.invoke(app, ["closed-form", path, "--only", "gaps", "-f", "json"]).output)
+    assert data["conditions"] == ["dT >= c/(L_1*alpha_1 + L_2*alpha_2)"]
+    assert set(data) & {"reactions", "displacements", "gaps"} == {"gaps"}
+
+
+def test_a_model_without_symbols_says_how_to_get_formulas():
+    text = runner.invoke(app, ["closed-form", str(EXAMPLES / "rail-expansion-joint.toml")]).output
+    assert "no [symbols] declared, so each closed form is an exact number" in text
+    assert "the contact state holds without a condition left" in text
