@@ -193,6 +193,8 @@ def _parse_assume(items, gap_names):
             if not sep or state.strip() not in ("closed", "open"):
                 raise ModelError(f"--assume takes GAP=closed or GAP=open: got '{part.strip()}'")
             name = name.strip()
+            if not gap_names:
+                raise ModelError(f"--assume: the model has no gaps (got '{name}')")
             if name not in gap_names:
                 raise ModelError(f"--assume: unknown gap '{name}'", hint=suggest(name, gap_names),
                                  options=gap_names or None)

@@ -558,8 +558,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     causes = [*forces.values(), *dT, *settle, gravity]
     causes += [exact(v) for s in model.segments for v in (s.misfit, s.distributed_load)]
     causes += [exact(g.clearance) for g in model.gaps]
-    used = set().union(*(v.free_symbols for v in causes if isinstance(v, sympy.Basic)))
-    drivers = [s for s in syms.values() if s in used]
+    driving = set().union(*(v.free_symbols for v in causes if isinstance(v, sympy.Basic)))
+    drivers = [s for s in syms.values() if s in driving]
 
     K = {}
     hidden = {}
@@ -714,7 +714,9 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
             continue
         kept.append(rel)
         if rel is sympy.false:
-            notes.append("the contact state " + _state_text(closed) + " never holds")
+            notes.append("the contact state " + _state_text(closed) + (
+                " never holds, whatever the symbols' values" if used_symbols(model) else
+                " does not hold for the model's values") + ": these formulas do not apply")
             continue
         lhs = (rel.lhs - rel.rhs).xreplace(subs)
         if not lhs.free_symbols:  # every symbol in it has a value: check it
@@ -839,6 +841,7 @@ def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compar
                             "numeric": num / f if num is not None else None,
                             "relative_difference": diff}
     data["conditions"] = [str(c) for c in cf.conditions]  # always: where the formulas apply
+    data["conditions_latex"] = [sympy.latex(c) for c in cf.conditions]
     data["notes"] = list(cf.notes)
     return data
 
@@ -874,7 +877,7 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
             for g, s in data["state"].items()))
     if data["conditions"]:
         out.append("the formulas hold while all of these hold:")
-        out += [f"  {c}" for c in data["conditions"]]
+        out += [f"  {c}" for c in data["conditions_latex" if latex else "conditions"]]
     elif data["state"]:
         out.append("the contact state holds " + ("for any values of the symbols" if data["symbols"]
                                                  else "without a condition left"))

@@ -573,3 +573,51 @@ def test_a_model_without_symbols_says_how_to_get_formulas():
     text = runner.invoke(app, ["closed-form", str(EXAMPLES / "rail-expansion-joint.toml")]).output
     assert "no [symbols] declared, so each closed form is an exact number" in text
     assert "the contact state holds without a condition left" in text
+
+
+SLACK = series({"P": '"30 kN"', "L": '"500 mm"', "E": '"200 GPa"', "A": '"100 mm^2"', "c": '"0.2 mm"'},
+               {"anchor": "0 mm", "tip": "L", "post": "L + 100 mm"},
+               [("anchor", "tip", "m", "s")], ["anchor", "post"], ONE_MATERIAL + """
+[[loads]]
+at = "tip"
+force = "-P"
+[[gaps]]
+name = "tether"
+between = ["tip", "post"]
+clearance = "c"
+kind = "slack"
+""")
+
+
+def test_a_slack_link_that_goes_taut():
+    # A bar fixed at one end, pushed by P at its tip, tied back to a fixed post by a
+    # link of slack c: taut when P*L/(E*A) >= c, then the link pulls with P - E*A*c/L and
+    # the tip stops at -c (compatibility and equilibrium of the tip, as for a gap that
+    # closes; Gere and Goodno, Mechanics of Materials, statically indeterminate bars; from
+    # memory)
+    model = parse_model(SLACK, "slack.toml", symbolic=True)
+    P, L, E, A, c = R("P"), S("L"), S("E"), S("A"), S("c")
+    taut = solve_symbolic(model)
+    assert taut.gap_closed == {"tether": True}
+    assert same(taut.gap("tether"), P - E * A * c / L)  # tension
+    assert taut.conditions == (sympy.Ge(P, A * E * c / L),)
+    assert same(taut.displacement("tip"), -c)
+    slack = solve_symbolic(model, assume={"tether": False})
+    assert slack.gap("tether") == 0
+    assert slack.conditions == (sympy.Le(P, A * E * c / L),)
+    assert any("fails for the given values" in note for note in slack.notes)
+    case = solve(numeric_model(model))["base"]
+    assert taut.evaluate(taut.gap("tether")) == pytest.approx(case.gap("tether")["force"], rel=1e-12)
+
+
+def test_assume_on_a_model_without_gaps():
+    path = str(EXAMPLES / "stepped-rod-between-walls.toml")
+    result = runner.invoke(app, ["closed-form", path, "--assume", "x=open"])
+    assert result.exit_code == 2
+    assert result.output.strip() == "error: --assume: the model has no gaps (got 'x')"
+
+
+def test_latex_conditions():
+    path = str(EXAMPLES / "closed-form-heated-bar-gap.toml")
+    text = runner.invoke(app, ["closed-form", path, "--latex", "--only", "gaps"]).output
+    assert "  dT \\geq \\frac{c}{L_{1} \\alpha_{1} + L_{2} \\alpha_{2}}\n" in text
