@@ -483,7 +483,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         Gap name -> closed (True) or open (False): the contact state to give
         the closed forms for.
     state : mapping of str to bool, optional
-        The contact state found by the numeric solver, for gaps not assumed.
+        The contact state of the gaps not assumed; by default the numeric
+        solver's, when every symbol that the model uses has a value.
 
     Returns
     -------
@@ -492,7 +493,9 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     Raises
     ------
     ModelError
-        When the state of a gap is neither assumed nor known.
+        When the state of a gap is neither assumed nor given and symbols
+        without a value keep the numeric solver from deciding it; when
+        symbolic station positions are not in increasing x.
     SolveError
         When the assumed state leaves a part free to move, or has no solution.
 
