@@ -202,6 +202,8 @@ def _parse_assume(items, gap_names):
             if not sep or state.strip() not in ("closed", "open"):
                 raise ModelError(f"--assume takes GAP=closed or GAP=open: got '{part.strip()}'")
             name = name.strip()
+            if not gap_names:
+                raise ModelError(f"--assume: the model has no gaps (got '{name}')")
             if name not in gap_names:
                 raise ModelError(f"--assume: unknown gap '{name}'", hint=suggest(name, gap_names),
                                  options=gap_names or None)
@@ -232,37 +234,46 @@ def closed_form(model: ModelPath,
                 latex: Annotated[bool, typer.Option("--latex", help="Print the formulas as LaTeX.")] = False,
                 only: Annotated[Optional[list[str]], typer.Option(
                     "--only", help="Show only these: reactions, displacements, axial_forces, "
-                                   "stresses, gaps, conditions (repeat or separate by commas).")] = None,
+                                   "stresses, gaps (repeat or separate by commas), or 'conditions' "
+                                   "for none of them; the conditions of the contact state are "
+                                   "always shown.")] = None,
                 format: Annotated[ClosedFormat, typer.Option("--format", "-f", help="Output format.")] = ClosedFormat.table,
                 assume: Annotated[Optional[list[str]], typer.Option(
                     "--assume", help="Give the formulas for this contact state: GAP=closed or "
                                      "GAP=open (repeatable).")] = None,
-                case: Annotated[Optional[str], typer.Option("--case", help="The case (default: the first).")] = None,
+                case: Annotated[Optional[str], typer.Option("--case", help="The case or combination (default: the first case).")] = None,
                 output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
                 displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a model in closed form with sympy: formulas in the declared symbols, checked
     against the numeric solver where every symbol has a value."""
     import json
 
+    from .errors import SolveError
     from .modelfile import read_model
     from .output import CAUTIONS
     from .solve import solve as run
-    from .symbolic import closed_form_dict, closed_form_text, numeric_model, solve_symbolic
+    from .symbolic import (closed_form_dict, closed_form_text, numeric_model, solve_symbolic,
+                           used_symbols)
 
     with user_errors():
         m = read_model(model, symbolic=True)
         units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
         assumed = _parse_assume(assume, [g.name for g in m.gaps])
         wanted = _parse_only(only)
+        case_names = [c.name for c in (*m.all_cases, *m.combinations)]
+        if case is not None and case not in case_names:
+            from .errors import ModelError, suggest
+
+            raise ModelError(f"--case: unknown case '{case}'", hint=suggest(case, case_names),
+                             options=case_names)
         numeric, notes = None, []
-        used = set()
-        for value in _model_values(m):
-            used |= {s.name for s in getattr(value, "free_symbols", ())}
-        if all(d.value is not None for d in m.symbols if d.name in used):
-            solution = run(numeric_model(m))
-            names = solution.names
-            numeric = solution[case] if case is not None and case in names else (
-                solution.cases[0] if case is None else None)
+        values = {d.name: d.value for d in m.symbols}
+        if all(values[n] is not None for n in used_symbols(m)):
+            try:
+                numeric = run(numeric_model(m))[case or case_names[0]]
+            except SolveError as exc:
+                notes.append(f"the numeric solver cannot solve this model ({exc.message}); "
+                             "nothing is compared")
         state = ({g.name: bool(numeric.gap_closed[j]) for j, g in enumerate(m.gaps)}
                  if numeric is not None else None)
         cf = solve_symbolic(m, case=case, assume=assumed, state=state)
@@ -274,32 +285,12 @@ def closed_form(model: ModelPath,
         data = closed_form_dict(cf, numeric, units, wanted,
                                 compare=True if compare else (None if numeric is not None else False))
         data["notes"] += notes
-        if wanted is not None and "conditions" not in wanted:
-            data["_show_conditions"] = False
         if format is ClosedFormat.json:
-            data.pop("_show_conditions", None)
-            if wanted is not None and "conditions" not in wanted:
-                data.pop("conditions")
             data["cautions"] = list(CAUTIONS)
             text = json.dumps(data, indent=2) + "\n"
         else:
             text = closed_form_text(data, latex=latex, cautions=CAUTIONS)
         emit(text, output)
-
-
-def _model_values(model):
-    """Every value of a symbolic model (for the symbols it uses)."""
-    import dataclasses
-
-    stack = [model]
-    while stack:
-        obj = stack.pop()
-        if dataclasses.is_dataclass(obj) and not isinstance(obj, type):
-            stack.extend(getattr(obj, f.name) for f in dataclasses.fields(obj) if f.name != "symbols")
-        elif isinstance(obj, tuple):
-            stack.extend(obj)
-        else:
-            yield obj
 
 
 # --- design checks, diagrams and the report document ---------------------------

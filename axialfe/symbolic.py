@@ -185,7 +185,17 @@ def _section_factors(sec, exact):
 
 
 def _element(seg, length, g_local, exact):
-    """Return (k, A_from, A_to, g_unit_q, w_self, g_self) of one segment, exactly."""
+    """Return (k, A_from, A_to, g_unit_q, w_self, g_self) of one segment, exactly.
+
+    A tapered segment's area is ``c*P(s)*Q(s)`` with ``P`` and ``Q`` linear in
+    the distance ``s`` from its ``from`` end (see :func:`_section_factors`).
+    Its flexibility, ``integral ds/(E*A)``, is ``L/(E*c*p1*p2)`` for a cone
+    (``P`` proportional to ``Q``) and otherwise
+    ``L*(log(p1/p2) - log(q1/q2))/(E*c*(p1*q2 - q1*p2))``: for a linear area
+    ``L*log(A1/A2)/(E*(A1 - A2))`` (Gere and Goodno, Mechanics of Materials,
+    nonuniform bars; from memory).  The load integrals are taken by partial
+    fractions in ``s`` and written with the same two logarithms.
+    """
     E = exact(seg.material.elastic_modulus)
     rho = exact(seg.material.density) if seg.material.density is not None else sympy.Integer(0)
     s0, s1 = seg.sections
@@ -196,27 +206,53 @@ def _element(seg, length, g_local, exact):
     if sympy.cancel(p1 - p2) == 0 and sympy.cancel(q1 - q2) == 0:
         k = E * a1 / L
         return k, a1, a1, L**2 / (2 * E * a1), rho * g_local * a1 * L, rho * g_local * L**2 / (2 * E)
-    dp, dq = (p2 - p1) / L, (q2 - q1) / L
-    det = sympy.cancel(p1 * dq - q1 * dp)
-    if det == 0:
-        flex = L / (E * c * q1 * p2)
-    else:
-        t = L * det / (q1 * p2)
-        flex = L / (E * c * q1 * p2) * sympy.log(1 + t) / t
+    # log(p1/p2) and log(q1/q2), by the ratio their negatives are the logarithm of
+    lp, lq = (sympy.log(sympy.cancel(x1 / x2)) if sympy.cancel(x1 - x2) != 0 else sympy.Integer(0)
+              for x1, x2 in ((p1, p2), (q1, q2)))
+    logs = {sympy.cancel(p2 / p1): -lp, sympy.cancel(q2 / q1): -lq}
+    det = sympy.cancel(p1 * q2 - q1 * p2)
+    flex = L / (E * c * q1 * p2) if det == 0 else L * (lp - lq) / (E * c * det)
     k = 1 / flex
     s = sympy.Dummy("s", positive=True)
-    area = c * (p1 + dp * s) * (q1 + dq * s)
+    P, Q = p1 + (p2 - p1) / L * s, q1 + (q2 - q1) / L * s
     g_unit_q = w_self = g_self = sympy.Integer(0)
     if seg.distributed_load:
-        g_unit_q = sympy.integrate(s / (E * area), (s, 0, L), conds="none")
+        g_unit_q = _integral(s, s, P, Q, L, logs) / (E * c)
     if rho != 0 and g_local != 0:
-        vol = sympy.integrate(area, (s, 0, s))
+        vol = c * sympy.integrate(sympy.expand(P * Q), (s, 0, s))
         w_self = rho * g_local * vol.subs(s, L)
-        g_self = rho * g_local * sympy.integrate(vol / (E * area), (s, 0, L), conds="none")
-    for term in (g_unit_q, g_self):
-        if term.has(sympy.Integral):
-            raise ModelError(f"no closed form for the load integral of tapered segment '{seg.name}'")
+        g_self = rho * g_local * _integral(vol, s, P, Q, L, logs) / (E * c)
     return k, a1, a2, g_unit_q, w_self, g_self
+
+
+def _integral(num, s, P, Q, L, logs):
+    """Integral of ``num/(P*Q)`` over s from 0 to L (``num`` a polynomial in s).
+
+    By partial fractions in s: polynomial terms integrate to polynomials, a
+    term ``a/(b*s + d)**n`` to ``a/b*log((b*L + d)/d)`` (n = 1) or a power; a
+    logarithm of a ratio in ``logs`` (ratio -> its logarithm) is written as given.
+    """
+    total = sympy.Integer(0)
+    for term in sympy.Add.make_args(sympy.apart(sympy.cancel(num / (P * Q)), s)):
+        coeff, part = term.as_independent(s, as_Add=False)
+        num_s, den_s = sympy.fraction(sympy.factor(part))
+        if not den_s.has(s):
+            total += coeff * sympy.integrate(num_s / den_s, (s, 0, L))
+            continue
+        const, lin = den_s.as_independent(s, as_Add=False)
+        base, n = lin.as_base_exp()
+        poly = sympy.Poly(base, s)
+        if num_s.has(s) or poly.degree() != 1 or not n.is_Integer:  # pragma: no cover
+            raise AssertionError(f"unexpected partial fraction {term}")
+        b, d = poly.all_coeffs()
+        a = coeff * num_s / const
+        end = b * L + d
+        if n == 1:
+            ratio = sympy.cancel(end / d)
+            total += a / b * logs.get(ratio, sympy.log(ratio))
+        else:
+            total += a / b * (end ** (1 - n) - d ** (1 - n)) / (1 - n)
+    return total
 
 
 def _state(model: Model, case: str | None, exact):
@@ -267,15 +303,53 @@ def _state(model: Model, case: str | None, exact):
     return name, forces, dT, settle
 
 
-def _tidy(expr):
-    """Simplify one result: cancel to one fraction, then factor when that is shorter."""
+def _hide_logs(expr, hidden):
+    """Replace each logarithm in ``expr`` by a real dummy (kept in ``hidden``, log -> dummy)."""
+    expr = _rat(expr)
+    if not isinstance(expr, sympy.Basic):
+        return expr
+    for atom in expr.atoms(sympy.log):
+        if atom not in hidden:
+            hidden[atom] = sympy.Dummy(f"log{len(hidden)}", real=True)
+    return expr.xreplace(hidden)
+
+
+def _tidy(expr, drivers=()):
+    """Simplify one result: cancel to one fraction, then factor when that is shorter.
+
+    A sum left in the result is grouped by the ``drivers`` (the symbols of the
+    loads, temperature changes, misfits, settlements and clearances), each
+    coefficient factored, when that reads shorter: ``dT*(L_1*alpha_1 +
+    L_2*alpha_2) - c`` rather than ``L_1*alpha_1*dT + L_2*alpha_2*dT - c``.
+    """
     expr = _rat(expr)
     if expr.is_number:
         return sympy.cancel(expr)
     e = sympy.cancel(expr)
     f = sympy.factor(e)
     best = f if sympy.count_ops(f) <= sympy.count_ops(e) else e
+    if drivers:
+        best = best.replace(lambda x: x.is_Add, lambda x: _grouped(x, drivers))
     return _fewer_minus(best)
+
+
+def _grouped(add, drivers):
+    """``add`` grouped by the drivers it holds, when that is shorter."""
+    held = [d for d in drivers if add.has(d)]
+    if not held:
+        return add
+    parts = sympy.collect(add, held, evaluate=False)
+    if len(parts) < 2:
+        return add
+    terms = []
+    for k, v in parts.items():
+        v = sympy.factor(v)
+        if v.is_Add and str(-v).count("-") < str(v).count("-"):
+            terms.append(-sympy.Mul(k, -v, evaluate=False))
+        else:
+            terms.append(_fewer_minus(v) * k)
+    grouped = sympy.Add(*terms)
+    return grouped if len(str(grouped)) < len(str(add)) else add
 
 
 def _fewer_minus(expr):
@@ -287,7 +361,7 @@ def _fewer_minus(expr):
         base, exp = f.as_base_exp()
         if base.is_Add and exp.is_Integer:
             neg = sympy.Add(*[-t for t in base.args])
-            if str(neg).count("-") < str(base).count("-"):
+            if str(neg).count("-") <= str(base).count("-"):
                 parts.append(sympy.Pow(neg, exp))
                 sign *= (-1) ** int(exp)
                 continue
@@ -332,6 +406,53 @@ def _relation(g, prefer):
     return sympy.Ge(sign * num, 0)
 
 
+def used_symbols(model: Model) -> set:
+    """The names of the symbols that the values of ``model`` use."""
+    used, stack = set(), [model]
+    while stack:
+        obj = stack.pop()
+        if isinstance(obj, sympy.Basic):
+            used |= {s.name for s in obj.free_symbols}
+        elif dataclasses.is_dataclass(obj) and not isinstance(obj, type):
+            stack.extend(getattr(obj, f.name) for f in dataclasses.fields(obj)
+                         if f.name not in ("symbols", "locate"))
+        elif isinstance(obj, tuple):
+            stack.extend(obj)
+    return used
+
+
+def _contact_state(model, case, assume, state):
+    """Gap name -> closed: assumed, else given, else the numeric solver's when it can run."""
+    gap_names = [g.name for g in model.gaps]
+    for name in assume:
+        if name not in gap_names:
+            raise ModelError(f"--assume names an unknown gap '{name}'", hint=suggest(name, gap_names),
+                             options=gap_names or None)
+    closed = {}
+    for name in gap_names:
+        if name in assume:
+            closed[name] = bool(assume[name])
+        elif state is not None and name in state:
+            closed[name] = bool(state[name])
+    undecided = [n for n in gap_names if n not in closed]
+    if not undecided:
+        return closed
+    values = {d.name: d.value for d in model.symbols}
+    missing = [n for n in values if n in used_symbols(model) and values[n] is None]
+    if missing:
+        raise ModelError("the contact state is undecided while symbol(s) "
+                         + ", ".join(f"'{n}'" for n in missing) + " have no value: assume the "
+                         "state of gap(s) " + ", ".join(f"'{n}'" for n in undecided)
+                         + f" (e.g. --assume {undecided[0]}=closed)", file=model.source,
+                         line=model.line_of(f"gaps.{undecided[0]}"))
+    from .solve import solve
+
+    found = solve(numeric_model(model))[case]
+    for j, g in enumerate(model.gaps):
+        closed.setdefault(g.name, bool(found.gap_closed[j]))
+    return {n: closed[n] for n in gap_names}
+
+
 def _check_positions(model, xs, subs):
     """Symbolic positions: the stations must be listed in increasing x."""
     if not any(isinstance(x, sympy.Basic) and x.free_symbols for x in xs):
@@ -342,7 +463,8 @@ def _check_positions(model, xs, subs):
         if (not d.free_symbols and d <= 0) or d.is_nonpositive:
             raise ModelError(f"stations with symbolic positions must be listed in increasing x: "
                              f"'{names[i + 1]}' (x = {xs[i + 1]}) does not lie beyond "
-                             f"'{names[i]}' (x = {xs[i]})", place="stations", file=model.source)
+                             f"'{names[i]}' (x = {xs[i]})", file=model.source,
+                             line=model.line_of(f"stations.{names[i + 1]}"))
     return True
 
 
@@ -361,7 +483,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         Gap name -> closed (True) or open (False): the contact state to give
         the closed forms for.
     state : mapping of str to bool, optional
-        The contact state found by the numeric solver, for gaps not assumed.
+        The contact state of the gaps not assumed; by default the numeric
+        solver's, when every symbol that the model uses has a value.
 
     Returns
     -------
@@ -370,7 +493,9 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     Raises
     ------
     ModelError
-        When the state of a gap is neither assumed nor known.
+        When the state of a gap is neither assumed nor given and symbols
+        without a value keep the numeric solver from deciding it; when
+        symbolic station positions are not in increasing x.
     SolveError
         When the assumed state leaves a part free to move, or has no solution.
 
@@ -425,32 +550,22 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         v = _rat(v)
         return v.xreplace(repl) if isinstance(v, sympy.Basic) else v
 
-    assume = dict(assume or {})
-    gap_names = [g.name for g in model.gaps]
-    for name in assume:
-        if name not in gap_names:
-            raise ModelError(f"--assume names an unknown gap '{name}'", hint=suggest(name, gap_names),
-                             options=gap_names or None)
-    closed = {}
-    for name in gap_names:
-        if name in assume:
-            closed[name] = bool(assume[name])
-        elif state is not None and name in state:
-            closed[name] = bool(state[name])
-    undecided = [n for n in gap_names if n not in closed]
-    if undecided:
-        raise ModelError("the contact state is undecided: give every symbol a value, or assume "
-                         "the state of gap(s) " + ", ".join(f"'{n}'" for n in undecided)
-                         + " (e.g. --assume " + f"{undecided[0]}=closed)", file=model.source)
-
     xs = [exact(st.x) for st in model.stations]
     by_order = _check_positions(model, xs, subs)
+    name, forces, dT, settle = _state(model, case, exact)
+    assume = dict(assume or {})
+    closed = _contact_state(model, name, assume, state)
     index = {st.name: i for i, st in enumerate(model.stations)}
     n = len(xs)
     gravity = exact(model.gravity)
-    name, forces, dT, settle = _state(model, case, exact)
+    causes = [*forces.values(), *dT, *settle, gravity]
+    causes += [exact(v) for s in model.segments for v in (s.misfit, s.distributed_load)]
+    causes += [exact(g.clearance) for g in model.gaps]
+    driving = set().union(*(v.free_symbols for v in causes if isinstance(v, sympy.Basic)))
+    drivers = [s for s in syms.values() if s in driving]
 
     K = {}
+    hidden = {}
 
     def add(i, j, v):
         K[(i, j)] = K.get((i, j), 0) + v
@@ -465,7 +580,7 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         if dx == 0:
             raise ModelError(f"stations '{seg.start}' and '{seg.end}' stand at the same position; "
                              "a segment needs a length", place=f"segments[{m + 1}] ('{seg.name}')",
-                             file=model.source)
+                             file=model.source, line=model.line_of(f"stations.{seg.start}"))
         if dx.is_number:
             e = 1 if dx > 0 else -1
         elif by_order:
@@ -476,8 +591,10 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         k, a1, a2, g_unit_q, w_self, g_self = _element(seg, L, gravity * e, exact)
         delta0 = exact(seg.material.thermal_expansion) * dT[m] * L + exact(seg.misfit)
         q_local = exact(seg.distributed_load) * e
-        G = q_local * g_unit_q + g_self
-        W = q_local * L + w_self
+        # a tapered segment's logarithms stand as single unknowns through the solution,
+        # so that no expansion splits log(A_1/A_2) into log(A_1) - log(A_2)
+        k, G, W = (_hide_logs(v, hidden) for v in (k, q_local * g_unit_q + g_self,
+                                                   q_local * L + w_self))
         add(i, i, k), add(j, j, k), add(i, j, -k), add(j, i, -k)
         F[i] += e * (-k * delta0 + k * G)
         F[j] += e * (k * delta0 + W - k * G)
@@ -526,20 +643,36 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     unknowns += list(lam.values())
     solution = sympy.linsolve(eqs, unknowns) if unknowns else sympy.FiniteSet(())
     stations = [st.name for st in model.stations]
-    if solution == sympy.S.EmptySet:
-        raise SolveError("no equilibrium in the assumed contact state " + _state_text(closed),
-                         file=model.source)
+    in_state = f" in the contact state {_state_text(closed)}" if closed else ""
+    consistent = solution != sympy.S.EmptySet
+    if not consistent:  # find what moves freely: the solution without loads
+        zero = {x: 0 for x in unknowns}
+        solution = sympy.linsolve([sympy.expand(eq - eq.xreplace(zero)) for eq in eqs], unknowns)
     (values_u,) = tuple(solution)
     sol = dict(zip(unknowns, values_u))
     free = set(unknowns)
     loose = [stations[i] for i in range(n) if i not in presc and sol[u[i]].free_symbols & free]
-    if loose or any(sol[v].free_symbols & free for v in lam.values()):
-        raise SolveError("stations " + ", ".join(f"'{s}'" for s in loose or stations)
-                         + " float in the contact state " + _state_text(closed)
-                         + ": no support, spring or closed gap holds them", file=model.source)
+    shared = [g for g, v in lam.items() if sol[v].free_symbols & free]
+    if loose:
+        raise SolveError("stations " + ", ".join(f"'{s}'" for s in loose) + f" float{in_state}: "
+                         "no support, spring or closed gap holds them", file=model.source,
+                         line=model.line_of(f"stations.{loose[0]}"))
+    if not consistent:
+        first = next((g for g, c in closed.items() if c), None)
+        raise SolveError(f"no equilibrium{in_state}: the closed gaps cannot all close at once",
+                         file=model.source, line=model.line_of(f"gaps.{first}") if first else None)
+    if shared:
+        raise SolveError("the closed gaps " + ", ".join(f"'{g}'" for g in shared) + " share their "
+                         f"force in no unique way{in_state}: assume one of them open",
+                         file=model.source, line=model.line_of(f"gaps.{shared[0]}"))
     disp = [known.get(u[i], sol.get(u[i])) for i in range(n)]
     disp = [sympy.Integer(0) if d == 0 else d for d in disp]
     lam_v = {g: sol[v] for g, v in lam.items()}
+
+    back = {d: v for v, d in hidden.items()}
+
+    def tidy(expr):
+        return _tidy(expr, drivers).xreplace(back)
 
     # recovery, as axialfe.solve.System.recover
     axial, stress = {}, {}
@@ -547,8 +680,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         du = e * (disp[j] - disp[i])
         n_from = k * (du - delta0) + k * G
         n_to = n_from - W
-        axial[seg.name] = (_tidy(n_from), _tidy(n_to))
-        stress[seg.name] = (_tidy(n_from / a1), _tidy(n_to / a2))
+        axial[seg.name] = (tidy(n_from), tidy(n_to))
+        stress[seg.name] = (tidy(n_from / a1), tidy(n_to / a2))
     R = [sympy.Add(*[v * disp[j] for j, v in rows[i]]) - F[i] for i in range(n)]
     for g, a, b, s1, s2, c in gaps:
         if g.name in lam:
@@ -563,38 +696,39 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         else:
             r = R[at] - sum((-kk * disp[at] for _, a_, kk in springs if a_ == at), sympy.Integer(0))
         reactions[sup.at] = reactions.get(sup.at, 0) + r
-    reactions = {k: _tidy(v) for k, v in reactions.items()}
-    displacements = {stations[i]: _tidy(disp[i]) for i in range(n)}
+    reactions = {k: tidy(v) for k, v in reactions.items()}
+    displacements = {stations[i]: tidy(disp[i]) for i in range(n)}
 
     gap_forces, conditions = {}, []
-    prefer = sorted((s for s in syms.values() if not s.is_positive), key=lambda s: list(syms.values()).index(s))
-    prefer += [s for s in syms.values() if s.is_positive]
+    # a condition is solved for the first real symbol it is linear in (a load, dT), else a positive one
+    prefer = sorted(syms.values(), key=lambda s: bool(s.is_positive))
     for g, a, b, s1, s2, c in gaps:
         if g.name in lam:
             force = -lam_v[g.name] if g.kind == "contact" else lam_v[g.name]
-            gap_forces[g.name] = _tidy(force)
-            conditions.append(_relation(lam_v[g.name], prefer))
+            gap_forces[g.name] = tidy(force)
+            conditions.append(_relation(lam_v[g.name], prefer).xreplace(back))
         else:
             gap_forces[g.name] = sympy.Integer(0)
-            conditions.append(_relation(c - measure(a, b, s1, s2, disp), prefer))
+            conditions.append(_relation(c - measure(a, b, s1, s2, disp), prefer).xreplace(back))
     notes = []
     kept = []
     for rel in conditions:
         if rel is sympy.true:
             continue
-        if rel is sympy.false:
-            notes.append("the contact state " + _state_text(closed) + " never holds")
-            continue
         kept.append(rel)
-        if all(v is not None for v in values.values()) or not (rel.free_symbols - set(subs)):
-            lhs = (rel.lhs - rel.rhs).xreplace(subs)
-            if not lhs.free_symbols:
-                value = float(lhs)
-                scale = max(abs(float(rel.lhs.xreplace(subs))), abs(float(rel.rhs.xreplace(subs))), 1e-300)
-                holds = value >= -1e-9 * scale if isinstance(rel, sympy.GreaterThan) else value <= 1e-9 * scale
-                if not holds:
-                    notes.append(f"condition {rel} fails for the given values: the assumed contact "
-                                 "state does not hold, so these formulas do not apply to them")
+        if rel is sympy.false:
+            notes.append("the contact state " + _state_text(closed) + (
+                " never holds, whatever the symbols' values" if used_symbols(model) else
+                " does not hold for the model's values") + ": these formulas do not apply")
+            continue
+        lhs = (rel.lhs - rel.rhs).xreplace(subs)
+        if not lhs.free_symbols:  # every symbol in it has a value: check it
+            value = float(lhs)
+            scale = max(abs(float(rel.lhs.xreplace(subs))), abs(float(rel.rhs.xreplace(subs))), 1e-300)
+            holds = value >= -1e-9 * scale if isinstance(rel, sympy.GreaterThan) else value <= 1e-9 * scale
+            if not holds:
+                notes.append(f"condition {rel} fails for the given values: the assumed contact "
+                             "state does not hold, so these formulas do not apply to them")
     return ClosedForm(model=model, case=name, symbols=syms, values=values,
                       displacements=displacements, reactions=reactions, axial_forces=axial,
                       stresses=stress, gap_forces=gap_forces, gap_closed=closed,
@@ -646,7 +780,7 @@ def numeric_model(model: Model) -> Model:
 
 
 # --- reports -------------------------------------------------------------------------
-def _entries(cf: ClosedForm, numeric, units):
+def _entries(cf: ClosedForm, numeric):
     """Yield (group, key, expr, numeric SI value or None, unit key)."""
     model = cf.model
     for st, e in cf.reactions.items():
@@ -673,14 +807,16 @@ def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compar
     state) they are not computed.
     """
     units = units or cf.model.units
-    rows = list(_entries(cf, numeric, units))
+    rows = list(_entries(cf, numeric))
     scale = {}
     for group, _, e, num, ukey in rows:
         v = cf.evaluate(e)
         for x in (v, num):
             if x is not None:
                 scale[ukey] = max(scale.get(ukey, 0.0), abs(x))
-    data = {"title": cf.model.title, "case": cf.case, "units": units.as_dict(),
+    data = {"title": cf.model.title, "case": cf.case,
+            "cases": [c.name for c in (*cf.model.all_cases, *cf.model.combinations)],
+            "units": units.as_dict(),
             "symbols": {d.name: d.text for d in cf.model.symbols},
             "assumptions": {n: ("positive" if s.is_positive else "real") for n, s in cf.symbols.items()},
             "state": {g: ("closed" if c else "open") for g, c in cf.gap_closed.items()},
@@ -707,7 +843,8 @@ def closed_form_dict(cf: ClosedForm, numeric=None, units=None, only=None, compar
                             "value": v / f if v is not None else None,
                             "numeric": num / f if num is not None else None,
                             "relative_difference": diff}
-    data["conditions"] = [str(c) for c in cf.conditions]
+    data["conditions"] = [str(c) for c in cf.conditions]  # always: where the formulas apply
+    data["conditions_latex"] = [sympy.latex(c) for c in cf.conditions]
     data["notes"] = list(cf.notes)
     return data
 
@@ -723,7 +860,14 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
     """The terminal report of :func:`closed_form_dict`'s data."""
     key = "latex" if latex else "expression"
     out = [f"axialfe closed form: {data['title']} (case '{data['case']}')"]
-    if data["symbols"]:
+    others = [c for c in data.get("cases", ()) if c != data["case"]]
+    if others:
+        out.append("other cases: " + ", ".join(others) + " (choose one with --case NAME)")
+    if not data["symbols"]:
+        out.append("no [symbols] declared, so each closed form is an exact number; for formulas, "
+                   "declare symbols (e.g. [symbols] P = \"18 kN\") and use them as values "
+                   "(force = \"P\")")
+    else:
         out.append("symbols: " + ", ".join(f"{n} = {v}" if v is not None else f"{n} (no value)"
                                            for n, v in data["symbols"].items()))
         pos = [n for n, a in data["assumptions"].items() if a == "positive"]
@@ -734,9 +878,12 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
         out.append("contact state: " + ", ".join(
             f"'{g}' {s}" + (" (assumed)" if g in data["assumed"] else "")
             for g, s in data["state"].items()))
-    if "conditions" in data and data["conditions"] and data.get("_show_conditions", True):
+    if data["conditions"]:
         out.append("the formulas hold while all of these hold:")
-        out += [f"  {c}" for c in data["conditions"]]
+        out += [f"  {c}" for c in data["conditions_latex" if latex else "conditions"]]
+    elif data["state"]:
+        out.append("the contact state holds " + ("for any values of the symbols" if data["symbols"]
+                                                 else "without a condition left"))
     for group, (title, ukey) in _TITLES.items():
         if group not in data or not data[group]:
             continue
@@ -744,7 +891,7 @@ def closed_form_text(data: dict, latex: bool = False, cautions=()) -> str:
         width = max((len(k) for k in data[group]), default=0)
         for name, entry in data[group].items():
             out.append(f"  {name.ljust(width)} = {entry[key]}")
-            if entry["value"] is not None:
+            if entry["value"] is not None and (entry["expression"] != "0" or entry["numeric"] is not None):
                 line = f"  {' ' * width}   = {entry['value']:.6g}"
                 if entry["numeric"] is not None and entry["relative_difference"] is not None:
                     line += (f"   numeric {entry['numeric']:.6g}, relative difference "

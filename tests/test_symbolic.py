@@ -12,7 +12,7 @@ from typer.testing import CliRunner
 
 from axialfe import solve_symbolic
 from axialfe.cli import app
-from axialfe.errors import ModelError
+from axialfe.errors import ModelError, SolveError
 from axialfe.model import Gap, Load, Material, Model, Section, Segment, Station, Support
 from axialfe.modelfile import parse_model
 from axialfe.solve import solve
@@ -187,11 +187,50 @@ def test_the_numeric_state_is_used_and_matches():
 def test_an_undecided_state_needs_an_assumption():
     text = GAP_MODEL.replace('c = "0.1 mm"', 'c = { unit = "mm" }')
     model = parse_model(text, "gap.toml", symbolic=True)
+    assert text.splitlines()[33] == "[[gaps]]"  # line 34
     with pytest.raises(ModelError) as info:
         solve_symbolic(model)
-    assert str(info.value) == ("gap.toml: the contact state is undecided: give every symbol a "
-                               "value, or assume the state of gap(s) 'wall' (e.g. --assume "
+    assert str(info.value) == ("gap.toml:34: the contact state is undecided while symbol(s) 'c' "
+                               "have no value: assume the state of gap(s) 'wall' (e.g. --assume "
                                "wall=closed)")
+
+
+def test_without_a_state_the_numeric_solver_decides_it():
+    # every symbol has a value: the state is the numeric solver's (closed here, as the
+    # load moves C by P*a/(E*A) = 0.3 mm > c)
+    cf = solve_symbolic(parse_model(GAP_MODEL, "gap.toml", symbolic=True))
+    assert cf.gap_closed == {"wall": True}
+
+
+def located(text, **kw):
+    with pytest.raises((ModelError, SolveError)) as info:
+        solve_symbolic(parse_model(text, "m.toml", symbolic=True), **kw)
+    return str(info.value)
+
+
+def test_errors_without_one_place_give_the_line_of_what_they_name():
+    lines = GAP_MODEL.splitlines()
+    line_a = lines.index('A_end = "0 mm"') + 1
+    # stations out of order: the line of the station that does not lie beyond
+    swapped = GAP_MODEL.replace('C = "a"\nB = "a + b"', 'B = "a + b"\nC = "a"')
+    line_c = swapped.splitlines().index('C = "a"') + 1
+    assert located(swapped) == (
+        f"m.toml:{line_c}: stations with symbolic positions must be listed in "
+        "increasing x: 'C' (x = a) does not lie beyond 'B' (x = a + b)")
+    # a part that floats in the assumed state: the line of the first station named
+    free = GAP_MODEL.replace('[[supports]]\nat = "A_end"\n', "")
+    assert located(free, assume={"wall": False}) == (
+        f"m.toml:{line_a}: stations 'A_end', 'C', 'B' float in the contact state "
+        "('wall' open): no support, spring or closed gap holds them")
+    # two closed gaps on one station: the line of the first gap
+    second = '[[gaps]]\nname = "stop"\nat = "B"\nside = "+x"\nclearance = "%s"\n'
+    gap_line = lines.index("[[gaps]]") + 1
+    assert located(GAP_MODEL + second % "c", assume={"wall": True, "stop": True}) == (
+        f"m.toml:{gap_line}: the closed gaps 'wall', 'stop' share their force in no unique way in "
+        "the contact state ('wall' closed, 'stop' closed): assume one of them open")
+    assert located(GAP_MODEL + second % "2*c", assume={"wall": True, "stop": True}) == (
+        f"m.toml:{gap_line}: no equilibrium in the contact state ('wall' closed, 'stop' closed): "
+        "the closed gaps cannot all close at once")
 
 
 def test_readable_back_by_sympy():
@@ -317,3 +356,268 @@ def test_bad_options_give_one_line(tmp_path, args, message):
     result = runner.invoke(app, ["closed-form", str(path), *args])
     assert result.exit_code == 2
     assert result.output.strip() == message
+
+
+# --- tapered segments ------------------------------------------------------------
+TAPER = """
+[symbols]
+P = { unit = "kN" }
+L = { unit = "mm" }
+E = { unit = "GPa" }
+%s
+[materials.m]
+elastic_modulus = "E"
+[sections.wide]
+%s
+[sections.narrow]
+%s
+[stations]
+wide = "0 mm"
+narrow = "L"
+[[segments]]
+name = "taper"
+from = "wide"
+to = "narrow"
+material = "m"
+section = "wide"
+end_section = "narrow"
+[[supports]]
+at = "wide"
+[[loads]]
+at = "narrow"
+force = "P"
+"""
+
+
+def test_solid_cone_in_closed_form():
+    # delta = 4*P*L/(pi*E*d1*d2) (Gere and Goodno, Mechanics of Materials, nonuniform
+    # bars, tapered bar of circular cross-section; from memory)
+    text = TAPER % ('d_1 = { unit = "mm" }\nd_2 = { unit = "mm" }',
+                    'shape = "round"\ndiameter = "d_1"', 'shape = "round"\ndiameter = "d_2"')
+    cf = solve_symbolic(parse_model(text, "cone.toml", symbolic=True))
+    P, L, E, d1, d2 = R("P"), S("L"), S("E"), S("d_1"), S("d_2")
+    assert sympy.simplify(cf.displacement("narrow") - 4 * P * L / (sympy.pi * E * d1 * d2)) == 0
+    assert str(cf.displacement("narrow")) == "4*L*P/(pi*E*d_1*d_2)"
+    # stresses P/A at both ends (equilibrium of a cut; common practice)
+    assert same(cf.stresses["taper"][1], 4 * P / (sympy.pi * d2**2))
+
+
+def test_linearly_tapered_area_in_closed_form():
+    # k = E*(A2 - A1)/(L*ln(A2/A1)) (integral of dx/(E*A(x)) with A linear; Gere and
+    # Goodno, Mechanics of Materials, nonuniform bars; from memory)
+    text = TAPER % ('A_1 = { unit = "mm^2" }\nA_2 = { unit = "mm^2" }',
+                    'shape = "area"\narea = "A_1"', 'shape = "area"\narea = "A_2"')
+    cf = solve_symbolic(parse_model(text, "taper.toml", symbolic=True))
+    P, L, E, A1, A2 = R("P"), S("L"), S("E"), S("A_1"), S("A_2")
+    k = E * (A2 - A1) / (L * sympy.log(A2 / A1))
+    assert sympy.simplify(sympy.expand_log(cf.displacement("narrow") - P / k)) == 0
+    # printed with one logarithm of the ratio, not log(A_1) - log(A_2)
+    assert str(cf.displacement("narrow")) == "L*P*log(A_1/A_2)/(E*(A_1 - A_2))"
+
+
+def test_tapered_bar_between_walls_keeps_one_logarithm():
+    # A tapered part (flexibility f1 = a*log(A_1/A_2)/(E*(A_1 - A_2)), as above) and a
+    # prismatic part (f2 = b/(E*A_2)) between walls, load P at the joint: the left wall
+    # takes -P*f2/(f1 + f2) (compatibility of springs in series between rigid walls;
+    # Gere and Goodno, statically indeterminate axial members; from memory)
+    text = series({"P": '{ unit = "kN" }', "a": '{ unit = "mm" }', "b": '{ unit = "mm" }',
+                   "E": '{ unit = "GPa" }', "A_1": '{ unit = "mm^2" }', "A_2": '{ unit = "mm^2" }'},
+                  {"left": "0 mm", "C": "a", "right": "a + b"},
+                  [("left", "C", "m", "s1", "taper"), ("C", "right", "m", "s2")], ["left", "right"],
+                  '[materials.m]\nelastic_modulus = "E"\n[sections.s1]\nshape = "area"\n'
+                  'area = "A_1"\n[sections.s2]\nshape = "area"\narea = "A_2"\n'
+                  '[[loads]]\nat = "C"\nforce = "P"\n')
+    text = text.replace('name = "taper"', 'name = "taper"\nend_section = "s2"')
+    cf = solve_symbolic(parse_model(text, symbolic=True))
+    P, a, b, E, A1, A2 = R("P"), S("a"), S("b"), S("E"), S("A_1"), S("A_2")
+    f1, f2 = a * sympy.log(A1 / A2) / (E * (A1 - A2)), b / (E * A2)
+    assert sympy.simplify(sympy.expand_log(cf.reaction("left") + P * f2 / (f1 + f2))) == 0
+    for expr in (*cf.reactions.values(), *cf.displacements.values()):
+        assert "log(A_1)" not in str(expr) and "log(A_2)" not in str(expr)
+
+
+@pytest.mark.parametrize("shape, start, end", [
+    ("area", {"area": 4e-4}, {"area": 1e-4}),
+    ("round", {"diameter": 0.05}, {"diameter": 0.02}),
+    ("tube", {"outer_diameter": 0.06, "inner_diameter": 0.052},
+     {"outer_diameter": 0.03, "inner_diameter": 0.018}),
+    ("rectangle", {"width": 0.04, "height": 0.01}, {"width": 0.015, "height": 0.02}),
+])
+def test_tapered_load_integrals_equal_the_numeric_solution(shape, start, end):
+    # self-weight and a distributed load on a taper between walls, heated: the closed
+    # form (partial fractions, exact logarithms) against the numeric solver's exact taper
+    s0 = Section("s0", shape, tuple(start.items()))
+    s1 = Section("s1", shape, tuple(end.items()))
+    mat = Material("steel", 200e9, 12e-6, density=7850.0)
+    model = Model([Station("top", 0.0), Station("mid", 0.7), Station("bottom", 1.2)],
+                  [Segment("taper", "top", "mid", mat, s0, end_section=s1, distributed_load=-3e3,
+                           temperature_change=25.0),
+                   Segment("prism", "mid", "bottom", mat, s1)],
+                  [Support("top"), Support("bottom")], [Load("mid", 4e3)], gravity=-9.80665)
+    case = solve(model)["base"]
+    cf = solve_symbolic(model)
+    scale = np.abs(case.axial_force).max()
+    for i, seg in enumerate(model.segments):
+        for end_ in (0, 1):
+            assert abs(cf.evaluate(cf.force(seg.name)[end_]) - case.axial_force[i][end_]) <= 1e-9 * scale
+    assert cf.evaluate(cf.displacement("mid")) == pytest.approx(case.displacement("mid"), rel=1e-9)
+
+
+# --- cases and combinations ----------------------------------------------------------
+CASES = series({"P": '"20 kN"', "Q": '"-8 kN"', "dT": '"30 K"', "a": '"200 mm"', "L": '"500 mm"',
+                "E": '"200 GPa"', "A": '"300 mm^2"', "alpha": '"12e-6 /K"', "s": '"0.05 mm"'},
+               {"left": "0 mm", "C": "a", "right": "L"},
+               [("left", "C", "m", "s", "near"), ("C", "right", "m", "s", "far")],
+               ["left"], """
+[materials.m]
+elastic_modulus = "E"
+thermal_expansion = "alpha"
+[sections.s]
+shape = "area"
+area = "A"
+[[supports]]
+at = "right"
+kind = "settlement"
+displacement = "0 mm"
+[[cases]]
+name = "dead"
+loads = [{ at = "C", force = "P" }]
+[[cases]]
+name = "live"
+loads = [{ at = "C", force = "Q" }]
+settlements = [{ at = "right", displacement = "s" }]
+[[cases]]
+name = "heat"
+temperature_change = { all = "dT" }
+[[combinations]]
+name = "ultimate"
+factors = { dead = 1.35, live = 1.5, heat = 0.6 }
+""")
+
+
+def test_a_combination_equals_its_factored_model():
+    # superposition of linear-elastic load cases (Gere and Goodno, Mechanics of
+    # Materials, principle of superposition; from memory): the combination's closed
+    # form is that of one model carrying the factored loads, and the factored sum of
+    # the cases' closed forms
+    model = parse_model(CASES, "cases.toml", symbolic=True)
+    combo = solve_symbolic(model, case="ultimate")
+    assert combo.case == "ultimate"
+    factored = CASES[:CASES.index("[[cases]]")] + """
+[[loads]]
+at = "C"
+force = "27/20*P + 3/2*Q"
+[settings]
+temperature_change = "3/5*dT"
+"""
+    factored = factored.replace('displacement = "0 mm"', 'displacement = "3/2*s"')
+    one = solve_symbolic(parse_model(factored, "factored.toml", symbolic=True))
+    parts = {c: solve_symbolic(model, case=c) for c in ("dead", "live", "heat")}
+    weights = {"dead": sympy.Rational(27, 20), "live": sympy.Rational(3, 2), "heat": sympy.Rational(3, 5)}
+    for group in ("reactions", "displacements"):
+        for key, expr in getattr(combo, group).items():
+            assert same(expr, getattr(one, group)[key])
+            assert same(expr, sum(w * getattr(parts[c], group)[key] for c, w in weights.items()))
+    for seg, (n_from, n_to) in combo.axial_forces.items():
+        assert same(n_from, one.axial_forces[seg][0]) and same(n_to, one.axial_forces[seg][1])
+
+
+def test_every_case_evaluates_to_the_numeric_solution():
+    model = parse_model(CASES, "cases.toml", symbolic=True)
+    solution = solve(numeric_model(model))
+    assert solution.names == ("dead", "live", "heat", "ultimate")
+    for case in solution:
+        cf = solve_symbolic(model, case=case.name)
+        for stn in model.stations:
+            assert cf.evaluate(cf.displacement(stn.name)) == pytest.approx(
+                case.displacement(stn.name), rel=1e-12, abs=1e-18)
+        for sup in model.supports:
+            assert cf.evaluate(cf.reaction(sup.at)) == pytest.approx(case.reaction(sup.at), rel=1e-12)
+        for seg in model.segments:
+            assert cf.evaluate(cf.force(seg.name)[0]) == pytest.approx(case.force(seg.name)[0], rel=1e-12)
+
+
+def test_the_case_option_picks_one(tmp_path):
+    path = tmp_path / "cases.toml"
+    path.write_text(CASES)
+    numeric = solve(numeric_model(parse_model(CASES, symbolic=True)))
+    for name in ("live", "ultimate"):
+        result = runner.invoke(app, ["closed-form", str(path), "--case", name, "-f", "json"])
+        assert result.exit_code == 0, result.output
+        data = json.loads(result.output)
+        assert data["case"] == name
+        entry = data["reactions"]["left"]
+        assert entry["numeric"] == pytest.approx(numeric[name].reaction("left"), rel=1e-12)  # N
+        assert entry["value"] == pytest.approx(entry["numeric"], rel=1e-9)
+    live = json.loads(runner.invoke(app, ["closed-form", str(path), "--case", "live", "-f",
+                                          "json"]).output)
+    assert "Q" in live["reactions"]["left"]["expression"]
+    assert "P" not in live["reactions"]["left"]["expression"]
+    result = runner.invoke(app, ["closed-form", str(path), "--case", "lve"])
+    assert result.exit_code == 2
+    assert result.output.strip() == "error: --case: unknown case 'lve'; did you mean 'live'?"
+
+
+def test_the_conditions_are_shown_with_any_selection():
+    # a formula of a contact state is read with the conditions under which that state holds
+    path = str(EXAMPLES / "closed-form-heated-bar-gap.toml")
+    text = runner.invoke(app, ["closed-form", path, "--only", "reactions"]).output
+    assert "the formulas hold while all of these hold:\n  dT >= c/(L_1*alpha_1 + L_2*alpha_2)\n" in text
+    assert "gap forces" not in text
+    data = json.loads(runner.invoke(app, ["closed-form", path, "--only", "gaps", "-f", "json"]).output)
+    assert data["conditions"] == ["dT >= c/(L_1*alpha_1 + L_2*alpha_2)"]
+    assert set(data) & {"reactions", "displacements", "gaps"} == {"gaps"}
+
+
+def test_a_model_without_symbols_says_how_to_get_formulas():
+    text = runner.invoke(app, ["closed-form", str(EXAMPLES / "rail-expansion-joint.toml")]).output
+    assert "no [symbols] declared, so each closed form is an exact number" in text
+    assert "the contact state holds without a condition left" in text
+
+
+SLACK = series({"P": '"30 kN"', "L": '"500 mm"', "E": '"200 GPa"', "A": '"100 mm^2"', "c": '"0.2 mm"'},
+               {"anchor": "0 mm", "tip": "L", "post": "L + 100 mm"},
+               [("anchor", "tip", "m", "s")], ["anchor", "post"], ONE_MATERIAL + """
+[[loads]]
+at = "tip"
+force = "-P"
+[[gaps]]
+name = "tether"
+between = ["tip", "post"]
+clearance = "c"
+kind = "slack"
+""")
+
+
+def test_a_slack_link_that_goes_taut():
+    # A bar fixed at one end, pushed by P at its tip, tied back to a fixed post by a
+    # link of slack c: taut when P*L/(E*A) >= c, then the link pulls with P - E*A*c/L and
+    # the tip stops at -c (compatibility and equilibrium of the tip, as for a gap that
+    # closes; Gere and Goodno, Mechanics of Materials, statically indeterminate bars; from
+    # memory)
+    model = parse_model(SLACK, "slack.toml", symbolic=True)
+    P, L, E, A, c = R("P"), S("L"), S("E"), S("A"), S("c")
+    taut = solve_symbolic(model)
+    assert taut.gap_closed == {"tether": True}
+    assert same(taut.gap("tether"), P - E * A * c / L)  # tension
+    assert taut.conditions == (sympy.Ge(P, A * E * c / L),)
+    assert same(taut.displacement("tip"), -c)
+    slack = solve_symbolic(model, assume={"tether": False})
+    assert slack.gap("tether") == 0
+    assert slack.conditions == (sympy.Le(P, A * E * c / L),)
+    assert any("fails for the given values" in note for note in slack.notes)
+    case = solve(numeric_model(model))["base"]
+    assert taut.evaluate(taut.gap("tether")) == pytest.approx(case.gap("tether")["force"], rel=1e-12)
+
+
+def test_assume_on_a_model_without_gaps():
+    path = str(EXAMPLES / "stepped-rod-between-walls.toml")
+    result = runner.invoke(app, ["closed-form", path, "--assume", "x=open"])
+    assert result.exit_code == 2
+    assert result.output.strip() == "error: --assume: the model has no gaps (got 'x')"
+
+
+def test_latex_conditions():
+    path = str(EXAMPLES / "closed-form-heated-bar-gap.toml")
+    text = runner.invoke(app, ["closed-form", path, "--latex", "--only", "gaps"]).output
+    assert "  dT \\geq \\frac{c}{L_{1} \\alpha_{1} + L_{2} \\alpha_{2}}\n" in text
