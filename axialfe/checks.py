@@ -5,7 +5,8 @@ Each check gives one :class:`CheckEntry` per item and case with a utilisation
 False (fails) or None (the tool cannot decide; an engineer must judge).
 
 - ``strength``: max|sigma| * safety factor / yield strength over each segment
-  (the larger end); without a yield strength the entry is undecided.
+  (the larger end), where a yield strength is known; the others are named in
+  the basis of the report as not checked.
 - ``buckling``: for each segment in compression at either end, the largest
   compression * safety factor / Euler load pi^2 E I / (K L)^2.  Euler's formula
   holds for slender elastic members only: where K L / r lies below the limit
@@ -135,11 +136,15 @@ class CheckReport:
     governing : CheckEntry or None
         The entry with the highest utilisation over all cases (None when no
         entry has one).
+    unchecked : tuple of str
+        Segments whose material gives no yield strength: they get no strength
+        entry, and :meth:`settings_text` names them.
     """
 
     settings: CheckSettings
     cases: tuple[CaseChecks, ...]
     governing: CheckEntry | None
+    unchecked: tuple[str, ...] = ()
 
     @property
     def entries(self) -> tuple[CheckEntry, ...]:
@@ -181,7 +186,9 @@ class CheckReport:
         return (f"safety factor {s.safety_factor:g}{sf_default} on strength and buckling, none on "
                 f"deformation limits; buckling: Euler load pi^2*E*I/(K*L)^2 with K = "
                 f"{s.effective_length_factor:g}{k_default} and L = the segment length unless a "
-                "segment sets effective_length_factor or buckling_length")
+                "segment sets effective_length_factor or buckling_length"
+                + (f"; strength NOT checked (no yield strength given): "
+                   + ", ".join(f"'{n}'" for n in self.unchecked) if self.unchecked else ""))
 
 
 def _num(value: float) -> str:
@@ -226,10 +233,7 @@ def strength_checks(result: CaseResult, settings: CheckSettings, units: OutputUn
     smax = np.abs(result.stress).max(axis=1)
     for i, seg in enumerate(model.segments):
         fy = seg.material.yield_strength
-        if fy is None:
-            out.append(CheckEntry("strength", seg.name, case, None, None,
-                                  f"no yield strength given for material '{seg.material.name}':"
-                                  " strength not checked", "stress", float(smax[i]), None))
+        if fy is None:  # no entry: the report's basis line names these segments
             continue
         util = float(smax[i]) * sf / fy
         out.append(CheckEntry("strength", seg.name, case, util, util <= 1.0, None, "stress",
@@ -335,4 +339,6 @@ def check_solution(solution: Solution, units: OutputUnits | None = None) -> Chec
             if e.utilization is not None and (governing is None
                                               or e.utilization > governing.utilization):
                 governing = e
-    return CheckReport(settings, cases, governing)
+    unchecked = tuple(seg.name for seg in solution.model.segments
+                      if seg.material.yield_strength is None)
+    return CheckReport(settings, cases, governing, unchecked)
