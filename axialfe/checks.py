@@ -152,11 +152,12 @@ class CheckReport:
 
     @property
     def status(self) -> str:
-        """``'fail'`` if any entry fails, else ``'undecided'`` if any is undecided, else ``'pass'``."""
+        """``'fail'`` if any entry fails, else ``'undecided'`` if any is undecided or a
+        segment's strength could not be checked, else ``'pass'``."""
         oks = [e.ok for e in self.entries]
         if any(ok is False for ok in oks):
             return "fail"
-        if any(ok is None for ok in oks):
+        if any(ok is None for ok in oks) or self.unchecked:
             return "undecided"
         return "pass"
 

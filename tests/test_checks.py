@@ -166,6 +166,9 @@ def test_no_yield_strength_leaves_buckling_undecided_and_strength_unchecked():
     assert "slenderness limit pi*sqrt(E/f_y) of the Euler formula is unknown" in b.note
     report = check_solution(solve(model))
     assert report.unchecked == (model.segments[0].name,)
+    # a strength that cannot be checked is never a pass, even with nothing else to check
+    tension = strut(material="grey-cast-iron", length="3000 mm", force="1 kN")
+    assert check_solution(solve(tension)).status == "undecided"
     assert report.settings_text().endswith(
         f"; strength NOT checked (no yield strength given): '{model.segments[0].name}'")
 
