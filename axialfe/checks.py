@@ -187,7 +187,9 @@ class CheckReport:
         return (f"safety factor {s.safety_factor:g}{sf_default} on strength and buckling, none on "
                 f"deformation limits; buckling: Euler load pi^2*E*I/(K*L)^2 with K = "
                 f"{s.effective_length_factor:g}{k_default} and L = the segment length unless a "
-                "segment sets effective_length_factor or buckling_length"
+                "segment sets effective_length_factor or buckling_length (the default assumes "
+                "both end stations of a segment are braced laterally; give buckling_length for "
+                "an unbraced run)"
                 + (f"; strength NOT checked (no yield strength given): "
                    + ", ".join(f"'{n}'" for n in self.unchecked) if self.unchecked else ""))
 

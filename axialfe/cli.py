@@ -309,7 +309,14 @@ class ReportFormat(str, Enum):
 
 
 def _pick_case(solution, name):
-    return solution.cases[0] if name is None else solution[name]
+    from .errors import ModelError, suggest
+
+    if name is None:
+        return solution.cases[0]
+    if name not in solution.names:
+        raise ModelError(f"unknown case '{name}'", place="--case", hint=suggest(name, solution.names),
+                         options=solution.names)
+    return solution[name]
 
 
 @app.command()
@@ -392,8 +399,32 @@ def report(model: ModelPath,
         typer.echo(f"wrote {output}", err=True)
 
 
-def main():  # pragma: no cover - entry point
-    app(prog_name="axialfe")
+def main():
+    """The entry point: a mistake on the command line is one ``error:`` line, exit 2.
+
+    typer would draw a framed panel for a usage error; a script or a log wants one
+    line, like every other input error of the tool.
+    """
+    try:
+        code = app(prog_name="axialfe", standalone_mode=False)
+    except Exception as exc:  # noqa: BLE001 - only click's own usage errors are handled
+        # typer may bring click's exception classes under its own module, so they are
+        # recognised by name, not by import
+        kinds = {cls.__name__ for cls in type(exc).__mro__}
+        if "NoArgsIsHelpError" in kinds:
+            typer.echo(exc.format_message())
+            code = 0
+        elif "UsageError" in kinds:
+            ctx = getattr(exc, "ctx", None)
+            command = ctx.command_path if ctx is not None else "axialfe"
+            typer.echo(f"error: {exc.format_message()} (see '{command} --help')", err=True)
+            code = EXIT_INPUT
+        elif "Abort" in kinds:
+            typer.echo("error: aborted", err=True)
+            code = 1
+        else:
+            raise
+    sys.exit(code or 0)
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -335,8 +335,10 @@ class _Reader:
             units = OutputUnits.system(units_entry.get("system", "SI"),
                                        **{k: v for k, v in units_entry.items() if k != "system"})
         except ModelError as exc:
-            raise ModelError(exc.message, place="units", file=self.source,
-                             line=self.line("units"), hint=exc.hint, options=exc.options) from exc
+            key = next((k for k, v in units_entry.items() if f"'{v}'" in exc.message), None)
+            raise type(exc)(f"{key}: {exc.message}" if key else exc.message, place="units",
+                            file=self.source, line=self.line("units", None, key), hint=exc.hint,
+                            options=exc.options) from exc
 
         materials = {}
         own = data.get("materials", {})

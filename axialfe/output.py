@@ -161,10 +161,13 @@ def to_csv(solution: Solution, units: OutputUnits | None = None) -> str:
                     w.writerow([c, "segment", s["name"], q, end, repr(v), unit])
             w.writerow([c, "segment", s["name"], "elongation", "", repr(s["elongation"]),
                         u["displacement"]])
+            w.writerow([c, "segment", s["name"], "temperature_change", "",
+                        repr(s["temperature_change"]), "K"])
             w.writerow([c, "segment", s["name"], "thermal_strain", "", repr(s["thermal_strain"]), "1"])
         for r in case["reactions"]:
             w.writerow([c, "reaction", r["at"], "force", "", repr(r["force"]), u["force"]])
         for g in case["gaps"]:
+            w.writerow([c, "gap", g["name"], "kind", "", g["kind"], ""])
             w.writerow([c, "gap", g["name"], "state", "", g["state"], ""])
             w.writerow([c, "gap", g["name"], "opening", "", repr(g["opening"]), u["displacement"]])
             w.writerow([c, "gap", g["name"], "force", "", repr(g["force"]), u["force"]])
@@ -245,9 +248,17 @@ def _check_lines(case_checks, units: OutputUnits, title=True):
 
 def _governing_text(checks) -> str:
     g = checks.governing
-    if g is None:
-        return "none (no check has a utilization)"
-    return f"{g.kind} of '{g.name}' in case '{g.case}', utilization {g.utilization:.3f} ({g.verdict})"
+    text = ("none (no check has a utilization)" if g is None else
+            f"{g.kind} of '{g.name}' in case '{g.case}', utilization {g.utilization:.3f} ({g.verdict})")
+    # a failure with no utilization (a closed gap that must stay open) never governs by
+    # number, so it is named here: the line must not read as a pass while a check fails
+    failing = [e for e in checks.entries if e.ok is False and e.utilization is None]
+    if failing:
+        text += "; FAILING without a utilization: " + ", ".join(
+            f"{e.kind} of '{e.name}' in case '{e.case}'" for e in failing[:5])
+        if len(failing) > 5:
+            text += f" and {len(failing) - 5} more"
+    return text
 
 
 def _governing_lines(checks, units: OutputUnits):

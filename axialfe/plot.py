@@ -238,7 +238,7 @@ def _fmt(value):
 
 
 def _lane_label(items, parallel):
-    names = [c.segment for c in items if parallel[c.index]] or [c.segment for c in items]
+    names = list(dict.fromkeys(c.segment for c in items))  # every segment of the lane, in order
     text = ", ".join(names[:3]) + (f" and {len(names) - 3} more" if len(names) > 3 else "")
     return _text(text)
 

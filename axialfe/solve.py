@@ -394,7 +394,6 @@ def solve_gaps(M, H, o0, f, system, label="", with_state=False):
         return (lam, np.zeros(0), closed) if with_state else (lam, np.zeros(0))
     g, p = H.shape
     Mb = np.block([[M, -H, H], [H.T, np.zeros((p, 2 * p))], [-H.T, np.zeros((p, 2 * p))]])
-    fscale = max(np.abs(f).max(initial=0), 1.0)
     qb = np.concatenate([o0, -f, f])
     z, basic = _lemke(Mb, qb, 100 * (g + 2 * p) + 100)
     stations = [st.name for st in model.stations]
@@ -417,7 +416,6 @@ def solve_gaps(M, H, o0, f, system, label="", with_state=False):
                              "no load pressing the part against them; add a support or a load",
                              file=model.source,
                              line=model.line_of(f"gaps.{touching[0]}") if touching else None)
-    del fscale
     return (lam, shift, basic[:g]) if with_state else (lam, shift)
 
 

@@ -157,6 +157,7 @@ def parse_range(text: str, parameter: str) -> tuple[float, float, str]:
     kind = "temperature_difference" if parameter == "temperature_change" else "temperature"
     try:
         if kind == "temperature":
+            parse_quantity(f"{b} {ub}", kind)  # refuses a temperature below absolute zero
             b_in = float(kelvin_to_temperature(temperature_to_kelvin(b, ub), unit))
             parse_quantity(f"{a} {unit}", kind)
         else:
@@ -318,6 +319,12 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         unit = "1"
         to_internal = to_user = lambda v: float(v)  # noqa: E731
 
+    notes: list[str] = []
+    if parameter != "load_factor" and np.ptp(base.dT) > 0:
+        own = [f"'{seg.name}' ({dt:g} K)" for seg, dt in zip(model.segments, base.dT)]
+        notes.append("the swept temperature replaces every segment's own thermal input, which "
+                     f"in case '{base.name}' varies by segment: " + ", ".join(own[:6])
+                     + (f" and {len(own) - 6} more" if len(own) > 6 else ""))
     system = System(model)
     tracker = _Tracker(system, base, parameter, to_user)
     tracker.from_user = to_internal
@@ -330,10 +337,11 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     yield_strength = np.array([seg.material.yield_strength or np.inf for seg in model.segments])
     yielded = np.zeros(len(model.segments), dtype=bool)
     events: list[Event] = []
-    notes: list[str] = []
+
+    shown_unit = "" if unit == "1" else f" {unit}"
 
     def lost(exc, s):
-        shown = f"{to_user(s):.6g}" + ("" if unit == "1" else f" {unit}")
+        shown = f"{to_user(s):.6g}{shown_unit}"
         return SolveError(f"{exc.message} at {parameter} = {shown}", file=model.source,
                           line=exc.line)
 
@@ -384,7 +392,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
                 events.append(Event(model.segments[j].name, "yields", to_user(s_y)))
                 yielded[j] = True
                 notes.append(f"segment '{model.segments[j].name}' reaches its yield strength at "
-                             f"{parameter} = {to_user(s_y):.6g} {unit}; beyond it the sweep stays "
+                             f"{parameter} = {to_user(s_y):.6g}{shown_unit}; beyond it the sweep stays "
                              "linear-elastic and the results are not valid for a yielded part")
         first = False
         tracker.intervals.append(replace(iv_probe, s_to=s_next))

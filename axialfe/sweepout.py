@@ -31,8 +31,9 @@ def sweep_summary(result, units) -> str:
     m = result.model
     fF, fS = units.factor("force"), units.factor("stress")
     v = result.values
+    unit = "" if result.unit == "1" else f" {result.unit}"
     out = [f"axialfe sweep: {m.title}",
-           f"case '{result.case}', {result.parameter} from {_g(v[0])} to {_g(v[-1])} {result.unit}, "
+           f"case '{result.case}', {result.parameter} from {_g(v[0])} to {_g(v[-1])}{unit}, "
            f"{len(v)} steps",
            "units: " + ", ".join(f"{k} {u}" for k, u in units.as_dict().items()), ""]
     if result.events:
@@ -52,7 +53,7 @@ def sweep_summary(result, units) -> str:
     for j, gap in enumerate(m.gaps[:40]):
         rows_gap.append([gap.name] + [f"{_g(r.gap_force[j] / fF)} ({'closed' if r.gap_closed[j] else 'open'})"
                                       for r in results])
-    heads = [f"at {_g(v[i])} {result.unit}" for i in picks]
+    heads = [f"at {_g(v[i])}{unit}" for i in picks]
     out.append(f" largest stress of each segment [{units.stress}]")
     out += _grid(["segment"] + heads, rows_seg)
     if len(m.segments) > 40:

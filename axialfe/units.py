@@ -162,7 +162,10 @@ def parse_quantity(value, kind: str) -> float:
         _check_dimension(unit, dim, kind)
         if unit.strip().lower().startswith("delta"):
             raise UnitError(f"'{value}' is a temperature difference; an absolute temperature is expected here")
-        return float(_registry().Quantity(number, unit).to("kelvin").magnitude)
+        kelvin = float(_registry().Quantity(number, unit).to("kelvin").magnitude)
+        if kelvin < 0:
+            raise UnitError(f"'{value}' lies below absolute zero")
+        return kelvin
     return number * unit_factor(unit, kind)
 
 

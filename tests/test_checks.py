@@ -479,3 +479,19 @@ def test_json_nulls_for_undecided_entries(tmp_path):
     assert data["governing"]["kind"] == "buckling"
     result = runner.invoke(app, ["check", str(path)])
     assert result.exit_code == 3
+
+
+def test_governing_line_names_a_failure_without_utilization():
+    # the heavy case closes the stop, which must keep 0.05 mm: a failure with no utilization
+    from axialfe.output import _governing_lines
+
+    report = check_solution(solve(limits_model(allow="10 mm")))
+    assert report.status == "fail"
+    line = _governing_lines(report, report_units())[0]
+    assert line.endswith("; FAILING without a utilization: gap of 'stop' in case 'heavy'")
+
+
+def report_units():
+    from axialfe.units import OutputUnits
+
+    return OutputUnits()

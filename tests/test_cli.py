@@ -268,3 +268,13 @@ def test_python_dash_m(bar):
     assert bad.stdout == ""
     assert bad.stderr == (f"error: {bar}:5: sections.rod: area: a bare number needs a unit: "
                           "give an area, e.g. '120 mm^2'\n")
+
+
+def test_usage_errors_are_one_line(bar):
+    # the installed entry point: a mistake on the command line is one error line, exit 2
+    bad = subprocess.run([sys.executable, "-m", "axialfe", "solve", str(STEPPED), "--frmat", "json"],
+                         capture_output=True, text=True, cwd=ROOT, timeout=120)
+    assert bad.returncode == 2 and bad.stdout == ""
+    # click's own wording may vary between versions: only our frame of it is asserted
+    assert bad.stderr.startswith("error: No such option: --frmat")
+    assert bad.stderr.endswith("(see 'axialfe solve --help')\n") and bad.stderr.count("\n") == 1

@@ -211,7 +211,7 @@ def test_unknown_unit():
 
 def test_output_unit_of_wrong_dimension():
     assert error(edit(2, '[units]\nforce = "kPa"')) == (
-        "bar.toml:2: units: 'kPa' is a unit of stress, not of force, e.g. '12 kN'")
+        "bar.toml:3: units: force: 'kPa' is a unit of stress, not of force, e.g. '12 kN'")
 
 
 # --- values out of range -------------------------------------------------------

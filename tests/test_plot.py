@@ -213,7 +213,7 @@ def test_parallel_segments_are_separate_labelled_lines():
     force = _lines(fig, "force-lane-")
     assert len(force) == 2
     labels = [ln.get_label() for ln in force]
-    assert labels == ["bolt", r"\$leeve"]          # '$' kept literal, not math mode
+    assert labels == ["bolt, stem", r"\$leeve"]    # every segment of a lane; "$" kept literal
     assert force[0].get_linestyle() != force[1].get_linestyle()
     texts = {t.get_text() for ax in fig.axes for t in ax.texts}
     assert "bolt" in texts and r"\$leeve" in texts
@@ -310,8 +310,8 @@ def test_cli_plot_writes_the_chosen_case(tmp_path):
 
 @pytest.mark.parametrize("args, message", [
     (["--what", "forse"], "error: --what: unknown diagram 'forse'; did you mean 'force'?"),
-    (["--case", "pul"], "error: cases: unknown case 'pul'; did you mean 'pull'?"),
-    (["--case", "zzz"], "error: cases: unknown case 'zzz'; expected one of: 'push', 'pull'"),
+    (["--case", "pul"], "error: --case: unknown case 'pul'; did you mean 'pull'?"),
+    (["--case", "zzz"], "error: --case: unknown case 'zzz'; expected one of: 'push', 'pull'"),
 ])
 def test_cli_plot_errors(tmp_path, args, message):
     path = _write(tmp_path, STEPPED)

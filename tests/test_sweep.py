@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+from dataclasses import replace
 
 import numpy as np
 import pytest
@@ -211,3 +212,27 @@ def test_cli_sweep_errors(cli, rail):
     assert "error: give exactly one of --temperature-change, --temperature or --load-factor" in res.output
     res = cli("sweep", rail, "--load-factor", "0..2", "--case", "hot")
     assert res.exit_code == 2 and "unknown case 'hot'" in res.output
+
+
+def test_sweep_notes_the_thermal_input_it_replaces():
+    m, _ = two_walls(0.1e-3, 0.2e-3)
+    m = Model(m.stations, (m.segments[0], replace(m.segments[1], temperature_change=20.0)),
+              m.supports, gaps=m.gaps)
+    result = sweep(m, "temperature_change", 0.0, 10.0, 3)
+    assert result.notes[0] == ("the swept temperature replaces every segment's own thermal input, "
+                               "which in case 'base' varies by segment: 'steel' (0 K), 'alu' (20 K)")
+
+
+def test_load_factor_is_shown_without_a_unit(cli, tmp_path):
+    path = tmp_path / "bar.toml"
+    path.write_text(RAIL.replace('[[gaps]]', '[[loads]]\nat = "b"\nforce = "-100 kN"\n[[gaps]]'))
+    res = cli("sweep", path, "--load-factor", "0..2", "--steps", "3")
+    assert res.exit_code == 0
+    assert "load_factor from 0 to 2, 3 steps" in res.output
+    assert "at 0  " in res.output and " 1 " not in res.output.split("\n")[1]
+
+
+def test_temperature_below_absolute_zero_is_refused(rail):
+    with pytest.raises(ModelError) as err:
+        parse_range("-500 degC..20 degC", "temperature")
+    assert str(err.value) == "--temperature: '-500.0 degC' lies below absolute zero"
