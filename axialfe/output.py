@@ -224,11 +224,13 @@ _CHECK_HEADERS = ("check", "name", "demand", "capacity", "utilization", "result"
 
 
 def _check_cells(entry, units: OutputUnits):
+    from .checks import _num
+
     key = entry.quantity
     unit = getattr(units, key)
 
     def value(v):
-        return "-" if v is None else f"{_g(v / units.factor(key), 4)} {unit}"
+        return "-" if v is None else f"{_num(v / units.factor(key))} {unit}"
 
     util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
     return [entry.kind, entry.name, value(entry.demand), value(entry.capacity), util,
