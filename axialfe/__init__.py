@@ -10,6 +10,7 @@ Modules, one job each (anything not in ``axialfe.__all__`` is internal):
 - ``loading``: load states of cases and combinations as arrays;
 - ``assemble``: element stiffness, equivalent loads and the sparse global matrix;
 - ``solve``: factorisation, the gap search and recovery of forces and reactions;
+- ``sweep``: temperature and load-factor sweeps with exact events (``sweepout`` writes them);
 - ``results``: frozen result objects with named arrays and look-ups;
 - ``output``: tables, JSON, CSV and Markdown for the terminal and files;
 - ``checks``: design checks (strength, Euler buckling, deformation limits) of solved cases;
