@@ -190,7 +190,7 @@ class CheckReport:
                 "segment sets effective_length_factor or buckling_length (the default assumes "
                 "both end stations of a segment are braced laterally; give buckling_length for "
                 "an unbraced run)"
-                + (f"; strength NOT checked (no yield strength given): "
+                + ("; strength NOT checked (no yield strength given): "
                    + ", ".join(f"'{n}'" for n in self.unchecked) if self.unchecked else ""))
 
 

@@ -69,6 +69,14 @@ def output_units(model, force=None, length=None, displacement=None, stress=None)
     return OutputUnits(**base)
 
 
+def load(path, force=None, length=None, displacement=None, stress=None):
+    """Read a model file and the units to report it in (the model's, with the overrides)."""
+    from .modelfile import read_model
+
+    model = read_model(path)
+    return model, output_units(model, force, length, displacement, stress)
+
+
 def emit(text: str, output: Path | None):
     if output is None:
         typer.echo(text, nl=False)
@@ -88,13 +96,11 @@ def solve(model: ModelPath,
           output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a model: displacements, segment forces and stresses, reactions, gaps, checks."""
-    from .modelfile import read_model
     from .output import render
     from .solve import solve as run
 
     with user_errors():
-        m = read_model(model)
-        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         emit(render(solution, format.value, units), output)
 
@@ -157,7 +163,6 @@ def sweep(model: ModelPath,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a case along a temperature or load range and report the exact events."""
     from .errors import ModelError
-    from .modelfile import read_model
     from .sweep import parse_range, sweep as run
     from .sweepout import sweep_csv, sweep_json, sweep_summary
 
@@ -170,8 +175,7 @@ def sweep(model: ModelPath,
                              "--load-factor")
         parameter, text = given[0]
         start, stop, unit = parse_range(text, parameter)
-        m = read_model(model)
-        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case)
         long = steps * max(len(m.segments), 1) > 200_000 and format is not SweepFormat.table
         if format is SweepFormat.table:
@@ -329,23 +333,15 @@ def check(model: ModelPath,
     Exit code 0 when every check passes, 1 when any fails, 3 when none fails
     but some cannot be decided (an engineer must review them); 2 for bad input.
     """
-    import json
-
     from .checks import check_solution
-    from .modelfile import read_model
-    from .output import CAUTIONS, checks_table
+    from .output import checks_json, checks_table
     from .solve import solve as run
 
     with user_errors():
-        m = read_model(model)
-        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         report = check_solution(run(m), units)
         if format is CheckFormat.json:
-            text = json.dumps({"title": m.title, "units": units.as_dict(),
-                               "cases": [{"name": c.case, "checks": [e.to_dict() for e in c]}
-                                         for c in report.cases],
-                               "governing": report.governing_dict(), "status": report.status,
-                               "cautions": list(CAUTIONS)}, indent=2) + "\n"
+            text = checks_json(report, units, title=m.title)
         else:
             text = checks_table(report, units, title=m.title)
         emit(text, output)
@@ -362,7 +358,6 @@ def plot(model: ModelPath,
          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Draw the axial force, stress and displacement diagrams of one case."""
     from .errors import ModelError, suggest
-    from .modelfile import read_model
     from .plot import WHAT, _suffix, plot_case
     from .solve import solve as run
 
@@ -371,8 +366,7 @@ def plot(model: ModelPath,
             raise ModelError(f"--what: unknown diagram '{what}'", hint=suggest(what, WHAT),
                              options=WHAT)
         _suffix(output)
-        m = read_model(model)
-        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         result = _pick_case(run(m), case)
         plot_case(result, what, output, units)
         typer.echo(f"wrote {output}", err=True)
@@ -387,14 +381,12 @@ def report(model: ModelPath,
            force_unit: ForceUnit = None, length_unit: LengthUnit = None,
            displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Write a self-contained report: input, results, calculation sheet, checks, diagrams."""
-    from .modelfile import read_model
     from .report import report_format, write_report
     from .solve import solve as run
 
     with user_errors():
         fmt = report_format(output, format.value if format else None)
-        m = read_model(model)
-        units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         write_report(run(m), output, fmt, units)
         typer.echo(f"wrote {output}", err=True)
 

@@ -17,7 +17,7 @@ from pathlib import Path
 
 from ._gcpause import gc_paused
 from .errors import ModelError, suggest
-from .model import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
+from .model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
 from .units import OutputUnits, parse_quantity, split_quantity
 

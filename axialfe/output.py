@@ -273,6 +273,15 @@ def _governing_lines(checks, units: OutputUnits):
             f"check basis: {checks.settings_text()}"]
 
 
+def checks_json(checks, units: OutputUnits, title: str) -> str:
+    """The JSON form of ``axialfe check``: checks per case, governing entry, status."""
+    return json.dumps({"title": title, "units": units.as_dict(),
+                       "cases": [{"name": c.case, "checks": [e.to_dict() for e in c]}
+                                 for c in checks.cases],
+                       "governing": checks.governing_dict(), "status": checks.status,
+                       "cautions": list(CAUTIONS)}, indent=2) + "\n"
+
+
 def checks_table(checks, units: OutputUnits | None = None, title: str | None = None) -> str:
     """The checks of every case, the governing entry and the cautions, as text."""
     units = units or OutputUnits()

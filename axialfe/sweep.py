@@ -20,7 +20,7 @@ from .errors import ModelError, SolveError, suggest
 from .loading import LoadState, load_states
 from .model import Model
 from .results import CaseResult
-from .solve import System, _names, solve_gaps
+from .solve import System, solve_gaps
 from .units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
 

@@ -2,7 +2,6 @@
 
 import math
 import xml.etree.ElementTree as ET
-from dataclasses import dataclass
 from pathlib import Path
 
 import matplotlib.image as mpimg

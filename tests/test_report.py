@@ -7,7 +7,6 @@ import re
 from html.parser import HTMLParser
 from pathlib import Path
 
-import numpy as np
 import pytest
 from typer.testing import CliRunner
 
