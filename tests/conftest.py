@@ -11,6 +11,8 @@ from hypothesis import settings
 from axialfe.model import Material, Section
 
 settings.register_profile("axialfe", max_examples=40, derandomize=True, deadline=None)
+# a longer, randomised search for local runs: AXIALFE_HYPOTHESIS=thorough python -m pytest
+settings.register_profile("thorough", max_examples=500, deadline=None)
 settings.load_profile(os.environ.get("AXIALFE_HYPOTHESIS", "axialfe"))
 
 EXAMPLES = os.path.join(os.path.dirname(__file__), os.pardir, "examples")
