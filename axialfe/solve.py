@@ -207,22 +207,30 @@ class System:
     def solve_state(self, state: LoadState) -> CaseResult:
         """Solve one load state, gaps included."""
         F, u_presc, terms = self.state_vectors(state)
-        lam, shift = self.contact(F, u_presc, state.name)
+        lam, shift, closed = self.contact(F, u_presc, state.name, with_state=True)
         u = self.displacements(F, u_presc, lam, shift)
-        return self.recover(state, u, F, lam, terms)
+        return self.recover(state, u, F, lam, terms, closed)
 
-    def contact(self, F, u_presc, label=""):
-        """Find the gap forces (compression or tension magnitudes) and rigid shifts."""
+    def contact(self, F, u_presc, label="", with_state=False):
+        """Find the gap forces (compression or tension magnitudes) and rigid shifts.
+
+        With ``with_state``, also return the closed set the search ended with.
+        """
         g = len(self.model.gaps)
         if g == 0:
-            return np.zeros(0), np.zeros(self.n_parts)
+            none = (np.zeros(0), np.zeros(self.n_parts))
+            return none + (np.zeros(0, dtype=bool),) if with_state else none
         o0, f = self.gap_problem(F, u_presc)
         M, H = self.gap_matrix
-        return solve_gaps(M, H, o0, f, self, label)
+        return solve_gaps(M, H, o0, f, self, label, with_state=with_state)
 
     # --- recovery ----------------------------------------------------------
-    def recover(self, state: LoadState, u, F, lam, terms) -> CaseResult:
-        """Segment forces, stresses, reactions and the equilibrium residual from u."""
+    def recover(self, state: LoadState, u, F, lam, terms, closed=None) -> CaseResult:
+        """Segment forces, stresses, reactions and the equilibrium residual from u.
+
+        ``closed`` is the gap state the search ended with; without it a gap counts
+        as closed where its opening is zero to rounding.
+        """
         asm, model = self.asm, self.model
         delta0, G, W = terms
         e = asm.direction
@@ -269,9 +277,12 @@ class System:
         residual = float(np.abs(balance).max() / scale) if scale > 0 else 0.0
 
         opening = self.clearance - self.B @ u if g else np.zeros(0)
-        tol = _gap_tol(self, u)
-        closed = opening <= tol if g else np.zeros(0, dtype=bool)
-        opening = np.where(closed, 0.0, opening)
+        if closed is None:
+            closed = opening <= _gap_tol(self, u, delta0, F) if g else np.zeros(0, dtype=bool)
+        closed = np.asarray(closed, dtype=bool)
+        # an overlap at the level of rounding shows as 0; a real one would stay visible
+        tiny = (opening < 0) & (opening >= -_gap_tol(self, u, delta0, F)) if g else closed
+        opening = np.where(closed | tiny, 0.0, opening)
         sign = np.array([-1.0 if gp.kind == "contact" else 1.0 for gp in model.gaps])
         gap_force = sign * lam if g else np.zeros(0)
         gap_force = np.where(gap_force == 0, 0.0, gap_force)
@@ -289,8 +300,13 @@ class System:
             gap_opening=opening, gap_closed=closed, equilibrium_residual=residual)
 
 
-def _gap_tol(system, u):
-    scale = max(np.abs(u).max(initial=0), system.clearance.max(initial=0))
+def _gap_tol(system, u, delta0=None, F=None):
+    """Rounding bound of a gap opening: displacements, clearances, free changes of length
+    (thermal strain and misfit) and the stretch the loads could cause set the scale of the
+    numbers it is computed from."""
+    scale = max(np.abs(u).max(initial=0), system.clearance.max(initial=0),
+                0.0 if delta0 is None else np.abs(delta0).max(initial=0),
+                0.0 if F is None else np.abs(F).max(initial=0) / system.asm.stiffness.min())
     return 1e-10 * scale + 1e-300
 
 

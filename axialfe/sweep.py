@@ -248,7 +248,8 @@ class _Tracker:
         lam = self._at(iv.lam, s) if iv.lam[0].size else np.zeros(0)
         u = self._at(iv.u, s)
         terms = tuple(self._at(t, s) for t in self.terms)
-        return system.recover(self.state(s), u, F, np.maximum(lam, 0.0) if lam.size else lam, terms)
+        return system.recover(self.state(s), u, F, np.maximum(lam, 0.0) if lam.size else lam, terms,
+                              iv.closed)
 
     def interval_of(self, s):
         for iv in self.intervals:
