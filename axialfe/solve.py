@@ -225,22 +225,27 @@ class System:
         return solve_gaps(M, H, o0, f, self, label, with_state=with_state)
 
     # --- recovery ----------------------------------------------------------
-    def recover(self, state: LoadState, u, F, lam, terms, closed=None) -> CaseResult:
+    def recover(self, state: LoadState, u, F, lam, terms, closed=None,
+                magnitudes=None) -> CaseResult:
         """Segment forces, stresses, reactions and the equilibrium residual from u.
 
         ``closed`` is the gap state the search ended with; without it a gap counts
-        as closed where its opening is zero to rounding.
+        as closed where its opening is zero to rounding.  ``magnitudes`` bounds the
+        size of the numbers u, F, lam and the terms were computed from, as
+        (|u|, |F|, |lam|, |delta0|, |G|, |W|), when they come from a sum (a sweep's
+        a + s*b) that may have cancelled; it sets the rounding bounds below.
         """
         asm, model = self.asm, self.model
         delta0, G, W = terms
+        mu, mF, mlam, md0, mG, mW = magnitudes if magnitudes is not None else (
+            np.abs(u), np.abs(F), np.abs(lam), np.abs(delta0), np.abs(G), np.abs(W))
         e = asm.direction
         du = e * (u[asm.end] - u[asm.start])
         k = asm.stiffness
         n_from = k * (du - delta0) + k * G
         # rounding bound of N: du is a difference of two displacements, so its error
         # scales with their size, not with du itself
-        noise = 1e3 * _EPS * (k * (np.abs(u[asm.start]) + np.abs(u[asm.end]) + np.abs(delta0)
-                                   + np.abs(G)) + np.abs(W))
+        noise = 1e3 * _EPS * (k * (mu[asm.start] + mu[asm.end] + md0 + mG) + mW)
         n_from = np.where(np.abs(n_from) < noise, 0.0, n_from)
         n_to = n_from - W
         n_to = np.where(np.abs(n_to) < noise, 0.0, n_to)
@@ -250,7 +255,7 @@ class System:
         gap_nodal = self.BT @ lam if g else np.zeros(asm.n)
         Ku = self.K @ u
         R_station = Ku - F + gap_nodal
-        noise_R = 1e3 * _EPS * (self._abs_K @ np.abs(u) + np.abs(F) + np.abs(gap_nodal))
+        noise_R = 1e3 * _EPS * (self._abs_K @ mu + mF + (abs(self.BT) @ mlam if g else 0.0))
         R_station = np.where(np.abs(R_station) < noise_R, 0.0, R_station)
         reactions = np.zeros(len(model.supports))
         reactions[self.presc_support] = R_station[self.presc]

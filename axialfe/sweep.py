@@ -207,6 +207,37 @@ class _Tracker:
         return solve_gaps(self.M, self.H, self._at(self.o0, s), self._at(self.f, s), system,
                           with_state=True)[2]
 
+    def holds(self, closed, s) -> bool:
+        """Whether the gap state ``closed`` is the equilibrium at ``s``.
+
+        Exact for a fixed state (its forces and openings are affine in s), so a
+        state just past an event can be tested without any solver tolerance.
+        """
+        try:
+            lam, shift = self.affine_forces(closed)
+        except SolveError:
+            return False
+        force = self._at(lam, s)
+        opening = self._at(self.o0, s) + self.M @ force - self.H @ self._at(shift, s)
+        tol_f = 1e-12 * max(np.abs(force).max(initial=0), 1e-300)
+        tol_o = 1e-12 * max(np.abs(opening).max(initial=0),
+                            self.system.clearance.max(initial=0), 1e-300)
+        return bool(np.all(force[closed] >= -tol_f) and np.all(opening[~closed] >= -tol_o))
+
+    def state_after(self, s, direction, span, guess=None):
+        """The gap state just past ``s`` in ``direction``.
+
+        The guess (the state with the gaps that reached zero flipped) is tried
+        first; then the exact search close past s, then a little further.
+        """
+        probe = s + direction * 1e-7 * span
+        if guess is not None and self.holds(guess, probe):
+            return guess
+        state = self.gap_state(s + direction * 1e-9 * span)
+        if self.holds(state, probe):
+            return state
+        return self.gap_state(probe)
+
     def affine_forces(self, closed):
         """Gap forces and rigid shifts for a fixed closed set, affine in s."""
         M, H = self.M, self.H
@@ -248,8 +279,14 @@ class _Tracker:
         lam = self._at(iv.lam, s) if iv.lam[0].size else np.zeros(0)
         u = self._at(iv.u, s)
         terms = tuple(self._at(t, s) for t in self.terms)
+
+        def size(pair):  # a bound on |a + s*b| before any cancellation
+            return np.abs(pair[0]) + abs(s) * np.abs(pair[1])
+
+        magnitudes = (size(iv.u), size(self.F), size(iv.lam) if lam.size else lam,
+                      *(size(t) for t in self.terms))
         return system.recover(self.state(s), u, F, np.maximum(lam, 0.0) if lam.size else lam, terms,
-                              iv.closed)
+                              iv.closed, magnitudes)
 
     def interval_of(self, s):
         for iv in self.intervals:
@@ -348,7 +385,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
 
     s = s_start
     try:
-        closed = tracker.gap_state(s + direction * delta) if g else np.zeros(0, dtype=bool)
+        closed = (tracker.state_after(s, direction, max(span, 1e-12)) if g
+                  else np.zeros(0, dtype=bool))
     except SolveError as exc:
         raise lost(exc, s) from None
     first = True
@@ -370,6 +408,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         s_next = s_stop
         if candidates and (candidates[0] - s_stop) * direction < 0:
             s_next = float(candidates[0])
+            hitting = ahead & (np.abs(root - s_next) <= 1e-9 * max(span, 1e-12))
         # yield events inside [s, s_next]: stresses are affine there
         if np.isfinite(yield_strength).any():
             r0, r1 = tracker._result(iv_probe, 0.0), tracker._result(iv_probe, 1.0)
@@ -400,7 +439,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         if s_next == s_stop:
             break
         try:
-            new_closed = tracker.gap_state(s_next + direction * delta)
+            new_closed = tracker.state_after(s_next, direction, max(span, 1e-12),
+                                             guess=closed ^ hitting)
         except SolveError as exc:
             raise lost(exc, s_next) from None
         for j in np.flatnonzero(new_closed != closed):

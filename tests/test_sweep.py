@@ -7,11 +7,13 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
+from hypothesis import given, strategies as st
 
 from axialfe import Gap, Load, Model, ModelError, Segment, SolveError, Station, Support, solve
 from axialfe.sweep import parse_range, sweep
 
 from conftest import area, assert_close, steel
+from test_gaps import gap_models
 
 RAIL = """
 title = "rail with joint"
@@ -236,3 +238,36 @@ def test_temperature_below_absolute_zero_is_refused(rail):
     with pytest.raises(ModelError) as err:
         parse_range("-500 degC..20 degC", "temperature")
     assert str(err.value) == "--temperature: '-500.0 degC' lies below absolute zero"
+
+
+_DT = st.floats(-120.0, 120.0).map(lambda v: round(v, 3))  # no subnormal temperature changes
+
+
+@given(gap_models(), _DT, _DT)
+def test_sweep_equals_direct_solves_on_random_gap_models(model, a, b):
+    # the tracked path must agree with an independent solve at every grid value, and each
+    # reported event must be a change of state between the values just before and after it
+    from hypothesis import assume
+
+    assume(abs(a - b) > 1.0)
+    try:
+        result = sweep(model, "temperature_change", a, b, 7)
+        steps = list(result.results)
+    except SolveError:
+        return  # a lost equilibrium along the way is reported, and tested elsewhere
+    for value, res in zip(result.values, steps):
+        direct = solve(Model(model.stations, model.segments, model.supports, model.loads,
+                             gaps=model.gaps, temperature_change=float(value)))["base"]
+        scale = max(np.abs(direct.u).max(), 1e-5)  # 1e-12 m at the least: rounding, not mechanics
+        assert_close(res.u, direct.u, rel=1e-7, abs_=1e-7 * scale)
+        assert res.equilibrium_residual <= 1e-9
+    span = abs(b - a)
+    for event in result.events:
+        if event.event == "yields":
+            continue
+        j = [g.name for g in model.gaps].index(event.name)
+        step = 1e-6 * span * (1 if b > a else -1)
+        lo, hi = sorted((a, b))
+        if lo < event.value - abs(step) and event.value + abs(step) < hi:
+            before, after = result.result_at(event.value - step), result.result_at(event.value + step)
+            assert before.gap_closed[j] != after.gap_closed[j]
