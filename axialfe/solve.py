@@ -336,10 +336,10 @@ def _bpp(M, q, scale_q, names):
             try:
                 factor = cho_factor(sub, check_finite=False)
             except np.linalg.LinAlgError:
-                raise SolveError("the contact state is not unique: gaps "
-                                 f"{_names([names[i] for i in np.flatnonzero(closed)])} act "
-                                 "together on the same stations, so their forces cannot be "
-                                 "told apart; remove the redundant gap") from None
+                # gaps acting on dependent motions: M is only semidefinite here, which
+                # Lemke's method handles; the forces are unique only if the gaps the
+                # answer closes are independent
+                return _semidefinite(M, q, names, closed)
             z[closed] = cho_solve(factor, -q[closed], check_finite=False)
         w = q + M @ z
         bad = (closed & (z < -tol_z)) | (~closed & (w < -tol_w))
@@ -356,6 +356,21 @@ def _bpp(M, q, scale_q, names):
             i = int(np.flatnonzero(bad)[-1])
             closed[i] = not closed[i]
     raise SolveError("the contact search did not settle")  # not reached for PD matrices
+
+
+def _semidefinite(M, q, names, tried):
+    """The LCP of a semidefinite M (redundant gaps), by Lemke's method."""
+    n = len(q)
+    z, basic = _lemke(M, q, 100 * n + 100)
+    if z is not None:
+        sub = M[np.ix_(basic, basic)]
+        if not basic.any() or np.linalg.matrix_rank(sub) == int(basic.sum()):
+            return np.where(basic, np.maximum(z, 0.0), 0.0), basic
+        tried = basic
+    raise SolveError("the contact state is not unique: gaps "
+                     f"{_names([names[i] for i in np.flatnonzero(tried)])} act together on the "
+                     "same stations, so their forces cannot be told apart; remove the redundant "
+                     "gap")
 
 
 def _lemke(Mb, qb, max_iter):

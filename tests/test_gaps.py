@@ -236,7 +236,7 @@ def gap_models(draw):
                 continue
             used.add(frozenset((i, k)))
             gaps.append(Gap(f"g{j}", (names[i], names[k]), c, kind))
-    dT = draw(st.floats(-80.0, 80.0))
+    dT = round(draw(st.floats(-80.0, 80.0)), 3)  # no subnormal temperature changes
     return Model([Station(nm, float(x)) for nm, x in zip(names, xs)], segments, supports, loads,
                  gaps=gaps, temperature_change=dT)
 
