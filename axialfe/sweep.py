@@ -167,6 +167,21 @@ def parse_range(text: str, parameter: str) -> tuple[float, float, str]:
     return a, b_in, unit
 
 
+def _singular(A, p) -> bool:
+    """Whether the system of a gap state is singular to rounding.
+
+    Without gap-held parts (p = 0) it is symmetric positive semidefinite and a
+    Cholesky factorisation tells; otherwise (small systems) the condition number.
+    """
+    if p == 0:
+        try:
+            pivots = np.diag(np.linalg.cholesky(A)) ** 2
+        except np.linalg.LinAlgError:
+            return True
+        return bool(pivots.min() <= 1e-12 * pivots.max())
+    return bool(np.linalg.cond(A) > 1e12)
+
+
 class _Tracker:
     """Follows the piecewise-affine path of one case along the internal parameter s."""
 
@@ -207,36 +222,41 @@ class _Tracker:
         return solve_gaps(self.M, self.H, self._at(self.o0, s), self._at(self.f, s), system,
                           with_state=True)[2]
 
-    def holds(self, closed, s) -> bool:
-        """Whether the gap state ``closed`` is the equilibrium at ``s``.
+    def violations(self, closed, s):
+        """The gaps that break the state ``closed`` at ``s`` (None: the state is singular).
 
         Exact for a fixed state (its forces and openings are affine in s), so a
-        state just past an event can be tested without any solver tolerance.
+        state just past an event is tested without any solver tolerance.
         """
         try:
             lam, shift = self.affine_forces(closed)
         except SolveError:
-            return False
+            return None
         force = self._at(lam, s)
         opening = self._at(self.o0, s) + self.M @ force - self.H @ self._at(shift, s)
         tol_f = 1e-12 * max(np.abs(force).max(initial=0), 1e-300)
         tol_o = 1e-12 * max(np.abs(opening).max(initial=0),
                             self.system.clearance.max(initial=0), 1e-300)
-        return bool(np.all(force[closed] >= -tol_f) and np.all(opening[~closed] >= -tol_o))
+        return (closed & (force < -tol_f)) | (~closed & (opening < -tol_o))
 
     def state_after(self, s, direction, span, guess=None):
         """The gap state just past ``s`` in ``direction``.
 
-        The guess (the state with the gaps that reached zero flipped) is tried
-        first; then the exact search close past s, then a little further.
+        Starting from the guess (the state with the gaps that reached zero
+        flipped) or from the exact search close past s, the gaps that break the
+        state just past s are flipped until none does; if that does not settle,
+        the exact search a little further on decides.
         """
         probe = s + direction * 1e-7 * span
-        if guess is not None and self.holds(guess, probe):
-            return guess
-        state = self.gap_state(s + direction * 1e-9 * span)
-        if self.holds(state, probe):
-            return state
-        return self.gap_state(probe)
+        state = guess if guess is not None else self.gap_state(s + direction * 1e-9 * span)
+        for _ in range(2 * len(state) + 2):
+            bad = self.violations(state, probe)
+            if bad is None:
+                break
+            if not bad.any():
+                return state
+            state = state ^ bad
+        return self.gap_state(s + direction * 1e-4 * span)
 
     def affine_forces(self, closed):
         """Gap forces and rigid shifts for a fixed closed set, affine in s."""
@@ -244,6 +264,12 @@ class _Tracker:
         C = np.flatnonzero(closed)
         p = H.shape[1]
         A = np.block([[M[np.ix_(C, C)], -H[C]], [H[C].T, np.zeros((p, p))]])
+        if len(A) and _singular(A, p):
+            # closed gaps acting on dependent motions: their forces have no unique split
+            names = ", ".join(f"'{self.system.model.gaps[j].name}'" for j in C)
+            raise SolveError(f"the contact state is not unique: gaps {names} act together on the "
+                             "same stations, so their forces cannot be told apart; remove the "
+                             "redundant gap")
         out = []
         for s in (0.0, 1.0):
             rhs = np.concatenate([-self._at(self.o0, s)[C], self._at(self.f, s)])
@@ -391,7 +417,11 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         raise lost(exc, s) from None
     first = True
     for _ in range(10_000 + 100 * g):
-        lam, shift = tracker.affine_forces(closed) if g else ((np.zeros(0),) * 2, (np.zeros(0),) * 2)
+        try:
+            lam, shift = (tracker.affine_forces(closed) if g
+                          else ((np.zeros(0),) * 2, (np.zeros(0),) * 2))
+        except SolveError as exc:
+            raise lost(exc, s) from None
         iv_probe = tracker.interval(s, s_stop, closed, lam, shift)
         # gap events: a closed gap's force, or an open gap's opening, reaching zero
         candidates = []
