@@ -354,7 +354,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         raise ModelError(f"unknown sweep parameter '{parameter}'", hint=suggest(parameter, PARAMETERS),
                          options=PARAMETERS)
     if steps < 2:
-        raise ModelError(f"--steps must be at least 2 (both ends of the range): got {steps}",
+        raise ModelError(f"must be at least 2 (both ends of the range): got {steps}",
                          place="--steps")
     states = load_states(model)
     names = [s.name for s in states]

@@ -271,3 +271,9 @@ def test_sweep_equals_direct_solves_on_random_gap_models(model, a, b):
         if lo < event.value - abs(step) and event.value + abs(step) < hi:
             before, after = result.result_at(event.value - step), result.result_at(event.value + step)
             assert before.gap_closed[j] != after.gap_closed[j]
+
+
+def test_too_few_steps(cli, rail):
+    res = cli("sweep", rail, "--temperature-change", "0 K..10 K", "--steps", "1")
+    assert res.exit_code == 2
+    assert "error: --steps: must be at least 2 (both ends of the range): got 1" in res.output
