@@ -356,17 +356,23 @@ def _draw_sketch(ax, result, units):
     ax.add_collection(PolyCollection(blocks, closed=True, facecolors=BLOCK_FACE, edgecolors=edges,
                                      linewidths=0.9 if len(blocks) <= 400 else 0.0))
     lo, hi = xs.min(), xs.max()
+    centres = 0.5 - (lane - (n_lanes - 1) / 2) * band
     for sup in model.supports:
         x = xs[idx[sup.at]]
         side = -1.0 if x <= lo + 0.5 * span else 1.0   # the wall stands outside the bar
         wall = x + side * (0.035 * span if sup.kind == "spring" else 0.0)
-        ax.plot([wall, wall], [0.1, 0.9], color=SUPPORT_COLOUR, linewidth=2.0)
-        for y in np.linspace(0.12, 0.88, 7):
+        # the wall spans only the lanes of the segments it holds, so a support of one
+        # part is not drawn across a parallel part that passes the same x
+        held = [c for c, seg in zip(centres, model.segments) if sup.at in (seg.start, seg.end)]
+        y_lo, y_hi = ((min(held) - 0.4 * band, max(held) + 0.4 * band) if held else (0.1, 0.9))
+        ax.plot([wall, wall], [y_lo, y_hi], color=SUPPORT_COLOUR, linewidth=2.0)
+        n_hatch = max(3, int(round(7 * (y_hi - y_lo) / 0.8)))
+        for y in np.linspace(y_lo + 0.02, y_hi - 0.08, n_hatch):
             ax.plot([wall, wall + side * 0.012 * span], [y, y + 0.06], color=SUPPORT_COLOUR,
                     linewidth=0.8)
         if sup.kind == "spring":
             zx = np.linspace(x, wall, 11)
-            zy = 0.5 + 0.06 * np.array([0, 1, -1, 1, -1, 1, -1, 1, -1, 1, 0])
+            zy = 0.5 * (y_lo + y_hi) + 0.06 * np.array([0, 1, -1, 1, -1, 1, -1, 1, -1, 1, 0])
             ax.plot(zx, zy, color=SUPPORT_COLOUR, linewidth=0.9)
         if sup.kind == "settlement":
             ax.annotate("", (wall + side * 0.03 * span, 0.95), (wall, 0.95),
