@@ -271,23 +271,19 @@ def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUn
         util = compression * sf / p_cr
         slender = k * length / math.sqrt(inertia / area)
         fy = seg.material.yield_strength
-        if fy is None:
-            out.append(CheckEntry("buckling", seg.name, case, util, None,
-                                  f"{basis}; no yield strength given for material "
-                                  f"'{seg.material.name}', so the slenderness limit pi*sqrt(E/f_y) "
-                                  "of the Euler formula is unknown: an engineer must judge",
-                                  "force", compression, p_cr, k, length, slender, None))
-            continue
-        limit = math.pi * math.sqrt(E / fy)
-        if slender < limit:
-            out.append(CheckEntry("buckling", seg.name, case, util, None,
-                                  f"{basis}; slenderness K*L/r = {slender:.4g} is below the Euler "
-                                  f"limit pi*sqrt(E/f_y) = {limit:.4g}: an inelastic column curve "
-                                  "from the applicable code governs",
-                                  "force", compression, p_cr, k, length, slender, limit))
-            continue
-        out.append(CheckEntry("buckling", seg.name, case, util, util <= 1.0, basis, "force",
-                              compression, p_cr, k, length, slender, limit))
+        limit = None if fy is None else math.pi * math.sqrt(E / fy)
+        if limit is None:
+            ok, note = None, (f"{basis}; no yield strength given for material "
+                              f"'{seg.material.name}', so the slenderness limit pi*sqrt(E/f_y) "
+                              "of the Euler formula is unknown: an engineer must judge")
+        elif slender < limit:
+            ok, note = None, (f"{basis}; slenderness K*L/r = {slender:.4g} is below the Euler "
+                              f"limit pi*sqrt(E/f_y) = {limit:.4g}: an inelastic column curve "
+                              "from the applicable code governs")
+        else:
+            ok, note = util <= 1.0, basis
+        out.append(CheckEntry("buckling", seg.name, case, util, ok, note, "force", compression,
+                              p_cr, k, length, slender, limit))
     return out
 
 

@@ -94,7 +94,7 @@ def summary_line(model) -> str:
     return ", ".join(parts)
 
 
-def to_table(solution: Solution, units: OutputUnits | None = None, extra=None, checks=None) -> str:
+def to_table(solution: Solution, units: OutputUnits | None = None, checks=None) -> str:
     """The readable terminal report (with the checks of ``checks``, a CheckReport, when given)."""
     units = units or solution.model.units
     data = solution.to_dict(units)
@@ -120,22 +120,17 @@ def to_table(solution: Solution, units: OutputUnits | None = None, extra=None, c
     if checks is not None:
         out += _governing_lines(checks, units)
         out.append("")
-    if extra:
-        out += extra
     out.append("cautions:")
     out += [f" - {c}" for c in CAUTIONS]
     return "\n".join(out) + "\n"
 
 
-def to_json(solution: Solution, units: OutputUnits | None = None, extra: dict | None = None,
-            checks=None) -> str:
+def to_json(solution: Solution, units: OutputUnits | None = None, checks=None) -> str:
     data = solution.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
         for case in data["cases"]:
             case["checks"] = [e.to_dict() for e in checks.case(case["name"])]
         data["governing"] = checks.governing_dict()
-    if extra:
-        data.update(extra)
     data["cautions"] = list(CAUTIONS)
     return json.dumps(data, indent=2) + "\n"
 

@@ -185,11 +185,11 @@ def _singular(A, p) -> bool:
 class _Tracker:
     """Follows the piecewise-affine path of one case along the internal parameter s."""
 
-    def __init__(self, system: System, base: LoadState, parameter: str, to_user):
+    def __init__(self, system: System, base: LoadState, parameter: str, from_user):
         self.system = system
         self.base = base
         self.parameter = parameter
-        self.to_user = to_user
+        self.from_user = from_user  # the user's parameter value to the internal s
         s0, s1 = self.state(0.0), self.state(1.0)
         F0, up0, t0 = system.state_vectors(s0)
         F1, up1, t1 = system.state_vectors(s1)
@@ -323,7 +323,7 @@ class _Tracker:
 
 
 def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
-          unit: str | None = None, case: str | None = None, progress=None) -> SweepResult:
+          unit: str | None = None, case: str | None = None) -> SweepResult:
     """Solve a case along a parameter range and find its events exactly.
 
     Parameters
@@ -390,8 +390,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
                      f"in case '{base.name}' varies by segment: " + ", ".join(own[:6])
                      + (f" and {len(own) - 6} more" if len(own) > 6 else ""))
     system = System(model)
-    tracker = _Tracker(system, base, parameter, to_user)
-    tracker.from_user = to_internal
+    tracker = _Tracker(system, base, parameter, to_internal)
     s_start, s_stop = to_internal(start), to_internal(stop)
     direction = 1.0 if s_stop >= s_start else -1.0
     span = abs(s_stop - s_start)
@@ -477,8 +476,6 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
             events.append(Event(gaps[j].name, _GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
                                 to_user(s_next)))
         closed, s = new_closed, s_next
-        if progress is not None:
-            progress(abs(s - s_start) / max(span, 1e-300))
     else:
         raise SolveError("the sweep found too many changes of state to follow", file=model.source)
 
