@@ -1,23 +1,22 @@
 """axialfe: axially loaded members by the direct stiffness method.
 
-Modules, one job each (anything not in ``axialfe.__all__`` is internal):
+The package is laid out by stage; a floor imports only the floors below it
+(anything not in ``axialfe.__all__`` is internal and may change):
 
-- ``model``: the input concepts, frozen dataclasses in SI floats that check themselves;
-- ``units``: the only module that imports pint; strings with units in, SI floats out;
-- ``modelfile``: the TOML reader, with located, one-line errors;
-- ``expressions``: the whitelist parser of symbolic model values (symbols, numbers, units);
-- ``symbolic``: closed forms, the same system assembled and solved exactly with sympy;
-- ``loading``: load states of cases and combinations as arrays;
-- ``assemble``: element stiffness, equivalent loads and the sparse global matrix;
-- ``solve``: factorisation, the gap search and recovery of forces and reactions;
-- ``sweep``: temperature and load-factor sweeps with exact events (``sweepout`` writes them);
-- ``results``: frozen result objects with named arrays and look-ups;
-- ``output``: tables, JSON, CSV and Markdown for the terminal and files;
-- ``checks``: design checks (strength, Euler buckling, deformation limits) of solved cases;
-- ``plot``: force, stress and displacement diagrams and sweep plots (matplotlib, Agg);
-- ``report``: the self-contained HTML or Markdown report document;
-- ``cli``: the thin typer command line;
-- ``errors``: the exception family.
+- ``errors``, ``units``: the exception family; the only module that imports pint;
+- ``model/``: the input concepts (frozen, self-checking, SI floats) and the one
+  rule of what cases and combinations put on a model;
+- ``materials/``: the built-in material library;
+- ``mechanics/``: the bar element: sections, flexibility, load integrals and the
+  fields N(s), sigma(s), u(s) inside a segment, generic over numpy and sympy;
+- ``engine/``: assembly, connectivity, factorisation, the gap search, recovery;
+- ``results``: frozen result objects with named, read-only arrays;
+- ``tracking/``: sweeps with exact events;
+- ``symbolic/``: the whitelist expression parser and the closed-form solve;
+- ``checks/``: design checks of solved cases;
+- ``io/``: the model-file reader;
+- ``output/``: terminal tables, JSON, CSV, diagrams and the report;
+- ``cli/``: the typer command line.
 """
 
 from importlib.metadata import PackageNotFoundError, version
@@ -25,9 +24,9 @@ from importlib.metadata import PackageNotFoundError, version
 from .errors import AxialfeError, ModelError, SolveError, UnitError
 from .model import (Case, Combination, Gap, Load, Material, Model, Section, Segment, Station,
                     Support)
-from .modelfile import builtin_materials, parse_model, read_model
+from .io.modelfile import builtin_materials, parse_model, read_model
 from .results import CaseResult, Solution
-from .solve import System, solve
+from .engine.system import System, solve
 
 try:
     __version__ = version("axialfe")
@@ -48,7 +47,7 @@ __all__ = [
 def __getattr__(name):
     # solve_symbolic needs sympy: imported on first use, so `axialfe solve` starts fast
     if name == "solve_symbolic":
-        from .symbolic import solve_symbolic
+        from .symbolic.closed_form import solve_symbolic
 
         return solve_symbolic
     raise AttributeError(f"module 'axialfe' has no attribute '{name}'")

@@ -22,10 +22,10 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))  # this checkout's axialfe
 
-from axialfe.assemble import assemble
-from axialfe.loading import load_states
+from axialfe.engine.assembly import assemble
+from axialfe.model.cases import load_states
 from axialfe.model import Load, Material, Model, Section, Segment, Station, Support
-from axialfe.solve import System
+from axialfe.engine.system import System
 
 
 def build(n: int, seed: int = 1) -> Model:

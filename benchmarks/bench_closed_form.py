@@ -40,9 +40,9 @@ def main():
     t0 = time.perf_counter()
     import sympy  # noqa: F401  (import cost counted apart)
 
-    from axialfe.modelfile import parse_model
-    from axialfe.solve import solve
-    from axialfe.symbolic import closed_form_dict, numeric_model, solve_symbolic
+    from axialfe.io.modelfile import parse_model
+    from axialfe.engine.system import solve
+    from axialfe.symbolic.closed_form import closed_form_dict, numeric_model, solve_symbolic
 
     t1 = time.perf_counter()
     model = parse_model(model_text(), "bench.toml", symbolic=True)

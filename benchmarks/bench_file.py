@@ -28,9 +28,9 @@ import numpy as np
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))  # this checkout's axialfe
 
-from axialfe.modelfile import read_model  # noqa: E402
-from axialfe.output import render  # noqa: E402
-from axialfe.solve import solve  # noqa: E402
+from axialfe.io.modelfile import read_model  # noqa: E402
+from axialfe.output.text import render  # noqa: E402
+from axialfe.engine.system import solve  # noqa: E402
 
 
 def write_model(path: Path, n: int, seed: int = 2) -> None:

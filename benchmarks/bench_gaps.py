@@ -14,7 +14,7 @@ import time
 import numpy as np
 
 from axialfe import Gap, Load, Material, Model, Section, Segment, Station, Support, solve
-from axialfe.sweep import sweep
+from axialfe.tracking.sweep import sweep
 
 
 def chain_with_gaps(n_seg, n_gaps, seed=1):

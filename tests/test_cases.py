@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from axialfe import Case, Combination, Gap, Load, Model, ModelError, Segment, Station, Support, solve
-from axialfe.modelfile import parse_model
+from axialfe.io.modelfile import parse_model
 
 from conftest import area, assert_close, steel
 

@@ -10,7 +10,7 @@ from axialfe import ModelError, parse_model, solve
 from axialfe.checks import check_case, check_solution
 from axialfe.cli import app
 from axialfe.model import Limit
-from axialfe.modelfile import builtin_materials
+from axialfe.io.modelfile import builtin_materials
 
 runner = CliRunner()
 
@@ -483,7 +483,7 @@ def test_json_nulls_for_undecided_entries(tmp_path):
 
 def test_governing_line_names_a_failure_without_utilization():
     # the heavy case closes the stop, which must keep 0.05 mm: a failure with no utilization
-    from axialfe.output import _governing_lines
+    from axialfe.output.text import _governing_lines
 
     report = check_solution(solve(limits_model(allow="10 mm")))
     assert report.status == "fail"

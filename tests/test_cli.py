@@ -11,8 +11,8 @@ import pytest
 from typer.testing import CliRunner
 
 from axialfe.cli import app
-from axialfe.modelfile import builtin_materials
-from axialfe.output import CAUTIONS
+from axialfe.io.modelfile import builtin_materials
+from axialfe.output.text import CAUTIONS
 
 ROOT = Path(__file__).resolve().parent.parent
 STEPPED = ROOT / "examples" / "stepped-rod-between-walls.toml"

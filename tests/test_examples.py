@@ -13,7 +13,7 @@ import pytest
 from typer.testing import CliRunner
 
 from axialfe.cli import app
-from axialfe.modelfile import read_model
+from axialfe.io.modelfile import read_model
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "examples"
 FILES = sorted(EXAMPLES.glob("*.toml"))

@@ -8,9 +8,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from axialfe.errors import ModelError, UnitError
-from axialfe.expressions import parse_expression, read_symbol
-from axialfe.modelfile import parse_model
-from axialfe.solve import solve
+from axialfe.symbolic.expressions import parse_expression, read_symbol
+from axialfe.io.modelfile import parse_model
+from axialfe.engine.system import solve
 
 LENGTH = (("[length]", Fraction(1)),)
 FORCE = (("[length]", Fraction(1)), ("[mass]", Fraction(1)), ("[time]", Fraction(-2)))

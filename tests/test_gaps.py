@@ -9,7 +9,7 @@ import pytest
 from hypothesis import given, strategies as st
 
 from axialfe import Gap, Load, Model, Segment, SolveError, Station, Support, solve
-from axialfe.modelfile import parse_model
+from axialfe.io.modelfile import parse_model
 
 from conftest import area, assert_close, steel
 
@@ -173,8 +173,8 @@ clearance = "0.5 mm"
 def _brute_force(model):
     """Try every gap state with a dense KKT solve; return the states that satisfy
     complementarity (the LCP of a positive definite system has exactly one)."""
-    from axialfe.solve import System
-    from axialfe.loading import load_states
+    from axialfe.engine.system import System
+    from axialfe.model.cases import load_states
 
     system = System(model)
     F, up, _ = system.state_vectors(load_states(model)[0])
@@ -268,8 +268,8 @@ def test_contact_state_matches_brute_force(model):
 def test_residual_detects_an_unbalanced_solution():
     # The residual is an independent check: recovering forces from slightly wrong
     # displacements must show the imbalance at about the size of the error.
-    from axialfe.loading import load_states
-    from axialfe.solve import System
+    from axialfe.model.cases import load_states
+    from axialfe.engine.system import System
 
     model = bar_with_stop(90e3, 1.5, 1e-3)
     system = System(model)

@@ -8,8 +8,8 @@ the suggestion.  Line numbers are those of BASE below (counted by hand).
 import pytest
 
 from axialfe.errors import ModelError, SolveError, UnitError
-from axialfe.modelfile import builtin_materials, parse_model, read_model
-from axialfe.solve import solve
+from axialfe.io.modelfile import builtin_materials, parse_model, read_model
+from axialfe.engine.system import solve
 
 BASE = """\
 title = "base"

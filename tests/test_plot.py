@@ -11,9 +11,9 @@ from typer.testing import CliRunner
 
 from axialfe import ModelError, parse_model, read_model, solve
 from axialfe.cli import app
-from axialfe.loading import load_states
-from axialfe.plot import diagram_data, lanes, plot_case, plot_sweep
-from axialfe.solve import System
+from axialfe.model.cases import load_states
+from axialfe.output.plot import diagram_data, lanes, plot_case, plot_sweep
+from axialfe.engine.system import System
 
 runner = CliRunner()
 ROOT = Path(__file__).parent.parent
@@ -234,7 +234,7 @@ def test_series_bar_is_one_line_with_a_jump_at_the_shoulder():
     # compression is shaded below the axis in its own colour, from the shoulder to the wall
     from matplotlib.colors import to_rgb
 
-    from axialfe.plot import COMPRESSION, TENSION
+    from axialfe.output.plot import COMPRESSION, TENSION
 
     def shaded(colour):
         out = []
@@ -337,7 +337,7 @@ def test_every_example_plots(tmp_path, path):
 
 
 # --- sweeps ---------------------------------------------------------------------------
-from axialfe.sweep import Event, SweepResult, sweep as run_sweep  # noqa: E402
+from axialfe.tracking.sweep import Event, SweepResult, sweep as run_sweep  # noqa: E402
 
 
 RAIL = """
@@ -421,7 +421,7 @@ at = "b"
     fig = plot_case(case, "force")
     from matplotlib.colors import to_rgb
 
-    from axialfe.plot import TENSION
+    from axialfe.output.plot import TENSION
 
     verts = np.concatenate([p.vertices for c in fig.axes[1].collections
                             if len(c.get_facecolor())

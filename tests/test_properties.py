@@ -15,9 +15,9 @@ import numpy as np
 from hypothesis import Phase, given, settings
 from hypothesis import strategies as st
 
-from axialfe.assemble import assemble
+from axialfe.engine.assembly import assemble
 from axialfe.model import Load, Material, Model, Section, Segment, Station, Support
-from axialfe.solve import System, solve
+from axialfe.engine.system import System, solve
 
 # No 'explain' phase: it imports libcst, whose deprecation warning the strict
 # warning filter would turn into an internal error while reporting a failure.

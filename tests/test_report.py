@@ -12,8 +12,8 @@ from typer.testing import CliRunner
 
 from axialfe import ModelError, parse_model, read_model, solve
 from axialfe.cli import app
-from axialfe.output import CAUTIONS
-from axialfe.report import (SECTIONS, build_html, build_markdown, calculation_rows,
+from axialfe.output.text import CAUTIONS
+from axialfe.output.report import (SECTIONS, build_html, build_markdown, calculation_rows,
                             report_format, station_words, write_report)
 
 runner = CliRunner()

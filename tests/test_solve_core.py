@@ -17,8 +17,8 @@ import pytest
 from scipy.integrate import quad
 
 from axialfe.model import Load, Material, Model, Section, Segment, Station, Support
-from axialfe.modelfile import parse_model
-from axialfe.solve import solve
+from axialfe.io.modelfile import parse_model
+from axialfe.engine.system import solve
 
 REL = 1e-9
 

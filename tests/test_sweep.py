@@ -10,7 +10,7 @@ import pytest
 from hypothesis import given, strategies as st
 
 from axialfe import Gap, Load, Model, ModelError, Segment, SolveError, Station, Support, solve
-from axialfe.sweep import parse_range, sweep
+from axialfe.tracking.sweep import parse_range, sweep
 
 from conftest import area, assert_close, steel
 from test_gaps import gap_models
@@ -57,7 +57,7 @@ def test_rail_closing_temperature_and_yield(rail):
     # Expansion gap: closes at dT_c = c/(alpha*L); afterwards sigma = -E*alpha*(dT - dT_c),
     # which reaches the yield strength at dT_c + f_y/(E*alpha) (a restrained bar heated
     # until it first yields, dT_y = f_y/(E*alpha): Gere and Goodno, thermal stress, from memory).
-    from axialfe.modelfile import read_model
+    from axialfe.io.modelfile import read_model
 
     result = sweep(read_model(rail), "temperature_change", -40.0, 250.0, 30, unit="K")
     dT_c = C_R / (ALPHA_R * L_R)
@@ -72,7 +72,7 @@ def test_rail_closing_temperature_and_yield(rail):
 
 
 def test_decreasing_range_and_absolute_temperature(rail):
-    from axialfe.modelfile import read_model
+    from axialfe.io.modelfile import read_model
 
     model = read_model(rail)
     down = sweep(model, "temperature_change", 120.0, -40.0, 9, unit="K")

@@ -14,9 +14,9 @@ from axialfe import solve_symbolic
 from axialfe.cli import app
 from axialfe.errors import ModelError, SolveError
 from axialfe.model import Gap, Load, Material, Model, Section, Segment, Station, Support
-from axialfe.modelfile import parse_model
-from axialfe.solve import solve
-from axialfe.symbolic import numeric_model
+from axialfe.io.modelfile import parse_model
+from axialfe.engine.system import solve
+from axialfe.symbolic.closed_form import numeric_model
 
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
 runner = CliRunner()

@@ -16,12 +16,12 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from .errors import ModelError, SolveError, suggest
-from .loading import LoadState, load_states
-from .model import Model
-from .results import CaseResult
-from .solve import System, solve_gaps
-from .units import (kelvin_to_temperature, parse_quantity, number_and_unit,
+from ..errors import ModelError, SolveError, suggest
+from ..model.cases import LoadState, load_states
+from ..model import Model
+from ..results import CaseResult
+from ..engine.system import System, solve_gaps
+from ..units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
 
 __all__ = ["PARAMETERS", "Event", "SweepResult", "sweep", "parse_range"]

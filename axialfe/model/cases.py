@@ -12,7 +12,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .model import Case, Model
+from .parts import Case, Model
 
 __all__ = ["LoadState", "case_state", "load_states"]
 

@@ -31,7 +31,7 @@ A pinned-pinned steel strut, 1 m long, 20 mm round: Euler load pi^2 E I / L^2.
 >>> rod = Section("d20", "round", (("diameter", 0.020),))
 >>> m = Model((Station("a", 0.0), Station("b", 1.0)), (Segment("strut", "a", "b", steel, rod),),
 ...           (Support("a"),), (Load("b", -5e3),))
->>> from axialfe.solve import solve
+>>> from axialfe import solve
 >>> entry = [e for e in check_case(solve(m)["base"]) if e.kind == "buckling"][0]
 >>> p_cr = math.pi ** 2 * 200e9 * (math.pi * 0.020 ** 4 / 64) / 1.0 ** 2
 >>> abs(entry.capacity - p_cr) / p_cr < 1e-12   # should be True
@@ -47,9 +47,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .model import CheckSettings
-from .results import CaseResult, Solution
-from .units import OutputUnits
+from ..model import CheckSettings
+from ..results import CaseResult, Solution
+from ..units import OutputUnits
 
 __all__ = ["CheckEntry", "CaseChecks", "CheckReport", "check_case", "check_solution", "KINDS",
            "CHECKS", "strength_checks", "buckling_checks", "limit_checks"]

@@ -12,8 +12,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from .errors import ModelError, suggest
-from .units import OutputUnits
+from ..errors import ModelError, suggest
+from ..units import OutputUnits
 
 __all__ = [
     "Material", "Section", "Station", "Segment", "Support", "Load", "Gap",

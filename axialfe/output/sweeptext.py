@@ -8,7 +8,7 @@ import json
 
 import numpy as np
 
-from .output import CAUTIONS, _g, _grid
+from .text import CAUTIONS, _g, _grid
 
 __all__ = ["sweep_summary", "sweep_json", "sweep_csv"]
 

@@ -15,11 +15,11 @@ import tomllib
 from importlib import resources
 from pathlib import Path
 
-from ._gcpause import gc_paused
-from .errors import ModelError, suggest
-from .model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
+from .._gcpause import gc_paused
+from ..errors import ModelError, suggest
+from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
-from .units import OutputUnits, parse_quantity, split_quantity
+from ..units import OutputUnits, parse_quantity, split_quantity
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
 
@@ -105,7 +105,7 @@ class _Locator:
 
 @functools.lru_cache(maxsize=1)
 def _builtin_table():
-    text = resources.files("axialfe").joinpath("data/materials.toml").read_text(encoding="utf-8")
+    text = resources.files("axialfe.materials").joinpath("library.toml").read_text(encoding="utf-8")
     return tomllib.loads(text)
 
 
@@ -598,7 +598,7 @@ def _key_in(message: str, keys) -> str | None:
 
 def _expr():
     """The expression parser, imported when a model needs it."""
-    from . import expressions
+    from ..symbolic import expressions
 
     return expressions
 

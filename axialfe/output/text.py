@@ -11,8 +11,8 @@ import csv
 import io
 import json
 
-from .results import Solution
-from .units import OutputUnits
+from ..results import Solution
+from ..units import OutputUnits
 
 __all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS",
            "checks_table", "checks_markdown"]
@@ -207,7 +207,7 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
     if fmt == "csv":
         return to_csv(solution, units)
     if checks is None:
-        from .checks import check_solution
+        from ..checks import check_solution
 
         checks = check_solution(solution, units)
     return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
@@ -219,7 +219,7 @@ _CHECK_HEADERS = ("check", "name", "demand", "capacity", "utilization", "result"
 
 
 def _check_cells(entry, units: OutputUnits):
-    from .checks import _num
+    from ..checks.core import _num
 
     key = entry.quantity
     unit = getattr(units, key)

@@ -26,8 +26,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ._gcpause import gc_paused
-from .model import Model
+from .._gcpause import gc_paused
+from ..model import Model
 
 __all__ = ["Assembly", "assemble", "element_loads"]
 

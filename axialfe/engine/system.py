@@ -19,11 +19,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from .assemble import Assembly, assemble, element_loads
-from .errors import SolveError
-from .loading import LoadState, load_states
-from .model import Model
-from .results import CaseResult, Solution
+from .assembly import Assembly, assemble, element_loads
+from ..errors import SolveError
+from ..model.cases import LoadState, load_states
+from ..model import Model
+from ..results import CaseResult, Solution
 
 __all__ = ["System", "solve"]
 

@@ -19,10 +19,10 @@ from pathlib import Path
 
 import numpy as np
 
-from .errors import ModelError
-from .output import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _governing_text
-from .results import CaseResult, Solution
-from .units import OutputUnits
+from ..errors import ModelError
+from .text import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _governing_text
+from ..results import CaseResult, Solution
+from ..units import OutputUnits
 
 __all__ = ["REPORT_FORMATS", "SECTIONS", "report_format", "build_html", "build_markdown",
            "write_report", "station_words", "calculation_rows"]
@@ -238,7 +238,7 @@ def _input_tables(model, units):
 
 
 def _job_text(model) -> str:
-    from .output import summary_line
+    from .text import summary_line
 
     src = f" (file {Path(model.source).name})" if model.source else ""
     return (f"Axial analysis of \u201c{model.title}\u201d{src}: {summary_line(model)}. "
@@ -369,7 +369,7 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
     checks : CheckReport, optional
         Computed when not given.
     """
-    from .checks import check_solution
+    from ..checks import check_solution
 
     model = solution.model
     units = units or model.units
@@ -454,7 +454,7 @@ def _md_table(headers, rows) -> list[str]:
 def build_markdown(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
                    checks=None) -> str:
     """The report as one Markdown document (diagrams as embedded base64 PNG)."""
-    from .checks import check_solution
+    from ..checks import check_solution
 
     model = solution.model
     units = units or model.units

@@ -26,8 +26,8 @@ from fractions import Fraction
 
 import sympy
 
-from .errors import ModelError, SolveError, suggest
-from .model import Model
+from ..errors import ModelError, SolveError, suggest
+from ..model import Model
 
 __all__ = ["ClosedForm", "solve_symbolic", "numeric_model", "closed_form_dict",
            "closed_form_text", "QUANTITIES", "TOLERANCE"]
@@ -445,7 +445,7 @@ def _contact_state(model, case, assume, state):
                          "state of gap(s) " + ", ".join(f"'{n}'" for n in undecided)
                          + f" (e.g. --assume {undecided[0]}=closed)", file=model.source,
                          line=model.line_of(f"gaps.{undecided[0]}"))
-    from .solve import solve
+    from ..engine.system import solve
 
     found = solve(numeric_model(model))[case]
     for j, g in enumerate(model.gaps):
@@ -505,7 +505,7 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     takes -P*b/L at the left wall (Timoshenko, Strength of Materials, Part I,
     statically indeterminate problems in tension; from memory):
 
-    >>> from axialfe.modelfile import parse_model
+    >>> from axialfe import parse_model
     >>> text = '''
     ... [symbols]
     ... P = { unit = "kN" }

@@ -27,8 +27,8 @@ import re
 from dataclasses import dataclass, field
 from fractions import Fraction
 
-from .errors import ModelError, UnitError, suggest
-from .units import KINDS, kind_dimensions, split_quantity, unit_base
+from ..errors import ModelError, UnitError, suggest
+from ..units import KINDS, kind_dimensions, split_quantity, unit_base
 
 __all__ = ["SymbolDef", "Expression", "parse_expression", "read_symbol", "describe_dimensions",
            "exact_decimal", "NAME"]

@@ -16,7 +16,7 @@ from typing import Annotated, Optional
 
 import typer
 
-from .errors import AxialfeError
+from ..errors import AxialfeError
 
 app = typer.Typer(add_completion=False, no_args_is_help=True,
                   help="Axially loaded bars and assemblies by the direct stiffness method.")
@@ -54,8 +54,8 @@ def user_errors():
 
 def output_units(model, force=None, length=None, displacement=None, stress=None):
     """The model's output units with the command line's overrides, each checked."""
-    from .errors import UnitError
-    from .units import OutputUnits
+    from ..errors import UnitError
+    from ..units import OutputUnits
 
     base = model.units.as_dict()
     for key, value in (("force", force), ("length", length), ("displacement", displacement),
@@ -71,7 +71,7 @@ def output_units(model, force=None, length=None, displacement=None, stress=None)
 
 def load(path, force=None, length=None, displacement=None, stress=None):
     """Read a model file and the units to report it in (the model's, with the overrides)."""
-    from .modelfile import read_model
+    from ..io.modelfile import read_model
 
     model = read_model(path)
     return model, output_units(model, force, length, displacement, stress)
@@ -84,7 +84,7 @@ def emit(text: str, output: Path | None):
         try:
             output.write_text(text, encoding="utf-8")
         except OSError as exc:
-            from .errors import ModelError
+            from ..errors import ModelError
 
             raise ModelError(f"cannot write the output file: {exc}", file=str(output)) from exc
         typer.echo(f"wrote {output}", err=True)
@@ -96,8 +96,8 @@ def solve(model: ModelPath,
           output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a model: displacements, segment forces and stresses, reactions, gaps, checks."""
-    from .output import render
-    from .solve import solve as run
+    from ..output.text import render
+    from ..engine.system import solve as run
 
     with user_errors():
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
@@ -113,10 +113,10 @@ def init(path: Annotated[Path, typer.Argument(dir_okay=False, help="Where to wri
 
     with user_errors():
         if path.exists() and not force:
-            from .errors import ModelError
+            from ..errors import ModelError
 
             raise ModelError("the file exists already; use --force to overwrite it", file=str(path))
-        text = resources.files("axialfe").joinpath("data/starter.toml").read_text(encoding="utf-8")
+        text = resources.files("axialfe.cli").joinpath("starter.toml").read_text(encoding="utf-8")
         path.write_text(text, encoding="utf-8")
         typer.echo(f"wrote {path}; solve it with: axialfe solve {path}")
 
@@ -124,7 +124,7 @@ def init(path: Annotated[Path, typer.Argument(dir_okay=False, help="Where to wri
 @app.command()
 def materials():
     """List the built-in materials, their values and sources."""
-    from .modelfile import _builtin_table
+    from ..io.modelfile import _builtin_table
 
     for name, entry in _builtin_table().items():
         typer.echo(f"{name}: {entry.get('description', '')}")
@@ -162,9 +162,9 @@ def sweep(model: ModelPath,
           force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a case along a temperature or load range and report the exact events."""
-    from .errors import ModelError
-    from .sweep import parse_range, sweep as run
-    from .sweepout import sweep_csv, sweep_json, sweep_summary
+    from ..errors import ModelError
+    from ..tracking.sweep import parse_range, sweep as run
+    from ..output.sweeptext import sweep_csv, sweep_json, sweep_summary
 
     with user_errors():
         given = [(p, v) for p, v in (("temperature_change", temperature_change),
@@ -186,7 +186,7 @@ def sweep(model: ModelPath,
             text_out = sweep_csv(result, units, progress=long)
         emit(text_out, output)
         if plot is not None:
-            from .plot import plot_sweep
+            from ..output.plot import plot_sweep
 
             plot_sweep(result, plot, units)
             typer.echo(f"wrote {plot}", err=True)
@@ -197,7 +197,7 @@ class ClosedFormat(str, Enum):
 
 
 def _parse_assume(items, gap_names):
-    from .errors import ModelError, suggest
+    from ..errors import ModelError, suggest
 
     out = {}
     for item in items or ():
@@ -216,8 +216,8 @@ def _parse_assume(items, gap_names):
 
 
 def _parse_only(items):
-    from .errors import ModelError, suggest
-    from .symbolic import QUANTITIES
+    from ..errors import ModelError, suggest
+    from ..symbolic.closed_form import QUANTITIES
 
     aliases = {"forces": "axial_forces", "axial-forces": "axial_forces", "reaction": "reactions",
                "displacement": "displacements", "stress": "stresses", "gap": "gaps",
@@ -252,11 +252,11 @@ def closed_form(model: ModelPath,
     against the numeric solver where every symbol has a value."""
     import json
 
-    from .errors import SolveError
-    from .modelfile import read_model
-    from .output import CAUTIONS
-    from .solve import solve as run
-    from .symbolic import (closed_form_dict, closed_form_text, numeric_model, solve_symbolic,
+    from ..errors import SolveError
+    from ..io.modelfile import read_model
+    from ..output.text import CAUTIONS
+    from ..engine.system import solve as run
+    from ..symbolic.closed_form import (closed_form_dict, closed_form_text, numeric_model, solve_symbolic,
                            used_symbols)
 
     with user_errors():
@@ -266,7 +266,7 @@ def closed_form(model: ModelPath,
         wanted = _parse_only(only)
         case_names = [c.name for c in (*m.all_cases, *m.combinations)]
         if case is not None and case not in case_names:
-            from .errors import ModelError, suggest
+            from ..errors import ModelError, suggest
 
             raise ModelError(f"--case: unknown case '{case}'", hint=suggest(case, case_names),
                              options=case_names)
@@ -313,7 +313,7 @@ class ReportFormat(str, Enum):
 
 
 def _pick_case(solution, name):
-    from .errors import ModelError, suggest
+    from ..errors import ModelError, suggest
 
     if name is None:
         return solution.cases[0]
@@ -333,9 +333,9 @@ def check(model: ModelPath,
     Exit code 0 when every check passes, 1 when any fails, 3 when none fails
     but some cannot be decided (an engineer must review them); 2 for bad input.
     """
-    from .checks import check_solution
-    from .output import checks_json, checks_table
-    from .solve import solve as run
+    from ..checks import check_solution
+    from ..output.text import checks_json, checks_table
+    from ..engine.system import solve as run
 
     with user_errors():
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
@@ -357,9 +357,9 @@ def plot(model: ModelPath,
          force_unit: ForceUnit = None, length_unit: LengthUnit = None,
          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Draw the axial force, stress and displacement diagrams of one case."""
-    from .errors import ModelError, suggest
-    from .plot import WHAT, _suffix, plot_case
-    from .solve import solve as run
+    from ..errors import ModelError, suggest
+    from ..output.plot import WHAT, _suffix, plot_case
+    from ..engine.system import solve as run
 
     with user_errors():
         if what not in WHAT:
@@ -381,8 +381,8 @@ def report(model: ModelPath,
            force_unit: ForceUnit = None, length_unit: LengthUnit = None,
            displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Write a self-contained report: input, results, calculation sheet, checks, diagrams."""
-    from .report import report_format, write_report
-    from .solve import solve as run
+    from ..output.report import report_format, write_report
+    from ..engine.system import solve as run
 
     with user_errors():
         fmt = report_format(output, format.value if format else None)

@@ -22,9 +22,9 @@ from pathlib import Path
 
 import numpy as np
 
-from .errors import ModelError
-from .results import CaseResult
-from .units import OutputUnits
+from ..errors import ModelError
+from ..results import CaseResult
+from ..units import OutputUnits
 
 __all__ = ["WHAT", "FIGURE_SUFFIXES", "Curve", "lanes", "diagram_data", "plot_case",
            "plot_sweep", "save_figure"]

@@ -1,0 +1,1 @@
+"""The built-in material library (``library.toml``), read by :mod:`axialfe.io`."""

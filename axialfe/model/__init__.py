@@ -1,0 +1,16 @@
+"""The model: parts, cases and combinations, and the design settings.
+
+- ``parts``: the input concepts as frozen, self-checking dataclasses in SI floats
+  (materials, sections, stations, segments, supports, loads, gaps, cases,
+  combinations, check settings, limits, the whole ``Model``);
+- ``cases``: the one rule of what each case and combination puts on the model,
+  as arrays (``LoadState``).
+
+This floor imports only ``errors`` and ``units``.
+"""
+
+from .parts import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
+                    Model, Section, Segment, Station, Support)
+
+__all__ = ["Material", "Section", "Station", "Segment", "Support", "Load", "Gap", "Case",
+           "Combination", "CheckSettings", "Limit", "Model", "BASE_CASE"]

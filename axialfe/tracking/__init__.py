@@ -1,0 +1,1 @@
+"""Tracking: temperature and load-factor sweeps with exact events (``sweep``)."""
