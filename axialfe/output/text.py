@@ -219,7 +219,7 @@ _CHECK_HEADERS = ("check", "name", "demand", "capacity", "utilization", "result"
 
 
 def _check_cells(entry, units: OutputUnits):
-    from ..checks.core import _num
+    from ..formatting import number as _num
 
     key = entry.quantity
     unit = getattr(units, key)
