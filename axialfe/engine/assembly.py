@@ -1,22 +1,9 @@
-"""Assembly: element stiffness, equivalent nodal loads and the sparse global matrix.
+"""Assembly: the element terms of every segment and the sparse global matrix.
 
-Each segment is a two-node bar element.  In the element's own coordinate s,
-running from its ``from`` station to its ``to`` station over length L, the axial
-force is
-
-    N(s) = N_from - Q(s),   Q(s) = integral of the axial load from 0 to s,
-
-and compatibility gives ``N_from = k*(du - delta0) + k*G`` with ``du`` the
-change of length, ``delta0 = alpha*dT*L + misfit`` the free (stress-free)
-change of length, ``k = 1/integral(ds/EA)`` and ``G = integral(Q/EA ds)``.
-Node forces follow from element equilibrium, so internal forces are exact for
-uniform and tapered segments alike, with self-weight or a distributed load.
-
-Everything here is vectorised over segments with numpy; no Python loop runs
-per element.  Tapered segments use the exact stiffness of a section whose area
-is a product of two linear functions of s (cone, tapered tube, tapered
-rectangle, linearly tapered area); their load integrals use Gauss-Legendre
-quadrature, exact to rounding for the taper ratios met in practice.
+The element itself (stiffness, load integrals, end forces, nodal loads) is
+:mod:`axialfe.mechanics.element`; this module gathers the per-segment inputs
+into arrays, calls it once for all segments with the numeric backend, and
+assembles the global stiffness.  No Python loop runs per element.
 """
 
 from __future__ import annotations
@@ -27,12 +14,10 @@ from dataclasses import dataclass
 import numpy as np
 
 from .._gcpause import gc_paused
+from ..mechanics import NUMERIC, element_terms, load_terms, nodal_loads
 from ..model import Model
 
 __all__ = ["Assembly", "assemble", "element_loads"]
-
-_GAUSS = np.polynomial.legendre.leggauss(24)
-
 
 @dataclass(frozen=True)
 class Assembly:
@@ -56,6 +41,12 @@ class Assembly:
         integral(s/EA ds): the compatibility term of a unit local load per length.
     w_self, g_self : ndarray
         Total local self-weight W and its compatibility term G.
+    factors : ndarray, shape (m, 5)
+        Section factors (c, p1, q1, p2, q2) of each segment (A = c*P*Q).
+    rho_g : ndarray
+        Density times the gravity component along each segment's direction.
+    terms : ElementTerms
+        The element terms as :mod:`axialfe.mechanics` gives them.
     K : scipy.sparse.csr_matrix
         Global stiffness of the segments alone (springs not included).
     """
@@ -74,15 +65,10 @@ class Assembly:
     g_unit_q: np.ndarray
     w_self: np.ndarray
     g_self: np.ndarray
+    factors: np.ndarray
+    rho_g: np.ndarray
+    terms: object
     K: object
-
-
-def _phi(t):
-    """log1p(t)/t, accurate near t = 0."""
-    t = np.asarray(t, dtype=float)
-    small = np.abs(t) < 1e-6
-    safe = np.where(small, 1.0, t)
-    return np.where(small, 1 - t / 2 + t * t / 3 - t**3 / 4, np.log1p(safe) / safe)
 
 
 _FIELDS = operator.attrgetter("section", "end_section", "material", "start", "end", "misfit",
@@ -147,32 +133,9 @@ def assemble(model: Model) -> Assembly:
     length = np.abs(dx)
     c, p1, q1, p2, q2 = (arr[k] for k in ("c", "p1", "q1", "p2", "q2"))
     E, alpha, rho = arr["E"], arr["alpha"], arr["rho"]
-    a1, a2 = c * p1 * q1, c * p2 * q2
-    dp, dq = (p2 - p1) / length, (q2 - q1) / length
-    det = p1 * dq - q1 * dp
-    flex = length / (c * q1 * p2) * _phi(length * det / (q1 * p2)) / E
-    k = 1.0 / flex
-
-    g_local = model.gravity * direction
-    tapered = (p1 != p2) | (q1 != q2)
-    g_unit_q = length**2 / (2 * E * a1)
-    w_self = rho * g_local * a1 * length
-    g_self = rho * g_local * length**2 / (2 * E)
-    if np.any(tapered):
-        t = np.flatnonzero(tapered)
-        s = 0.5 * length[t, None] * (_GAUSS[0][None, :] + 1)
-        w = 0.5 * length[t, None] * _GAUSS[1][None, :]
-        pp = p1[t, None] + dp[t, None] * s
-        qq = q1[t, None] + dq[t, None] * s
-        area_s = c[t, None] * pp * qq
-        vol_s = c[t, None] * (p1[t, None] * q1[t, None] * s
-                              + (p1[t, None] * dq[t, None] + q1[t, None] * dp[t, None]) * s**2 / 2
-                              + dp[t, None] * dq[t, None] * s**3 / 3)
-        g_unit_q[t] = np.sum(w * s / (E[t, None] * area_s), axis=1)
-        vol = c[t] * (p1[t] * q1[t] * length[t] + (p1[t] * dq[t] + q1[t] * dp[t]) * length[t]**2 / 2
-                      + dp[t] * dq[t] * length[t]**3 / 3)
-        w_self[t] = rho[t] * g_local[t] * vol
-        g_self[t] = rho[t] * g_local[t] * np.sum(w * vol_s / (E[t, None] * area_s), axis=1)
+    rho_g = rho * model.gravity * direction
+    terms = element_terms(c, p1, q1, p2, q2, length, E, rho_g, NUMERIC)
+    k = terms.stiffness
 
     # each off-diagonal pair in one order, so duplicates sum alike above and below the
     # diagonal and K is symmetric to the last bit
@@ -183,8 +146,11 @@ def assemble(model: Model) -> Assembly:
     K = sp.csr_matrix((data, (rows, cols)), shape=(n, n))
     misfit, q = arr["misfit"], arr["q"]
     return Assembly(n=n, start=start, end=end, direction=direction, length=length, stiffness=k,
-                    area=np.column_stack([a1, a2]), modulus=E, expansion=alpha, misfit=misfit,
-                    q=q, g_unit_q=g_unit_q, w_self=w_self, g_self=g_self, K=K)
+                    area=np.column_stack([terms.area_from, terms.area_to]), modulus=E,
+                    expansion=alpha, misfit=misfit, q=q, g_unit_q=terms.g_unit_q,
+                    w_self=terms.w_self, g_self=terms.g_self,
+                    factors=np.column_stack([np.broadcast_to(c, length.shape), p1, q1, p2, q2]),
+                    rho_g=rho_g, terms=terms, K=K)
 
 
 def element_loads(asm: Assembly, dT, q_factor=1.0):
@@ -207,13 +173,9 @@ def element_loads(asm: Assembly, dT, q_factor=1.0):
         Free change of length, compatibility term and total local load of each
         segment, as used by :func:`axialfe.solve.recover`.
     """
-    delta0 = asm.expansion * dT * asm.length + asm.misfit
     q_local = q_factor * asm.q * asm.direction
-    G = q_local * asm.g_unit_q + asm.g_self
-    W = q_local * asm.length + asm.w_self
-    k = asm.stiffness
-    f_start = asm.direction * (-k * delta0 + k * G)
-    f_end = asm.direction * (k * delta0 + W - k * G)
-    nodal = (np.bincount(asm.start, f_start, minlength=asm.n)
-             + np.bincount(asm.end, f_end, minlength=asm.n))
+    delta0, G, W = load_terms(asm.terms, q_local, dT, asm.expansion, asm.length, asm.misfit)
+    f_from, f_to = nodal_loads(asm.terms, delta0, G, W)
+    nodal = (np.bincount(asm.start, asm.direction * f_from, minlength=asm.n)
+             + np.bincount(asm.end, asm.direction * f_to, minlength=asm.n))
     return nodal, delta0, G, W

@@ -13,6 +13,7 @@ import math
 from dataclasses import dataclass, field
 
 from ..errors import ModelError, suggest
+from ..mechanics import sections
 from ..units import OutputUnits
 
 __all__ = [
@@ -21,7 +22,7 @@ __all__ = [
 ]
 
 BASE_CASE = "base"
-SHAPES = ("round", "tube", "rectangle", "area")
+SHAPES = sections.SHAPES
 SUPPORT_KINDS = ("fixed", "spring", "settlement")
 GAP_KINDS = ("contact", "slack")
 
@@ -96,8 +97,7 @@ class Section:
             raise ModelError(f"unknown shape '{self.shape}'", place=place,
                              hint=suggest(self.shape, SHAPES), options=SHAPES)
         object.__setattr__(self, "dimensions", tuple(self.dimensions))
-        need = {"round": ("diameter",), "tube": ("outer_diameter", "inner_diameter"),
-                "rectangle": ("width", "height"), "area": ("area",)}[self.shape]
+        need = sections.REQUIRED[self.shape]
         dims = dict(self.dimensions)
         for key in need:
             if key not in dims:
@@ -119,20 +119,8 @@ class Section:
 
     @property
     def factors(self):
-        """Return (c, p, q) with A = c*p*q; for a taper p and q vary linearly.
-
-        For a round bar p = q = d and c = pi/4; for a tube p = D - d, q = D + d;
-        for a rectangle p, q = width, height; for a plain area p = A, q = 1.
-        """
-        d = dict(self.dimensions)
-        if self.shape == "round":
-            return math.pi / 4, d["diameter"], d["diameter"]
-        if self.shape == "tube":
-            do, di = d["outer_diameter"], d["inner_diameter"]
-            return math.pi / 4, do - di, do + di
-        if self.shape == "rectangle":
-            return 1.0, d["width"], d["height"]
-        return 1.0, d["area"], 1.0
+        """Return (c, p, q) with A = c*p*q (see :func:`axialfe.mechanics.sections.factors`)."""
+        return sections.factors(self.shape, dict(self.dimensions), math.pi)
 
     @property
     def area(self) -> float:
@@ -142,15 +130,7 @@ class Section:
     @property
     def second_moment(self) -> float | None:
         """The smaller principal second moment of area in m^4, None when unknown."""
-        d = dict(self.dimensions)
-        if self.shape == "round":
-            return math.pi * d["diameter"] ** 4 / 64
-        if self.shape == "tube":
-            return math.pi * (d["outer_diameter"] ** 4 - d["inner_diameter"] ** 4) / 64
-        if self.shape == "rectangle":
-            w, h = d["width"], d["height"]
-            return min(w * h**3, h * w**3) / 12
-        return d.get("second_moment")
+        return sections.second_moment(self.shape, dict(self.dimensions), math.pi)
 
 
 @dataclass(frozen=True)

@@ -27,6 +27,8 @@ from fractions import Fraction
 import sympy
 
 from ..errors import ModelError, SolveError, suggest
+from ..mechanics import backends, sections
+from ..mechanics.element import element_terms, end_forces, load_terms, nodal_loads
 from ..model import Model
 
 __all__ = ["ClosedForm", "solve_symbolic", "numeric_model", "closed_form_dict",
@@ -173,86 +175,14 @@ def _symbols(model: Model):
 
 
 # --- assembly ------------------------------------------------------------------
-def _section_factors(sec, exact):
-    d = {k: exact(v) for k, v in sec.dimensions}
-    if sec.shape == "round":
-        return sympy.pi / 4, d["diameter"], d["diameter"]
-    if sec.shape == "tube":
-        return sympy.pi / 4, d["outer_diameter"] - d["inner_diameter"], d["outer_diameter"] + d["inner_diameter"]
-    if sec.shape == "rectangle":
-        return sympy.Integer(1), d["width"], d["height"]
-    return sympy.Integer(1), d["area"], sympy.Integer(1)
-
-
 def _element(seg, length, g_local, exact):
-    """Return (k, A_from, A_to, g_unit_q, w_self, g_self) of one segment, exactly.
-
-    A tapered segment's area is ``c*P(s)*Q(s)`` with ``P`` and ``Q`` linear in
-    the distance ``s`` from its ``from`` end (see :func:`_section_factors`).
-    Its flexibility, ``integral ds/(E*A)``, is ``L/(E*c*p1*p2)`` for a cone
-    (``P`` proportional to ``Q``) and otherwise
-    ``L*(log(p1/p2) - log(q1/q2))/(E*c*(p1*q2 - q1*p2))``: for a linear area
-    ``L*log(A1/A2)/(E*(A1 - A2))`` (Gere and Goodno, Mechanics of Materials,
-    nonuniform bars; from memory).  The load integrals are taken by partial
-    fractions in ``s`` and written with the same two logarithms.
-    """
+    """The element terms of one segment, exactly, from :mod:`axialfe.mechanics`."""
+    bk = backends.exact()
     E = exact(seg.material.elastic_modulus)
     rho = exact(seg.material.density) if seg.material.density is not None else sympy.Integer(0)
-    s0, s1 = seg.sections
-    c, p1, q1 = _section_factors(s0, exact)
-    _, p2, q2 = _section_factors(s1, exact)
-    a1, a2 = c * p1 * q1, c * p2 * q2
-    L = length
-    if sympy.cancel(p1 - p2) == 0 and sympy.cancel(q1 - q2) == 0:
-        k = E * a1 / L
-        return k, a1, a1, L**2 / (2 * E * a1), rho * g_local * a1 * L, rho * g_local * L**2 / (2 * E)
-    # log(p1/p2) and log(q1/q2), by the ratio their negatives are the logarithm of
-    lp, lq = (sympy.log(sympy.cancel(x1 / x2)) if sympy.cancel(x1 - x2) != 0 else sympy.Integer(0)
-              for x1, x2 in ((p1, p2), (q1, q2)))
-    logs = {sympy.cancel(p2 / p1): -lp, sympy.cancel(q2 / q1): -lq}
-    det = sympy.cancel(p1 * q2 - q1 * p2)
-    flex = L / (E * c * q1 * p2) if det == 0 else L * (lp - lq) / (E * c * det)
-    k = 1 / flex
-    s = sympy.Dummy("s", positive=True)
-    P, Q = p1 + (p2 - p1) / L * s, q1 + (q2 - q1) / L * s
-    g_unit_q = w_self = g_self = sympy.Integer(0)
-    if seg.distributed_load:
-        g_unit_q = _integral(s, s, P, Q, L, logs) / (E * c)
-    if rho != 0 and g_local != 0:
-        vol = c * sympy.integrate(sympy.expand(P * Q), (s, 0, s))
-        w_self = rho * g_local * vol.subs(s, L)
-        g_self = rho * g_local * _integral(vol, s, P, Q, L, logs) / (E * c)
-    return k, a1, a2, g_unit_q, w_self, g_self
-
-
-def _integral(num, s, P, Q, L, logs):
-    """Integral of ``num/(P*Q)`` over s from 0 to L (``num`` a polynomial in s).
-
-    By partial fractions in s: polynomial terms integrate to polynomials, a
-    term ``a/(b*s + d)**n`` to ``a/b*log((b*L + d)/d)`` (n = 1) or a power; a
-    logarithm of a ratio in ``logs`` (ratio -> its logarithm) is written as given.
-    """
-    total = sympy.Integer(0)
-    for term in sympy.Add.make_args(sympy.apart(sympy.cancel(num / (P * Q)), s)):
-        coeff, part = term.as_independent(s, as_Add=False)
-        num_s, den_s = sympy.fraction(sympy.factor(part))
-        if not den_s.has(s):
-            total += coeff * sympy.integrate(num_s / den_s, (s, 0, L))
-            continue
-        const, lin = den_s.as_independent(s, as_Add=False)
-        base, n = lin.as_base_exp()
-        poly = sympy.Poly(base, s)
-        if num_s.has(s) or poly.degree() != 1 or not n.is_Integer:  # pragma: no cover
-            raise AssertionError(f"unexpected partial fraction {term}")
-        b, d = poly.all_coeffs()
-        a = coeff * num_s / const
-        end = b * L + d
-        if n == 1:
-            ratio = sympy.cancel(end / d)
-            total += a / b * logs.get(ratio, sympy.log(ratio))
-        else:
-            total += a / b * (end ** (1 - n) - d ** (1 - n)) / (1 - n)
-    return total
+    (c, p1, q1), (_, p2, q2) = (sections.factors(s.shape, {k: exact(v) for k, v in s.dimensions},
+                                                 sympy.pi) for s in seg.sections)
+    return element_terms(sympy.sympify(c), p1, q1, p2, q2, length, E, rho * g_local, bk)
 
 
 def _state(model: Model, case: str | None, exact):
@@ -588,17 +518,19 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
         else:  # pragma: no cover - positions are symbolic only with by_order
             raise AssertionError
         L = sympy.expand(e * dx)
-        k, a1, a2, g_unit_q, w_self, g_self = _element(seg, L, gravity * e, exact)
-        delta0 = exact(seg.material.thermal_expansion) * dT[m] * L + exact(seg.misfit)
+        terms = _element(seg, L, gravity * e, exact)
         q_local = exact(seg.distributed_load) * e
+        delta0, G, W = load_terms(terms, q_local, dT[m], exact(seg.material.thermal_expansion), L,
+                                  exact(seg.misfit))
         # a tapered segment's logarithms stand as single unknowns through the solution,
         # so that no expansion splits log(A_1/A_2) into log(A_1) - log(A_2)
-        k, G, W = (_hide_logs(v, hidden) for v in (k, q_local * g_unit_q + g_self,
-                                                   q_local * L + w_self))
+        k, G, W = (_hide_logs(v, hidden) for v in (terms.stiffness, G, W))
+        terms = dataclasses.replace(terms, stiffness=k)
         add(i, i, k), add(j, j, k), add(i, j, -k), add(j, i, -k)
-        F[i] += e * (-k * delta0 + k * G)
-        F[j] += e * (k * delta0 + W - k * G)
-        elems.append((i, j, e, k, a1, a2, delta0, G, W))
+        f_from, f_to = nodal_loads(terms, delta0, G, W)
+        F[i] += e * f_from
+        F[j] += e * f_to
+        elems.append((i, j, e, terms, delta0, G, W))
 
     presc = {}
     springs = []
@@ -674,14 +606,12 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     def tidy(expr):
         return _tidy(expr, drivers).xreplace(back)
 
-    # recovery, as axialfe.solve.System.recover
+    # recovery, by the same element formulas as the numeric engine
     axial, stress = {}, {}
-    for seg, (i, j, e, k, a1, a2, delta0, G, W) in zip(model.segments, elems):
-        du = e * (disp[j] - disp[i])
-        n_from = k * (du - delta0) + k * G
-        n_to = n_from - W
+    for seg, (i, j, e, terms, delta0, G, W) in zip(model.segments, elems):
+        n_from, n_to = end_forces(terms, e * (disp[j] - disp[i]), delta0, G, W)
         axial[seg.name] = (tidy(n_from), tidy(n_to))
-        stress[seg.name] = (tidy(n_from / a1), tidy(n_to / a2))
+        stress[seg.name] = (tidy(n_from / terms.area_from), tidy(n_to / terms.area_to))
     R = [sympy.Add(*[v * disp[j] for j, v in rows[i]]) - F[i] for i in range(n)]
     for g, a, b, s1, s2, c in gaps:
         if g.name in lam:
