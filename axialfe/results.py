@@ -13,10 +13,15 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .errors import ModelError, suggest
+from .mechanics import Fields
 from .model import Model
 from .units import OutputUnits
 
 __all__ = ["CaseResult", "Solution"]
+
+_ARRAYS = ("u", "axial_force", "stress", "mechanical_strain", "elongation", "elastic_elongation",
+           "thermal_elongation", "thermal_strain", "temperature_change", "length", "reactions",
+           "applied", "gap_force", "gap_opening", "gap_closed")
 
 
 @dataclass(frozen=True, repr=False)
@@ -48,6 +53,10 @@ class CaseResult:
         Largest out-of-balance station force relative to the largest applied
         load, reaction, gap or segment force (0 when all are zero).
     notes : tuple of str
+    fields : Fields
+        N(t), A(t) and sigma(t) inside each segment (:mod:`axialfe.mechanics.fields`).
+
+    Every array is the result's own copy and read-only.
     """
 
     name: str
@@ -69,13 +78,14 @@ class CaseResult:
     gap_closed: np.ndarray
     equilibrium_residual: float
     notes: tuple[str, ...] = field(default=())
+    fields: Fields | None = None
 
     def __post_init__(self):
-        for key in ("u", "axial_force", "stress", "mechanical_strain", "elongation",
-                    "reactions", "gap_force", "gap_opening"):
-            arr = getattr(self, key)
+        for key in _ARRAYS:
+            arr = np.array(getattr(self, key))          # a copy: no result shares an array
             arr.setflags(write=False)
-            if not np.all(np.isfinite(arr)):
+            object.__setattr__(self, key, arr)
+            if arr.dtype.kind == "f" and not np.all(np.isfinite(arr)):
                 raise FloatingPointError(f"non-finite {key} in case '{self.name}'")
 
     # --- look-ups -------------------------------------------------------

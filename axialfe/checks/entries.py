@@ -36,6 +36,9 @@ class CheckEntry:
         demand is the required opening and the capacity the opening left.
     k_factor, buckling_length, slenderness, slenderness_limit : float or None
         The buckling basis (buckling entries only).
+    at : float or None
+        Strength entries: the position x (m) of the largest |stress| along the
+        segment, inside it included (the least x where a stretch is uniform).
     """
 
     kind: str
@@ -51,17 +54,22 @@ class CheckEntry:
     buckling_length: float | None = None
     slenderness: float | None = None
     slenderness_limit: float | None = None
+    at: float | None = None
 
     @property
     def verdict(self) -> str:
         """``'pass'``, ``'FAIL'`` or ``'review'`` (undecided)."""
         return {True: "pass", False: "FAIL", None: "review"}[self.ok]
 
-    def to_dict(self) -> dict:
-        """The JSON form: kind, name, utilization, ok, note."""
-        return {"kind": self.kind, "name": self.name,
-                "utilization": None if self.utilization is None else float(self.utilization),
-                "ok": self.ok, "note": self.note}
+    def to_dict(self, units: OutputUnits | None = None) -> dict:
+        """The JSON form: kind, name, utilization, ok, note; strength entries add ``at``
+        (in the length unit of ``units``, default SI)."""
+        out = {"kind": self.kind, "name": self.name,
+               "utilization": None if self.utilization is None else float(self.utilization),
+               "ok": self.ok, "note": self.note}
+        if self.kind == "strength":
+            out["at"] = self.at / (units.factor("length") if units else 1.0)
+        return out
 
 
 @dataclass(frozen=True)

@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..mechanics import Fields, end_forces
 from .assembly import Assembly, assemble, element_loads
 from ..errors import SolveError
 from ..model.cases import LoadState, load_states
@@ -59,6 +60,7 @@ class System:
         self.model = model
         self.asm = asm = asm if asm is not None else assemble(model)
         n = asm.n
+        self.x = np.array([st.x for st in model.stations], dtype=float)
         index = model._station_index
         sup = model.supports
         self.presc_support = np.array([j for j, s in enumerate(sup) if s.kind != "spring"], dtype=int)
@@ -242,14 +244,18 @@ class System:
         e = asm.direction
         du = e * (u[asm.end] - u[asm.start])
         k = asm.stiffness
-        n_from = k * (du - delta0) + k * G
+        n_from, _ = end_forces(asm.terms, du, delta0, G, W)
         # rounding bound of N: du is a difference of two displacements, so its error
         # scales with their size, not with du itself
         noise = 1e3 * _EPS * (k * (mu[asm.start] + mu[asm.end] + md0 + mG) + mW)
         n_from = np.where(np.abs(n_from) < noise, 0.0, n_from)
-        n_to = n_from - W
+        n_to = n_from - W                     # the element's N_to, from the N_from kept
         n_to = np.where(np.abs(n_to) < noise, 0.0, n_to)
         N = np.column_stack([n_from, n_to])
+        x = self.x
+        fields = Fields.of(n_from, state.q_factor * asm.q * e, asm.rho_g, *asm.factors.T,
+                           asm.length, asm.modulus, end_force=N, x_from=x[asm.start],
+                           x_to=x[asm.end])
 
         g = len(model.gaps)
         gap_nodal = self.BT @ lam if g else np.zeros(asm.n)
@@ -302,7 +308,7 @@ class System:
             elastic_elongation=flex_part, thermal_elongation=asm.expansion * state.dT * asm.length,
             thermal_strain=asm.expansion * state.dT, temperature_change=state.dT,
             length=asm.length, reactions=reactions, applied=state.forces, gap_force=gap_force,
-            gap_opening=opening, gap_closed=closed, equilibrium_residual=residual)
+            gap_opening=opening, gap_closed=closed, equilibrium_residual=residual, fields=fields)
 
 
 def _gap_tol(system, u, delta0=None, F=None):

@@ -90,6 +90,8 @@ class Fields:
     end_force : ndarray, shape (m, 2), optional
         The recovered end forces; when given they replace N(0) and N(1), so the
         fields agree with the results to the last bit at the ends.
+    x_from, x_to : ndarray, shape (m,), optional
+        Positions of the ends along the axis, for :meth:`position`.
     """
 
     force: np.ndarray
@@ -97,9 +99,11 @@ class Fields:
     length: np.ndarray
     modulus: np.ndarray
     end_force: np.ndarray | None = None
+    x_from: np.ndarray | None = None
+    x_to: np.ndarray | None = None
 
     def __post_init__(self):
-        for key in ("force", "area", "length", "modulus", "end_force"):
+        for key in ("force", "area", "length", "modulus", "end_force", "x_from", "x_to"):
             value = getattr(self, key)
             if value is not None:
                 value = np.array(value, dtype=float)
@@ -107,21 +111,27 @@ class Fields:
                 object.__setattr__(self, key, value)
 
     @classmethod
-    def of(cls, n_from, q, rho_g, c, p1, q1, p2, q2, length, modulus, end_force=None):
+    def of(cls, n_from, q, rho_g, c, p1, q1, p2, q2, length, modulus, end_force=None,
+           x_from=None, x_to=None):
         """The fields from the end force ``N_from``, the loads along the segment and its
         section factors (see :func:`axialfe.mechanics.element.force_coefficients`)."""
         force = np.column_stack(np.broadcast_arrays(
             *force_coefficients(n_from, q, rho_g, c, p1, q1, p2, q2, length)))
         area = np.column_stack(np.broadcast_arrays(
             *(np.multiply(c, a) for a in area_coefficients(1, p1, q1, p2, q2)))).astype(float)
-        return cls(force.astype(float), area, length, modulus, end_force)
+        return cls(force.astype(float), area, length, modulus, end_force, x_from, x_to)
 
     def interpolate(self, other: "Fields", s: float) -> "Fields":
         """The fields at ``self + s*(other - self)``, for a state affine in ``s``."""
         ends = (None if self.end_force is None or other.end_force is None
                 else self.end_force + s * (other.end_force - self.end_force))
         return Fields(self.force + s * (other.force - self.force), self.area, self.length,
-                      self.modulus, ends)
+                      self.modulus, ends, self.x_from, self.x_to)
+
+    def position(self, t):
+        """The position x of fractions ``t`` along each segment (needs ``x_from``, ``x_to``)."""
+        t = np.asarray(t, dtype=float)
+        return self.x_from + (self.x_to - self.x_from) * t
 
     # --- values along the segments ------------------------------------------
     def axial_force(self, t):
@@ -150,14 +160,11 @@ class Fields:
             [np.zeros((len(self.length), 1)), np.cumsum(parts, axis=1)], axis=1)
 
     # --- extremes -----------------------------------------------------------
-    def stress_peak(self, x_from=None, x_to=None):
+    def stress_peak(self):
         """The stress of largest magnitude in each segment and where it is.
 
-        Parameters
-        ----------
-        x_from, x_to : ndarray, optional
-            Positions of the segments' ends: where the largest magnitude is reached
-            at several places (a uniform stretch), the one of smallest x is given.
+        Where the largest magnitude is reached at several places (a uniform
+        stretch), the one of least x is given (of least t without positions).
 
         Returns
         -------
@@ -188,7 +195,7 @@ class Fields:
         size = np.abs(sigma)
         best = size.max(axis=1)
         # of the candidates within rounding of the largest magnitude, the one of least x
-        x = t if x_from is None else x_from[:, None] + (x_to - x_from)[:, None] * t
+        x = t if self.x_from is None else self.x_from[:, None] + (self.x_to - self.x_from)[:, None] * t
         first = np.argmin(np.where(size >= best[:, None] * (1 - 1e-12), x, np.inf), axis=1)
         rows = np.arange(m)
         return sigma[rows, first], t[rows, first]

@@ -126,10 +126,11 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None) 
 
 
 def to_json(solution: Solution, units: OutputUnits | None = None, checks=None) -> str:
+    units = units or solution.model.units
     data = solution.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
         for case in data["cases"]:
-            case["checks"] = [e.to_dict() for e in checks.case(case["name"])]
+            case["checks"] = [e.to_dict(units) for e in checks.case(case["name"])]
         data["governing"] = checks.governing_dict()
     data["cautions"] = list(CAUTIONS)
     return json.dumps(data, indent=2) + "\n"
@@ -271,7 +272,7 @@ def _governing_lines(checks, units: OutputUnits):
 def checks_json(checks, units: OutputUnits, title: str) -> str:
     """The JSON form of ``axialfe check``: checks per case, governing entry, status."""
     return json.dumps({"title": title, "units": units.as_dict(),
-                       "cases": [{"name": c.case, "checks": [e.to_dict() for e in c]}
+                       "cases": [{"name": c.case, "checks": [e.to_dict(units) for e in c]}
                                  for c in checks.cases],
                        "governing": checks.governing_dict(), "status": checks.status,
                        "cautions": list(CAUTIONS)}, indent=2) + "\n"

@@ -1,0 +1,125 @@
+"""The element and its fields: one description for the numeric and the exact solver.
+
+References: Gere & Goodno, Mechanics of Materials (nonuniform bars: N(x) and
+A(x) vary along the bar, delta = integral N/(E*A) dx; from memory), and the
+closed forms derived beside each test.
+"""
+
+import json
+import math
+
+import numpy as np
+import pytest
+import sympy
+
+from axialfe import parse_model, solve
+from axialfe.checks import check_solution
+from axialfe.mechanics import NUMERIC, element_terms, exact
+from conftest import assert_close
+
+CONE = """
+title = "cone under a distributed load"
+[materials.m]
+elastic_modulus = "200 GPa"
+yield_strength = "250 MPa"
+{density}
+[sections.wide]
+shape = "round"
+diameter = "40 mm"
+[sections.narrow]
+shape = "round"
+diameter = "10 mm"
+[stations]
+a = "0 m"
+b = "1 m"
+[[segments]]
+name = "cone"
+from = "{start}"
+to = "{end}"
+material = "m"
+section = "{first}"
+end_section = "{second}"
+{load}
+[[supports]]
+at = "a"
+{settings}
+"""
+
+
+def cone(start="a", end="b", load='distributed_load = "-30 kN/m"', density="", settings=""):
+    first, second = ("wide", "narrow") if start == "a" else ("narrow", "wide")
+    return parse_model(CONE.format(start=start, end=end, first=first, second=second, load=load,
+                                   density=density, settings=settings))
+
+
+@pytest.mark.parametrize("start", ["a", "b"])
+def test_taper_stress_peaks_inside_the_segment(start):
+    # Fixed at the wide end (x = 0), q = -30 kN/m: N(x) = q*(L - x) (compression),
+    # A(x) = pi/4*d(x)^2 with d from 40 to 10 mm; d/dx[(L - x)/d(x)^2] = 0 where
+    # d = 2*d_narrow = 20 mm, x = 2/3 m, sigma = -10 kN/(pi*1e-4 m^2) = -1e8/pi Pa.
+    # The end stresses are -23.87 MPa and 0: an end-only check is 25 % low.
+    model = cone(start=start, end="b" if start == "a" else "a")
+    result = solve(model)["base"]
+    peak, t = result.fields.stress_peak()
+    assert_close(peak[0], -1e8 / math.pi, rel=1e-12)
+    assert_close(result.fields.position(t)[0], 2 / 3, rel=1e-12)
+    entry = [e for e in check_solution(solve(model)).entries if e.kind == "strength"][0]
+    assert_close(entry.demand, 1e8 / math.pi, rel=1e-12)
+    assert_close(entry.at, 2 / 3, rel=1e-12)
+    assert entry.to_dict(model.units)["at"] == pytest.approx(666.6666666667, rel=1e-12)  # mm
+
+
+def test_strength_json_gives_the_place_of_the_peak(tmp_path, cli):
+    path = tmp_path / "cone.toml"
+    path.write_text(CONE.format(start="a", end="b", first="wide", second="narrow",
+                                load='distributed_load = "-30 kN/m"', density="", settings=""))
+    out = cli("check", path, "--format", "json")
+    entry = json.loads(out.stdout)["cases"][0]["checks"][0]
+    assert entry["kind"] == "strength" and entry["at"] == pytest.approx(2000 / 3, rel=1e-12)
+    assert entry["utilization"] == pytest.approx(1e8 / math.pi / 250e6, rel=1e-12)
+
+
+def test_self_weight_on_a_taper_gives_a_cubic_force():
+    # A cone hanging from its wide end (x = 1 m, fixed) with its tip at x = 0, gravity
+    # -g along x: N(x) = rho*g*V(x), V the volume below x, a cubic in x (Gere & Goodno,
+    # nonuniform bars; the volume of a frustum is pi*h*(R^2 + R*r + r^2)/3).
+    text = CONE.format(start="a", end="b", first="narrow", second="wide", load="",
+                       density='density = "7850 kg/m^3"',
+                       settings='[settings]\ngravity = "-9.80665 m/s^2"')
+    text = text.replace('[[supports]]\nat = "a"', '[[supports]]\nat = "b"')
+    result = solve(parse_model(text))["base"]
+    rho_g = 7850 * 9.80665
+    x = np.linspace(0, 1, 11)
+    r0, r1 = 0.005, 0.005 + 0.015 * x
+    volume = math.pi * x * (r1**2 + r1 * r0 + r0**2) / 3
+    assert_close(result.fields.axial_force(x)[0], rho_g * volume, rel=1e-12, abs_=1e-9)
+    assert_close(result.axial_force[0], [0.0, rho_g * volume[-1]], rel=1e-12)
+
+
+def test_numeric_and_exact_backends_agree_on_a_tapered_tube():
+    # the same element formulas on floats and on exact rationals
+    c, p1, q1, p2, q2, L, E, rho_g = (math.pi / 4, 0.010, 0.070, 0.006, 0.046, 0.8, 70e9, 2.7e3 * 9.81)
+    num = element_terms(c, *(np.array([v]) for v in (p1, q1, p2, q2, L, E, rho_g)), NUMERIC)
+    R = sympy.Rational
+    ex = element_terms(sympy.pi / 4, R(10, 1000), R(70, 1000), R(6, 1000), R(46, 1000), R(8, 10),
+                       70 * 10**9, R(27, 10) * 1000 * R(981, 100), exact())
+    for key in ("stiffness", "area_from", "area_to", "g_unit_q", "w_self", "g_self"):
+        assert_close(getattr(num, key)[0], float(sympy.N(getattr(ex, key), 30)), rel=1e-12, what=key)
+
+
+def test_result_arrays_are_read_only_and_not_shared():
+    model = cone()
+    solution = solve(model)
+    case = solution["base"]
+    for key in ("u", "axial_force", "stress", "length", "elongation", "reactions",
+                "temperature_change", "thermal_strain", "gap_force"):
+        with pytest.raises(ValueError):
+            getattr(case, key)[...] = 0
+    from axialfe.engine import System
+    from axialfe.model.cases import load_states
+
+    system = System(model)
+    state = load_states(model)[0]
+    a, b = system.solve_state(state), system.solve_state(state)
+    assert not np.shares_memory(a.length, b.length)
+    assert not np.shares_memory(a.length, system.asm.length)
