@@ -123,3 +123,55 @@ def test_result_arrays_are_read_only_and_not_shared():
     a, b = system.solve_state(state), system.solve_state(state)
     assert not np.shares_memory(a.length, b.length)
     assert not np.shares_memory(a.length, system.asm.length)
+
+
+def test_diagrams_draw_the_fields_inside_a_taper():
+    # the force diagram of a hanging cone follows N = rho*g*V(x), a cubic, and the
+    # stress diagram of the loaded cone passes through its inside peak (-1e8/pi Pa)
+    from axialfe.output.plot import diagram_data
+
+    model = cone()
+    curve = diagram_data(solve(model)["base"], "stress")[0]
+    assert min(curve.y) == pytest.approx(-1e8 / math.pi / 1e6, rel=1e-12)      # MPa
+    text = CONE.format(start="a", end="b", first="narrow", second="wide", load="",
+                       density='density = "7850 kg/m^3"',
+                       settings='[settings]\ngravity = "-9.80665 m/s^2"')
+    text = text.replace('[[supports]]\nat = "a"', '[[supports]]\nat = "b"')
+    model = parse_model(text)
+    curve = diagram_data(solve(model)["base"], "force")[0]
+    x = curve.x / 1e3                                                           # mm to m
+    r0, r1 = 0.005, 0.005 + 0.015 * x
+    expected = 7850 * 9.80665 * math.pi * x * (r1**2 + r1 * r0 + r0**2) / 3
+    assert len(x) > 2
+    assert_close(curve.y * model.units.factor("force"), expected, rel=1e-9, abs_=1e-9)
+
+
+def test_sweep_yield_event_follows_a_moving_peak():
+    # A cone hanging from its wide end (gravity toward +x, away from the support)
+    # under a distributed load scaled by the load factor, its self-weight held:
+    # sigma(x, f) = (rho*g*V_beyond(x) + f*q*(L - x))/A(x), whose peak moves along the
+    # segment as f grows, so max|sigma|(f) is not affine.  The event must be the
+    # root of max over x of |sigma(x, f)| - f_y: checked against direct solves at
+    # the event, sampled densely along the segment (an end-only rule comes late).
+    from dataclasses import replace
+
+    from axialfe.tracking.sweep import sweep
+
+    text = CONE.format(start="a", end="b", first="wide", second="narrow",
+                       load='distributed_load = "30 kN/m"', density='density = "7850 kg/m^3"',
+                       settings='[settings]\ngravity = "9.80665 m/s^2"')
+    model = parse_model(text)
+    result = sweep(model, "load_factor", 0.0, 10.0, 3)
+    (event,) = [e for e in result.events if e.event == "yields"]
+    t = np.linspace(0, 1, 200001)
+
+    def solved(factor):
+        seg = model.segments[0]
+        return solve(replace(model, segments=(replace(seg, distributed_load=factor * 30e3),)))
+
+    def dense_peak(factor):
+        return np.abs(solved(factor)["base"].fields.stress(t)[0]).max()
+
+    assert dense_peak(event.value) == pytest.approx(250e6, rel=1e-9)
+    assert dense_peak(event.value * (1 - 1e-6)) < 250e6
+    assert np.abs(solved(event.value)["base"].stress[0]).max() < 0.9 * 250e6  # the ends lag

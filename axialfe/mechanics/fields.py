@@ -121,12 +121,22 @@ class Fields:
             *(np.multiply(c, a) for a in area_coefficients(1, p1, q1, p2, q2)))).astype(float)
         return cls(force.astype(float), area, length, modulus, end_force, x_from, x_to)
 
-    def interpolate(self, other: "Fields", s: float) -> "Fields":
-        """The fields at ``self + s*(other - self)``, for a state affine in ``s``."""
+    def interpolate(self, other: "Fields", s) -> "Fields":
+        """The fields at ``self + s*(other - self)``, for a state affine in ``s``.
+
+        ``s`` is one number, or one per segment.
+        """
+        s = np.asarray(s, dtype=float)[..., None]
         ends = (None if self.end_force is None or other.end_force is None
                 else self.end_force + s * (other.end_force - self.end_force))
         return Fields(self.force + s * (other.force - self.force), self.area, self.length,
                       self.modulus, ends, self.x_from, self.x_to)
+
+    def take(self, rows) -> "Fields":
+        """The fields of the segments ``rows`` (an index array or a slice)."""
+        pick = lambda v: None if v is None else v[rows]  # noqa: E731
+        return Fields(self.force[rows], self.area[rows], self.length[rows], self.modulus[rows],
+                      pick(self.end_force), pick(self.x_from), pick(self.x_to))
 
     def position(self, t):
         """The position x of fractions ``t`` along each segment (needs ``x_from``, ``x_to``)."""

@@ -116,20 +116,15 @@ def _overlapping(model, lane) -> np.ndarray:
     return out
 
 
-def _area_along(seg, s):
-    """Area at fractions ``s`` (0 at ``from``, 1 at ``to``) of a possibly tapered segment."""
-    c, p0, q0 = seg.section.factors
-    _, p1, q1 = (seg.end_section or seg.section).factors
-    return c * (p0 + (p1 - p0) * s) * (q0 + (q1 - q0) * s)
-
-
 def diagram_data(result: CaseResult, what: str, units: OutputUnits | None = None) -> list[Curve]:
     """The curve of each segment for diagram ``what`` in display units.
 
-    Axial force is linear along a segment (exact for distributed loads and
-    self-weight); stress is N/A(x), sampled along a taper; displacement is the
-    station displacements joined by the integral of the strain, sampled where
-    the strain varies.  The end values equal the results exactly.
+    The curves are the fields inside each segment (:mod:`axialfe.mechanics.fields`):
+    the axial force (linear, or cubic for self-weight on a taper), the stress
+    N/A (sampled where either varies) and the displacement, the station
+    displacements joined by the integral of the strain.  Where a segment's
+    stress peaks inside it, the peak is one of the points.  The end values
+    equal the results exactly.
 
     Parameters
     ----------
@@ -150,43 +145,44 @@ def diagram_data(result: CaseResult, what: str, units: OutputUnits | None = None
     fy = units.factor(_QUANTITY[what][1])
     idx = model._station_index
     lane = lanes(model)
+    fields = result.fields
+    f, a = fields.force, fields.area
+    curved_force = (f[:, 2] != 0) | (f[:, 3] != 0)
+    curved = curved_force | (a[:, 1] != 0) | (a[:, 2] != 0)
+    grid = np.linspace(0.0, 1.0, _SAMPLES)
+    peak_t = fields.stress_peak()[1]
     curves = []
     for i, seg in enumerate(model.segments):
         ia, ib = idx[seg.start], idx[seg.end]
         xa, xb = model.stations[ia].x, model.stations[ib].x
-        n0, n1 = result.axial_force[i]
-        tapered = seg.end_section is not None
+        # a straight line unless the quantity varies otherwise (a linear N gives a
+        # parabola of displacement)
+        bent = {"force": curved_force[i], "stress": curved[i],
+                "displacement": curved[i] or f[i, 1] != 0}[what]
+        s = np.union1d(grid, [peak_t[i]]) if bent else np.array([0.0, 1.0])
+        one = fields.take(slice(i, i + 1))
         if what == "force":
-            s = np.array([0.0, 1.0])
-            y = np.array([n0, n1])
+            y = one.axial_force(s)[0] if bent else result.axial_force[i]
         elif what == "stress":
-            if tapered:
-                s = np.linspace(0.0, 1.0, _SAMPLES)
-                y = (n0 + (n1 - n0) * s) / _area_along(seg, s)
-                y[0], y[-1] = result.stress[i]
-            else:
-                s = np.array([0.0, 1.0])
-                y = np.array(result.stress[i], dtype=float)
+            y = one.stress(s)[0] if bent else result.stress[i]
         else:
             ua, ub = result.u[ia], result.u[ib]
-            if tapered or n0 != n1:
-                s = np.linspace(0.0, 1.0, _SAMPLES)
-                strain = (n0 + (n1 - n0) * s) / (seg.material.elastic_modulus * _area_along(seg, s))
-                length = float(result.length[i])
-                e = np.concatenate([[0.0], np.cumsum((strain[1:] + strain[:-1]) / 2 * np.diff(s))])
-                e *= length
+            if bent:
+                e = one.elastic_elongation(s)[0]
                 ee = float(result.elastic_elongation[i])
                 e += (ee - e[-1]) * s            # the integral hits the exact elastic part
                 direction = 1.0 if xb > xa else -1.0
                 y = ua + (ub - ua) * s + direction * (e - ee * s)
                 y[0], y[-1] = ua, ub
             else:
-                s = np.array([0.0, 1.0])
                 y = np.array([ua, ub])
+        y = np.array(y, dtype=float)
+        if what != "displacement":
+            y[0], y[-1] = (result.axial_force if what == "force" else result.stress)[i]
         x = xa + (xb - xa) * s
         if xb < xa:
             x, y = x[::-1], y[::-1]
-        curves.append(Curve(seg.name, i, int(lane[i]), x / fx, np.asarray(y, dtype=float) / fy))
+        curves.append(Curve(seg.name, i, int(lane[i]), x / fx, y / fy))
     return curves
 
 

@@ -182,6 +182,47 @@ def _singular(A, p) -> bool:
     return bool(np.linalg.cond(A) > 1e12)
 
 
+def yield_excess(f0, f1, s, yield_strength):
+    """max over each segment of |sigma| at parameter ``s``, less the yield strength.
+
+    ``f0`` and ``f1`` are the fields at s = 0 and 1 of a state affine in s; ``s``
+    is one value or one per segment.  The result is convex in s (a largest
+    magnitude of affine functions), which :func:`yield_roots` relies on.
+    """
+    peak, _ = f0.interpolate(f1, s).stress_peak()
+    return np.abs(peak) - yield_strength
+
+
+def yield_roots(f0, f1, s_from, s_to, yield_strength, watch):
+    """The first parameter in (s_from, s_to] where each watched segment reaches yield.
+
+    Where the stress peak moves along a segment as the parameter changes (a
+    taper), the peak is not affine in the parameter, but it is convex: below
+    yield at ``s_from`` and at or above it at ``s_to`` means one root between,
+    found by bisection to rounding; below at both ends means none.  NaN where
+    there is no root.
+    """
+    out = np.full(len(yield_strength), np.nan)
+    fy = yield_strength
+    rows = np.flatnonzero(watch & np.isfinite(fy))
+    if not len(rows):
+        return out
+    f0, f1, fy = f0.take(rows), f1.take(rows), fy[rows]
+    below = yield_excess(f0, f1, s_from, fy) < 0
+    above = yield_excess(f0, f1, s_to, fy) >= 0
+    pick = below & above
+    rows, f0, f1, fy = rows[pick], f0.take(pick), f1.take(pick), fy[pick]
+    lo, hi = np.full(len(rows), float(s_from)), np.full(len(rows), float(s_to))
+    for _ in range(200):
+        mid = 0.5 * (lo + hi)
+        if np.all((mid == lo) | (mid == hi)):
+            break
+        up = yield_excess(f0, f1, mid, fy) >= 0
+        hi, lo = np.where(up, mid, hi), np.where(up, lo, mid)
+    out[rows] = hi
+    return out
+
+
 class _Tracker:
     """Follows the piecewise-affine path of one case along the internal parameter s."""
 
@@ -438,26 +479,19 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         if candidates and (candidates[0] - s_stop) * direction < 0:
             s_next = float(candidates[0])
             hitting = ahead & (np.abs(root - s_next) <= 1e-9 * max(span, 1e-12))
-        # yield events inside [s, s_next]: stresses are affine there
+        # yield events inside [s, s_next]: the peak of |sigma| along each segment
         if np.isfinite(yield_strength).any():
-            r0, r1 = tracker._result(iv_probe, 0.0), tracker._result(iv_probe, 1.0)
-            sig0, dsig = r0.stress, r1.stress - r0.stress
-            sig_here = sig0 + s * dsig
-            fy = yield_strength[:, None]
+            f0 = tracker._result(iv_probe, 0.0).fields
+            f1 = tracker._result(iv_probe, 1.0).fields
             if first:
-                already = np.any(np.abs(sig_here) >= fy * (1 - 1e-12), axis=1)
+                already = yield_excess(f0, f1, s, yield_strength) >= -1e-12 * yield_strength
                 for j in np.flatnonzero(already & ~yielded):
                     notes.append(f"segment '{model.segments[j].name}' is at or beyond its yield "
                                  f"strength at the start of the range")
                 yielded |= already
-            with np.errstate(divide="ignore", invalid="ignore"):
-                roots = np.stack([(fy - sig0) / dsig, (-fy - sig0) / dsig])
-            roots = np.where(np.isfinite(roots) & ((roots - s) * direction > 0)
-                             & ((roots - s_next) * direction <= 0), roots, np.nan)
-            dist = np.abs(roots - s)
-            for j in np.flatnonzero(~yielded & np.any(np.isfinite(dist), axis=(0, 2))):
-                at = np.nanargmin(dist[:, j, :])
-                s_y = float(roots[:, j, :].flat[at])
+            roots = yield_roots(f0, f1, s, s_next, yield_strength, ~yielded)
+            for j in np.flatnonzero(np.isfinite(roots)):
+                s_y = float(roots[j])
                 events.append(Event(model.segments[j].name, "yields", to_user(s_y)))
                 yielded[j] = True
                 notes.append(f"segment '{model.segments[j].name}' reaches its yield strength at "
