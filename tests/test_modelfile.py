@@ -380,3 +380,19 @@ def test_name_differing_in_case_is_suggested():
     # 'JOINT' and 'joint' share no letter of the same case: the plain ratio finds nothing
     assert error(edit(L_SEG2_FROM, 'from = "JOINT"')) == (
         "bar.toml:27: segments[2]: unknown station 'JOINT'; did you mean 'joint'?")
+
+
+@pytest.mark.parametrize("char", ["\u2028", "\u2029", "\u0085"])
+def test_line_numbers_count_only_newlines(char):
+    # TOML ends a line only at "\n" (TOML 1.0, "Newline means LF (0x0A) or CRLF");
+    # other separators inside a comment must not shift the line of a later error
+    text = edit(1, f'title = "base"  # a comment with {char} inside')
+    assert error(edit(L_DIAM, 'diameter = "-30 mm"', text)).startswith(f"bar.toml:{L_DIAM}:")
+
+
+def test_a_key_of_an_inline_table_is_located():
+    from axialfe.io.modelfile import _Locator
+
+    text = '[materials]\nbrass = { elastic_modulus = "100 GPa" }\nzinc = { elastic_modulus = "-1 GPa" }\n'
+    assert _Locator(text).find("materials.zinc", key="elastic_modulus") == 3
+    assert _Locator(text).find("materials.zinc") == 3

@@ -55,7 +55,7 @@ class _Locator:
     _HEADER = re.compile(r"^\s*\[(\[?)\s*([^\[\]]+?)\s*\]\]?\s*(#.*)?$")
 
     def __init__(self, text: str):
-        self.lines = text.splitlines()
+        self.lines = text.split("\n")   # lines as TOML counts them: only "\n" ends one
         self.headers = []  # (0-based line, name, is_array)
         for i, line in enumerate(self.lines):
             m = self._HEADER.match(line)
@@ -80,7 +80,11 @@ class _Locator:
         span = self._span(table, index) if table else (0, len(self.lines))
         if span is None and table and "." in table:  # a key of a parent table
             parent, _, child = table.rpartition(".")
-            return self.find(parent, None, child) if key is None else self.find(parent, None, child)
+            line = self.find(parent, None, child)
+            if key is None or line is None:
+                return line
+            # an inline table stands on one line: the key is there, or the child is
+            return self._key_line(line - 1, line, key) or line
         if span is None:
             top = table.split(".")[0] if table else None
             return self._key_line(0, len(self.lines), top) if top else None
