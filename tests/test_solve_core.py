@@ -16,6 +16,7 @@ import numpy as np
 import pytest
 from scipy.integrate import quad
 
+from axialfe.errors import ModelError
 from axialfe.model import Load, Material, Model, Section, Segment, Station, Support
 from axialfe.io.modelfile import parse_model
 from axialfe.engine.system import solve
@@ -544,3 +545,36 @@ force = "9 kip"
     assert case.reaction("A") == approx(-P * 20 / 30)
     E, A = 29e6 * 6894.757293168361, math.pi / 4 * 0.0254**2
     assert case.displacement("C") == approx(P * 10 * 20 / 30 * 0.0254 / (E * A))
+
+
+# --- the object API checks the types of its values ------------------------------
+
+@pytest.mark.parametrize("build, message", [
+    (lambda: Material("s", "200 GPa"),
+     "materials.s: elastic_modulus must be a real number in SI units: got '200 GPa'"),
+    (lambda: Section("rod", "area", (("area", "100 mm^2"),)),
+     "sections.rod: area must be a real number in SI units: got '100 mm^2'"),
+    (lambda: Station("a", "x"), "stations.a: position must be a real number in SI units: got 'x'"),
+    (lambda: Station("a", True), "stations.a: position must be a real number in SI units: got True"),
+    (lambda: Station(3, 0.0), "stations: a station's name must be a name (a non-empty string): got 3"),
+    (lambda: Load("a", "5 kN"), "loads ('a'): force must be a real number in SI units: got '5 kN'"),
+    (lambda: Segment("s", "a", "b", "steel", Section("r", "area", (("area", 1e-4),))),
+     "segments ('s'): material must be a Material: got 'steel'"),
+])
+def test_object_api_refuses_values_of_the_wrong_type(build, message):
+    with pytest.raises(ModelError) as err:
+        build()
+    assert str(err.value) == message
+
+
+def test_numeric_solve_refuses_symbols():
+    import sympy
+
+    E = sympy.Symbol("E", positive=True)
+    model = Model((Station("a", 0.0), Station("b", 1.0)),
+                  (Segment("ab", "a", "b", Material("m", E), Section("r", "area", (("area", 1e-4),))),),
+                  (Support("a"),), (Load("b", 1e3),))
+    with pytest.raises(ModelError) as err:
+        solve(model)
+    assert str(err.value) == ("the model holds symbolic values; give every symbol a value, or ask "
+                              "for the closed form (axialfe closed-form)")

@@ -15,6 +15,7 @@ import numpy as np
 
 from .._gcpause import gc_paused
 from ..mechanics import NUMERIC, element_terms, load_terms, nodal_loads
+from ..errors import ModelError
 from ..model import Model
 
 __all__ = ["Assembly", "assemble", "element_loads"]
@@ -124,10 +125,14 @@ def assemble(model: Model) -> Assembly:
     import scipy.sparse as sp
 
     n = len(model.stations)
-    with gc_paused():
-        arr = _segment_arrays(model)
+    try:
+        with gc_paused():
+            arr = _segment_arrays(model)
+        x = np.fromiter(map(operator.attrgetter("x"), model.stations), dtype=float, count=n)
+    except TypeError:  # a sympy symbol cannot become a float
+        raise ModelError("the model holds symbolic values; give every symbol a value, or ask "
+                         "for the closed form (axialfe closed-form)", file=model.source) from None
     start, end = arr["start"], arr["end"]
-    x = np.fromiter(map(operator.attrgetter("x"), model.stations), dtype=float, count=n)
     dx = x[end] - x[start]
     direction = np.sign(dx)
     length = np.abs(dx)

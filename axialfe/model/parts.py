@@ -10,6 +10,7 @@ refers to something.
 from __future__ import annotations
 
 import math
+import numbers
 from dataclasses import dataclass, field
 
 from ..errors import ModelError, suggest
@@ -27,16 +28,40 @@ SUPPORT_KINDS = ("fixed", "spring", "settlement")
 GAP_KINDS = ("contact", "slack")
 
 
+def _symbolic(value) -> bool:
+    """A sympy expression: the closed form's values (the numeric solver refuses them)."""
+    return type(value).__module__.startswith("sympy")
+
+
+def _number(value, what, place) -> bool:
+    """Check that ``value`` is a real number or a sympy expression; True for a real number.
+
+    Strings (``"200 GPa"``), booleans and other objects are refused: units belong
+    to the file reader, the object API takes SI floats.
+    """
+    if isinstance(value, numbers.Real) and not isinstance(value, bool):
+        return True
+    if _symbolic(value):
+        return False
+    shown = f"'{value}'" if isinstance(value, str) else repr(value)
+    raise ModelError(f"{what} must be a real number in SI units: got {shown}", place=place)
+
+
 def _positive(value, what, place):
-    if value is None or not isinstance(value, (int, float)):
+    if value is None or not _number(value, what, place):
         return
     if not (value > 0 and math.isfinite(value)):
         raise ModelError(f"{what} must be positive: got {value:g}", place=place)
 
 
 def _finite(value, what, place):
-    if isinstance(value, (int, float)) and not math.isfinite(value):
+    if value is not None and _number(value, what, place) and not math.isfinite(value):
         raise ModelError(f"{what} must be a finite number: got {value}", place=place)
+
+
+def _name(value, what, place):
+    if not isinstance(value, str) or not value:
+        raise ModelError(f"{what} must be a name (a non-empty string): got {value!r}", place=place)
 
 
 @dataclass(frozen=True)
@@ -66,7 +91,10 @@ class Material:
     source: str | None = None
 
     def __post_init__(self):
+        _name(self.name, "a material's name", "materials")
         place = f"materials.{self.name}"
+        if self.elastic_modulus is None:
+            raise ModelError("elastic_modulus is required", place=place)
         _positive(self.elastic_modulus, "elastic_modulus", place)
         _finite(self.thermal_expansion, "thermal_expansion", place)
         _positive(self.yield_strength, "yield_strength", place)
@@ -92,6 +120,7 @@ class Section:
     dimensions: tuple[tuple[str, float], ...]
 
     def __post_init__(self):
+        _name(self.name, "a section's name", "sections")
         place = f"sections.{self.name}"
         if self.shape not in SHAPES:
             raise ModelError(f"unknown shape '{self.shape}'", place=place,
@@ -104,7 +133,7 @@ class Section:
                 raise ModelError(f"a {self.shape} section needs '{key}'", place=place)
         for key, value in self.dimensions:
             if key == "inner_diameter":
-                if isinstance(value, (int, float)) and not (value >= 0 and math.isfinite(value)):
+                if _number(value, key, place) and not (value >= 0 and math.isfinite(value)):
                     raise ModelError(f"inner_diameter must not be negative: got {value:g}", place=place)
             else:
                 _positive(value, key, place)
@@ -141,6 +170,9 @@ class Station:
     x: float
 
     def __post_init__(self):
+        _name(self.name, "a station's name", "stations")
+        if self.x is None:
+            raise ModelError("position is required", place=f"stations.{self.name}")
         _finite(self.x, "position", f"stations.{self.name}")
 
 
@@ -179,7 +211,16 @@ class Segment:
     effective_length_factor: float | None = None
 
     def __post_init__(self):
+        _name(self.name, "a segment's name", "segments")
         place = f"segments ('{self.name}')"
+        for key in ("start", "end"):
+            _name(getattr(self, key), f"its {key} station", place)
+        if not isinstance(self.material, Material):
+            raise ModelError(f"material must be a Material: got {self.material!r}", place=place)
+        for key in ("section", "end_section"):
+            value = getattr(self, key)
+            if not isinstance(value, Section) and (key == "section" or value is not None):
+                raise ModelError(f"{key} must be a Section: got {value!r}", place=place)
         if self.start == self.end:
             raise ModelError(f"a segment needs two different stations: got '{self.start}' twice",
                              place=place)
@@ -208,6 +249,7 @@ class Support:
     displacement: float = 0.0
 
     def __post_init__(self):
+        _name(self.at, "a support's station", "supports")
         place = f"supports ('{self.at}')"
         if self.kind not in SUPPORT_KINDS:
             raise ModelError(f"unknown support kind '{self.kind}'", place=place,
@@ -233,6 +275,9 @@ class Load:
     force: float
 
     def __post_init__(self):
+        _name(self.at, "a load's station", "loads")
+        if self.force is None:
+            raise ModelError("force is required", place=f"loads ('{self.at}')")
         _finite(self.force, "force", f"loads ('{self.at}')")
 
 
@@ -251,8 +296,11 @@ class Gap:
     side: str | None = None
 
     def __post_init__(self):
+        _name(self.name, "a gap's name", "gaps")
         place = f"gaps ('{self.name}')"
         object.__setattr__(self, "stations", tuple(self.stations))
+        for st in self.stations:
+            _name(st, "a gap's station", place)
         if self.kind not in GAP_KINDS:
             raise ModelError(f"unknown gap kind '{self.kind}'", place=place,
                              hint=suggest(self.kind, GAP_KINDS), options=GAP_KINDS)
@@ -268,7 +316,10 @@ class Gap:
         else:
             raise ModelError("give 'between' two stations, or 'at' one station and 'side'",
                              place=place)
-        if isinstance(self.clearance, (int, float)) and not (self.clearance >= 0 and math.isfinite(self.clearance)):
+        if self.clearance is None:
+            raise ModelError("clearance is required", place=place)
+        if _number(self.clearance, "clearance", place) and not (
+                self.clearance >= 0 and math.isfinite(self.clearance)):
             raise ModelError(f"clearance must not be negative: got {self.clearance:g}", place=place)
 
     @property
@@ -304,8 +355,17 @@ class Case:
     settlements: tuple[tuple[str, float], ...] = ()
 
     def __post_init__(self):
+        _name(self.name, "a case's name", "cases")
+        place = f"cases ('{self.name}')"
         for key in ("loads", "temperature_change", "settlements"):
             object.__setattr__(self, key, tuple(getattr(self, key)))
+        for load in self.loads:
+            if not isinstance(load, Load):
+                raise ModelError(f"loads must be Load objects: got {load!r}", place=place)
+        for key in ("temperature_change", "settlements"):
+            for name, value in getattr(self, key):
+                _name(name, f"a name in {key}", place)
+                _finite(value, f"{key} of '{name}'", place)
 
 
 @dataclass(frozen=True)
@@ -316,7 +376,11 @@ class Combination:
     factors: tuple[tuple[str, float], ...]
 
     def __post_init__(self):
+        _name(self.name, "a combination's name", "combinations")
         object.__setattr__(self, "factors", tuple(self.factors))
+        for case, factor in self.factors:
+            _name(case, "a case in factors", f"combinations ('{self.name}')")
+            _finite(factor, f"the factor of '{case}'", f"combinations ('{self.name}')")
         if not self.factors:
             raise ModelError("a combination needs at least one case factor",
                              place=f"combinations ('{self.name}')")
