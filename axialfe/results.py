@@ -17,7 +17,11 @@ from .mechanics import Fields
 from .model import Model
 from .units import OutputUnits
 
-__all__ = ["CaseResult", "Solution"]
+__all__ = ["CaseResult", "Solution", "RESIDUAL_BOUND", "certify"]
+
+# The largest station imbalance, relative to the largest force, a result may have
+# and still be called accurate (far above rounding, far below any error that matters).
+RESIDUAL_BOUND = 1e-9
 
 _ARRAYS = ("u", "axial_force", "stress", "mechanical_strain", "elongation", "elastic_elongation",
            "thermal_elongation", "thermal_strain", "temperature_change", "length", "reactions",
@@ -55,6 +59,11 @@ class CaseResult:
     notes : tuple of str
     fields : Fields
         N(t), A(t) and sigma(t) inside each segment (:mod:`axialfe.mechanics.fields`).
+    status : {'ok', 'inaccurate'}
+        ``'inaccurate'`` when the result's own certificate (the equilibrium
+        residual) exceeds :data:`RESIDUAL_BOUND`; never only printed.
+    message : str or None
+        What is wrong and what to do, when the status is not ok.
 
     Every array is the result's own copy and read-only.
     """
@@ -79,6 +88,8 @@ class CaseResult:
     equilibrium_residual: float
     notes: tuple[str, ...] = field(default=())
     fields: Fields | None = None
+    status: str = "ok"
+    message: str | None = None
 
     def __post_init__(self):
         for key in _ARRAYS:
@@ -141,6 +152,7 @@ class CaseResult:
         return {"name": self.name, "stations": stations, "segments": segments,
                 "reactions": reactions, "gaps": gaps,
                 "equilibrium_residual": float(self.equilibrium_residual),
+                "status": self.status, "message": self.message,
                 "notes": list(self.notes)}
 
     def __repr__(self) -> str:
@@ -177,6 +189,11 @@ class Solution:
     def names(self) -> tuple[str, ...]:
         return tuple(c.name for c in self.cases)
 
+    @property
+    def inaccurate(self) -> tuple[CaseResult, ...]:
+        """The cases whose status is not ok."""
+        return tuple(c for c in self.cases if c.status != "ok")
+
     def to_dict(self, units: OutputUnits | None = None) -> dict:
         units = units or self.model.units
         return {"title": self.model.title, "units": units.as_dict(),
@@ -184,3 +201,12 @@ class Solution:
 
     def __repr__(self) -> str:
         return f"<Solution of '{self.model.title}': cases {', '.join(self.names)}>"
+
+
+def certify(residual: float) -> tuple[str, str | None]:
+    """The status and message of a result with equilibrium ``residual``."""
+    if residual <= RESIDUAL_BOUND:
+        return "ok", None
+    return "inaccurate", (f"the equilibrium residual {residual:.1e} exceeds {RESIDUAL_BOUND:.0e}: "
+                          "the result does not balance and must not be used; check for segments "
+                          "of widely different stiffness or a nearly singular model")

@@ -278,3 +278,25 @@ def test_usage_errors_are_one_line(bar):
     # click's own wording may vary between versions: only our frame of it is asserted
     assert bad.stderr.startswith("error: No such option: --frmat")
     assert bad.stderr.endswith("(see 'axialfe solve --help')\n") and bad.stderr.count("\n") == 1
+
+
+def test_an_inaccurate_result_exits_4(capsys):
+    # exit code 4 (documented beside 0, 1, 2, 3): a case or step whose certificate fails
+    import typer
+
+    from axialfe.cli.app import exit_if_inaccurate
+
+    exit_if_inaccurate([])      # nothing inaccurate: no exit
+    with pytest.raises(typer.Exit) as err:
+        exit_if_inaccurate([("case 'hot'", "the residual is 1e-3"), ("case 'cold'", "x")])
+    assert err.value.exit_code == 4
+    assert capsys.readouterr().err == "inaccurate: case 'hot' (and 1 more): the residual is 1e-3\n"
+
+
+def test_json_cases_carry_status_and_message(cli):
+    import json
+
+    out = cli("solve", STEPPED, "--format", "json")
+    assert out.exit_code == 0
+    case = json.loads(out.stdout)["cases"][0]
+    assert case["status"] == "ok" and case["message"] is None

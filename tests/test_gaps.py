@@ -277,6 +277,14 @@ def test_residual_detects_an_unbalanced_solution():
     F, up, terms = system.state_vectors(state)
     lam, shift = system.contact(F, up)
     u = system.displacements(F, up, lam, shift)
-    assert system.recover(state, u, F, lam, terms).equilibrium_residual < 1e-12
+    good = system.recover(state, u, F, lam, terms)
+    assert good.equilibrium_residual < 1e-12
+    assert (good.status, good.message) == ("ok", None)
     wrong = u * (1 + 1e-6 * np.arange(len(u)))
-    assert system.recover(state, wrong, F, lam, terms).equilibrium_residual > 1e-7
+    bad = system.recover(state, wrong, F, lam, terms)
+    assert bad.equilibrium_residual > 1e-7
+    # the result is flagged, not only printed
+    assert bad.status == "inaccurate"
+    assert bad.message.startswith(f"the equilibrium residual {bad.equilibrium_residual:.1e} "
+                                  "exceeds 1e-09: the result does not balance")
+    assert bad.to_dict()["status"] == "inaccurate"

@@ -22,6 +22,21 @@ app = typer.Typer(add_completion=False, no_args_is_help=True,
                   help="Axially loaded bars and assemblies by the direct stiffness method.")
 
 EXIT_INPUT = 2
+EXIT_INACCURATE = 4
+
+
+def exit_if_inaccurate(items):
+    """Exit with code 4 after the output when any result is inaccurate.
+
+    ``items`` are ``(label, message)`` of the inaccurate cases or steps; one line
+    on stderr names the first and counts the rest.
+    """
+    items = list(items)
+    if items:
+        label, message = items[0]
+        more = f" (and {len(items) - 1} more)" if len(items) > 1 else ""
+        typer.echo(f"inaccurate: {label}{more}: {message}", err=True)
+        raise typer.Exit(EXIT_INACCURATE)
 
 # The reader itself reports a missing or unreadable file, on one line like every input error.
 ModelPath = Annotated[Path, typer.Argument(help="The model file (TOML).")]
@@ -103,6 +118,7 @@ def solve(model: ModelPath,
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         emit(render(solution, format.value, units), output)
+    exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
 
 @app.command()
@@ -190,6 +206,10 @@ def sweep(model: ModelPath,
 
             plot_sweep(result, plot, units)
             typer.echo(f"wrote {plot}", err=True)
+        shown = "" if result.unit == "1" else f" {result.unit}"
+        bad = [(f"step {result.parameter} = {v:.6g}{shown}", msg)
+               for v, msg in result.results.inaccurate()]
+    exit_if_inaccurate(bad)
 # --- closed form -------------------------------------------------------------
 class ClosedFormat(str, Enum):
     table = "table"
@@ -339,12 +359,14 @@ def check(model: ModelPath,
 
     with user_errors():
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
-        report = check_solution(run(m), units)
+        solution = run(m)
+        report = check_solution(solution, units)
         if format is CheckFormat.json:
             text = checks_json(report, units, title=m.title)
         else:
             text = checks_table(report, units, title=m.title)
         emit(text, output)
+    exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
     raise typer.Exit(report.exit_code)
 
 

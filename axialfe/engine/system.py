@@ -24,7 +24,7 @@ from .assembly import Assembly, assemble, element_loads
 from ..errors import SolveError
 from ..model.cases import LoadState, load_states
 from ..model import Model
-from ..results import CaseResult, Solution
+from ..results import CaseResult, Solution, certify
 
 __all__ = ["System", "solve"]
 
@@ -308,7 +308,8 @@ class System:
             elastic_elongation=flex_part, thermal_elongation=asm.expansion * state.dT * asm.length,
             thermal_strain=asm.expansion * state.dT, temperature_change=state.dT,
             length=asm.length, reactions=reactions, applied=state.forces, gap_force=gap_force,
-            gap_opening=opening, gap_closed=closed, equilibrium_residual=residual, fields=fields)
+            gap_opening=opening, gap_closed=closed, equilibrium_residual=residual, fields=fields,
+            **dict(zip(("status", "message"), certify(residual))))
 
 
 def _gap_tol(system, u, delta0=None, F=None):

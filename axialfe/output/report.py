@@ -401,6 +401,8 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
             out.append(f"<p><strong>{_e(title)}</strong></p>" + _html_table(headers, rows))
         out.append(f"<p>Equilibrium residual: {case['equilibrium_residual']:.2e} (largest "
                    "out-of-balance station force over the largest force).</p>")
+        if case["status"] != "ok":
+            out.append(f"<p><strong>INACCURATE:</strong> {_e(case['message'])}</p>")
         for note in case.get("notes", []):
             out.append(f"<p>Note: {_e(note)}</p>")
     out.append("</section>")
@@ -475,6 +477,8 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
         for title, headers, rows in _case_tables(case, data["units"]):
             out += [f"**{_md(title)}**", ""] + _md_table(headers, rows)
         out += [f"Equilibrium residual: {case['equilibrium_residual']:.2e}", ""]
+        if case["status"] != "ok":
+            out += [f"**INACCURATE:** {_md(case['message'])}", ""]
         out += [f"Note: {_md(n)}" for n in case.get("notes", [])]
     out += [f"## {_TITLES['calculation']}", "",
             "Elongation = N\u00b7L/(E\u00b7A) + \u03b1\u00b7\u0394T\u00b7L + misfit; the sum must "

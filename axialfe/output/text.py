@@ -111,6 +111,8 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None) 
             out.append("")
         out.append(f" equilibrium residual: {case['equilibrium_residual']:.2e} "
                    "(largest out-of-balance station force / largest force)")
+        if case["status"] != "ok":
+            out.append(f" INACCURATE: {case['message']}")
         for note in case.get("notes", []):
             out.append(f" note: {note}")
         out.append("")
@@ -189,6 +191,8 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
             out += ["| " + " | ".join(_md_escape(c) for c in r) + " |" for r in rows]
             out.append("")
         out += [f"Equilibrium residual: {case['equilibrium_residual']:.2e}", ""]
+        if case["status"] != "ok":
+            out += [f"**INACCURATE:** {_md_escape(case['message'])}", ""]
         if checks is not None:  # --- design checks (axialfe.checks) ---
             out += checks_markdown(checks.case(case["name"]), units)
     if checks is not None:

@@ -61,6 +61,7 @@ class _Steps(Sequence):
 
     def __init__(self, tracker, grid):
         self._tracker, self._grid = tracker, grid
+        self._status = {}          # the status of each step built so far
 
     def __len__(self):
         return len(self._grid)
@@ -68,7 +69,17 @@ class _Steps(Sequence):
     def __getitem__(self, i):
         if isinstance(i, slice):
             return [self[j] for j in range(*i.indices(len(self)))]
-        return self._tracker.result_at(float(self._grid[i]))
+        result = self._tracker.result_at(float(self._grid[i]))
+        self._status[i % len(self)] = (result.status, result.message)
+        return result
+
+    def inaccurate(self):
+        """``(value, message)`` of every step whose status is not ok (builds the rest)."""
+        for i in range(len(self)):
+            if i not in self._status:
+                self[i]
+        return [(float(self._grid[i]), msg) for i, (status, msg) in sorted(self._status.items())
+                if status != "ok"]
 
 
 @dataclass(frozen=True, repr=False)
