@@ -261,9 +261,15 @@ def _assumptions(report) -> list[str]:
         "along a segment.",
         "A gap is an exact one-way constraint: a contact carries compression only once closed, a "
         "slack link tension only once taut.",
-        "Design checks: " + report.settings_text() + ". Euler's formula is used only for "
-        "slender members (K\u00b7L/r at least \u03c0\u221a(E/f_y)); shorter members are left "
-        "to an inelastic column curve of the applicable code.",
+        "Design checks: " + report.settings_text() + ". Buckling: each compressed segment is "
+        "checked with its own section, material and compression over the buckling length of "
+        "its braced run (conservative for the weaker parts of a run of mixed sections); where "
+        "parts lie side by side (a sleeve on a bolt), the one guided by the other may in fact "
+        "be supported along its length, which the check does not assume. The column curve "
+        "decides stocky members with a capacity of at most A\u00b7f_y; with euler-only, members "
+        "with K\u00b7L/r below \u03c0\u221a(E/f_y) are left undecided. The bracing "
+        "assumptions, K and the curve must be confirmed against the applicable design code "
+        "and by a licensed engineer.",
     ]
 
 

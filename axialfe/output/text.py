@@ -248,7 +248,7 @@ def _wrap(text, first="", rest="   "):
 def _check_lines(case_checks, units: OutputUnits, title=True):
     """Lines of the checks table of one case: notes numbered in the table, in full under it."""
     out = _wrap(f"checks of case '{case_checks.case}' (utilization = demand x safety factor / "
-                "capacity; result pass, FAIL, or review: the tool cannot decide)",
+                "capacity; review: the tool cannot decide)",
                 " ", "   ") if title else []
     if not len(case_checks):
         return out + ["  (no checks)"]
