@@ -306,6 +306,20 @@ at = "head"
         "buckling_length or braced stations deliberately")
 
 
+def test_a_stiffer_part_of_a_mixed_run_names_the_weaker_one():
+    # the starter's stepped rod: both parts over the run 'left'..'right'
+    from importlib import resources
+
+    model = parse_model(resources.files("axialfe.cli").joinpath("starter.toml")
+                        .read_text(encoding="utf-8"))
+    thick, thin = buckling(model)
+    assert thick.note.endswith("; the run also holds the weaker segment 'thin-part': this "
+                               "capacity takes this segment's own section over the whole run, "
+                               "which overstates a run of mixed sections")
+    assert "weaker" not in thin.note
+    assert thick.buckling_length == thin.buckling_length == pytest.approx(0.5)
+
+
 def test_long_chains_are_walked_once():
     # 3000 segments between two supports: one run, found without recursion
     model = strut(length_mm=3000.0, parts=3000)

@@ -90,10 +90,39 @@ def _curve_text(curve, strength, slender, tangency):
             f"F_cr = {strength.reduction:.4g}*F_y")
 
 
+def _bending_stiffness(seg):
+    """The smaller E*I of a segment's two ends, None when a section gives no second moment."""
+    moments = [s.second_moment for s in seg.sections]
+    return None if any(m is None for m in moments) else seg.material.elastic_modulus * min(moments)
+
+
+def _weaker_in_run(model, runs, parallel):
+    """For every segment, the weakest other segment of its run in series with it (or None)."""
+    groups = {}
+    for i, seg in enumerate(model.segments):
+        ei = _bending_stiffness(seg)
+        if ei is not None:
+            groups.setdefault((runs[i].start, runs[i].end), []).append((ei, i))
+    for members in groups.values():
+        members.sort()
+    out = []
+    for i, seg in enumerate(model.segments):
+        ei, found = _bending_stiffness(seg), None
+        for other_ei, j in groups.get((runs[i].start, runs[i].end), ()) if ei is not None else ():
+            if other_ei >= ei:
+                break
+            if model.segments[j].name not in parallel[i]:
+                found = model.segments[j].name
+                break
+        out.append(found)
+    return out
+
+
 def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
     """One buckling entry per segment in compression at either end."""
     model, case, sf, curve = result.model, result.name, settings.safety_factor, settings.column_curve
     runs, parallel = braced_runs(model), parallel_segments(model)
+    weaker = _weaker_in_run(model, runs, parallel)
 
     def length_text(value):
         return quantity_text(value, units.length, units, "length")
@@ -109,6 +138,10 @@ def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUn
             continue
         length, k, basis, unclear = _length_basis(seg, runs[i], settings, length_text)
         tail = _parallel_text(parallel[i]) if parallel[i] else ""
+        if weaker[i] is not None and seg.buckling_length is None:
+            tail += (f"; the run also holds the weaker segment '{weaker[i]}': this capacity takes "
+                     "this segment's own section over the whole run, which overstates a run of "
+                     "mixed sections")
 
         def entry(util, ok, note, capacity=None, slender=None, limit=None, lam=None):
             return CheckEntry("buckling", seg.name, case, util, ok, note + tail, "force",

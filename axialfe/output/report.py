@@ -263,7 +263,8 @@ def _assumptions(report) -> list[str]:
         "slack link tension only once taut.",
         "Design checks: " + report.settings_text() + ". Buckling: each compressed segment is "
         "checked with its own section, material and compression over the buckling length of "
-        "its braced run (conservative for the weaker parts of a run of mixed sections); where "
+        "its braced run (conservative for the weaker parts of a run of mixed sections, not for "
+        "its stiffer parts, whose notes name the weaker segment); where "
         "parts lie side by side (a sleeve on a bolt), the one guided by the other may in fact "
         "be supported along its length, which the check does not assume. The column curve "
         "decides stocky members with a capacity of at most A\u00b7f_y; with euler-only, members "
