@@ -577,3 +577,17 @@ def test_unknown_column_curve_is_one_located_error(tmp_path):
     assert result.stderr.strip().splitlines() == [
         f"error: {path}:2: checks: column_curve: unknown column curve 'jonson'; did you mean "
         "'johnson'?"]
+
+
+def test_readme_check_excerpt_is_what_the_tool_prints():
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parent.parent
+    readme = (root / "README.md").read_text(encoding="utf-8")
+    command = "$ axialfe check docs/clamped-spacer.toml\n"
+    excerpt = readme[readme.index(command) + len(command):].split("\n```", 1)[0]
+    result = runner.invoke(app, ["check", str(root / "docs" / "clamped-spacer.toml")])
+    assert result.exit_code == 0, result.output
+    assert excerpt in result.stdout
+    assert excerpt.startswith(" checks of case 'base'") and "(overall: pass)" in excerpt
+    assert max(len(line) for line in result.stdout.splitlines()) <= 120

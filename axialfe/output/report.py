@@ -160,7 +160,11 @@ def _input_tables(model, units):
     """Yield (title, headers, rows) echoing the model's input."""
     fF, fL, fS = units.factor("force"), units.factor("length"), units.factor("stress")
     L, F, S = units.length, units.force, units.stress
-    yield ("stations", ["station", f"x [{L}]"], [[st.name, _g(st.x / fL, 6)] for st in model.stations])
+    supported = {s.at for s in model.supports}
+    yield ("stations", ["station", f"x [{L}]", "laterally braced"],
+           [[st.name, _g(st.x / fL, 6), "yes" if st.braced else
+             "by its support (assumed)" if st.name in supported else "no"]
+            for st in model.stations])
     mats = {}
     for seg in model.segments:
         mats.setdefault(seg.material.name, seg.material)
