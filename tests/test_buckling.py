@@ -520,6 +520,15 @@ force = "-10 kN"
 
 
 # --- input --------------------------------------------------------------------------------
+def test_station_checks_its_bracing():
+    from axialfe.model import Station
+
+    assert Station("a", 0.0).braced is False
+    with pytest.raises(ModelError) as err:
+        Station("a", 0.0, braced=1)
+    assert str(err.value) == "stations.a: braced must be true or false: got 1"
+
+
 def test_station_as_a_table():
     model = strut(parts=2, braced_at=(1,))
     assert [(s.name, s.x, s.braced) for s in model.stations] == [

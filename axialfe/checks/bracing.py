@@ -130,8 +130,12 @@ def braced_runs(model: Model) -> tuple[Run, ...]:
                 found[name] = frozenset((name,))
                 continue
             beyond = [o for o in neighbours[name] if (x[o] - x[name]) * direction > 0]
-            found[name] = (frozenset().union(*(found[o] for o in beyond)) if beyond
-                           else frozenset((name,)))
+            if not beyond:
+                found[name] = frozenset((name,))
+            elif len(beyond) == 1:
+                found[name] = found[beyond[0]]
+            else:
+                found[name] = frozenset().union(*(found[o] for o in beyond))
         ends[direction] = found
 
     def side(name, direction):
@@ -178,10 +182,10 @@ def parallel_segments(model: Model) -> tuple[tuple[str, ...], ...]:
     spans.sort()
     found = [[] for _ in model.segments]
     for k, (part, lo, hi, i) in enumerate(spans):
-        for other_part, other_lo, other_hi, j in spans[k + 1:]:
-            if other_part != part or other_lo >= hi:
+        for m in range(k + 1, len(spans)):
+            other_part, other_lo, _, j = spans[m]
+            if other_part != part or other_lo >= hi:   # sorted by lo: no overlap from here on
                 break
-            if min(hi, other_hi) > other_lo:  # overlap over a length
-                found[i].append(j)
-                found[j].append(i)
+            found[i].append(j)                          # lo <= other_lo < hi: they overlap
+            found[j].append(i)
     return tuple(tuple(model.segments[j].name for j in sorted(f)) for f in found)

@@ -179,7 +179,7 @@ def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUn
                                  "code governs (set [checks] column_curve)", p_euler, slender, limit))
             else:
                 out.append(entry(util, util <= 1.0, f"{basis}; euler-only: K*L/r = {slender:.4g}, "
-                                 f"Euler load {force_text(p_euler)}", p_euler, slender, limit))
+                                 f"Euler load {force_text(p_euler)} (no reduction)", p_euler, slender, limit))
             continue
         strength = column_strength(curve, E, fy, slender)
         capacity = strength.stress * area
