@@ -59,11 +59,13 @@ def _length_basis(seg, run, settings, length_text):
                 "with braced = true, or give the segment buckling_length")
     if run.braced_ends == 2:
         k = own_k or settings.effective_length_factor
-        return run.length, k, f"{where} braced at both ends: L = {length_text(run.length)}, K = {k:g}", None
+        return (run.length, k, f"{where} braced at both ends: L = {length_text(run.length)}, "
+                f"K = {k:g}", None)
     text = (f"{where} braced at '{run.braced_end}' only (free end '{run.free_end}'): "
             f"L = {length_text(run.length)}, ")
     if own_k:
-        return run.length, own_k, text + f"K = {own_k:g} (the segment's effective_length_factor)", None
+        return (run.length, own_k, text + f"K = {own_k:g} (the segment's effective_length_factor)",
+                None)
     return (run.length, FREE_END_K, text + f"K = {FREE_END_K:g} for the free end (this assumes "
             f"'{run.braced_end}' holds the member against rotation; set effective_length_factor "
             "otherwise)", None)
@@ -120,7 +122,8 @@ def _weaker_in_run(model, runs, parallel):
 
 def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
     """One buckling entry per segment in compression at either end."""
-    model, case, sf, curve = result.model, result.name, settings.safety_factor, settings.column_curve
+    model, case = result.model, result.name
+    sf, curve = settings.safety_factor, settings.column_curve
     runs, parallel = braced_runs(model), parallel_segments(model)
     weaker = _weaker_in_run(model, runs, parallel)
 
@@ -137,8 +140,9 @@ def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUn
         if compression <= _STRAIN_NOISE * seg.material.elastic_modulus * min(areas):
             continue
         length, k, basis, unclear = _length_basis(seg, runs[i], settings, length_text)
-        tail = _parallel_text(parallel[i]) if parallel[i] else ""
-        if weaker[i] is not None and seg.buckling_length is None:
+        own_length = seg.buckling_length is not None     # the user has set it deliberately
+        tail = _parallel_text(parallel[i]) if parallel[i] and not own_length else ""
+        if weaker[i] is not None and not own_length:
             tail += (f"; the run also holds the weaker segment '{weaker[i]}': this capacity takes "
                      "this segment's own section over the whole run, which overstates a run of "
                      "mixed sections")
@@ -176,10 +180,12 @@ def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUn
                 out.append(entry(util, None, f"{basis}; euler-only: slenderness K*L/r = "
                                  f"{slender:.4g} is below the Euler limit pi*sqrt(E/f_y) = "
                                  f"{limit:.4g}: an inelastic column curve from the applicable "
-                                 "code governs (set [checks] column_curve)", p_euler, slender, limit))
+                                 "code governs (set [checks] column_curve)",
+                                 p_euler, slender, limit))
             else:
                 out.append(entry(util, util <= 1.0, f"{basis}; euler-only: K*L/r = {slender:.4g}, "
-                                 f"Euler load {force_text(p_euler)} (no reduction)", p_euler, slender, limit))
+                                 f"Euler load {force_text(p_euler)} (no reduction)",
+                                 p_euler, slender, limit))
             continue
         strength = column_strength(curve, E, fy, slender)
         capacity = strength.stress * area

@@ -140,5 +140,6 @@ def column_strength(curve: str, elastic_modulus: float, yield_strength: float,
         return ColumnStrength(curve, chi * fy, chi, "6.49", lam)
     if curve == "aisc360":
         stress = aisc360_stress(fy, sigma_e)
-        return ColumnStrength(curve, stress, stress / fy, "E3-2" if fy / sigma_e <= 2.25 else "E3-3")
+        branch = "E3-2" if fy / sigma_e <= 2.25 else "E3-3"
+        return ColumnStrength(curve, stress, stress / fy, branch)
     raise ValueError(f"unknown column curve {curve!r}")
