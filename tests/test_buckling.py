@@ -182,8 +182,12 @@ def test_supports_brace_and_a_contact_ends_a_run(kind):
     assert (r3.start, r3.end, r3.length, r3.braced_ends) == ("end", "right", pytest.approx(0.4), 1)
     assert r1.free_end == "tip" and r3.free_end == "end" and r3.braced_end == "right"
     # heated between walls, the rods butt and are compressed: each a cantilever from its wall
-    for e in buckling(model):
+    entries = buckling(model)
+    assert [e.name for e in entries] == ["r1", "r2", "r3"]
+    for e in entries:
         assert e.k_factor == 2.0 and e.ok is not None
+    assert entries[0].buckling_length == pytest.approx(0.6)
+    assert entries[2].buckling_length == pytest.approx(0.4)
 
 
 def test_a_run_braced_at_neither_end_is_undecided():
