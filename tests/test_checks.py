@@ -19,7 +19,7 @@ KSI = 6.894757293168361e6   # Pa; NIST SP 811 (1 ksi = 6.894757 MPa)
 
 def strut(*, length="1000 mm", section='shape = "round"\ndiameter = "20 mm"', force="-5 kN",
           material="structural-steel", checks="", extra="", segment_extra=""):
-    """A strut fixed at 'a' with an axial load at its free end 'b'."""
+    """A strut fixed at 'a' with an axial load at 'b', braced laterally at both (pinned-pinned)."""
     return parse_model(f"""
 title = "strut"
 {checks}
@@ -27,7 +27,7 @@ title = "strut"
 {section}
 [stations]
 a = "0 mm"
-b = "{length}"
+b = {{ x = "{length}", braced = true }}
 [[segments]]
 name = "strut"
 from = "a"
@@ -61,7 +61,10 @@ def test_euler_pinned_pinned_load():
     assert e.demand == pytest.approx(5e3, rel=1e-12)
     assert e.k_factor == 1.0 and e.buckling_length == pytest.approx(1.0)
     assert e.ok is True
-    assert e.note == "K = 1, L = 1000 mm"
+    assert e.curve == "johnson"      # slender: the Euler branch of the default curve
+    assert e.note == ("run 'a'..'b' braced at both ends: L = 1000 mm, K = 1; johnson (Euler "
+                      "branch: K*L/r = 200 at or above the tangency 125.7): sigma_cr = "
+                      "0.1974*f_y, capacity 15500 N")  # pi^2*E/200^2 = 49.35 MPa
 
 
 @pytest.mark.parametrize("k, coefficient, rel", [
@@ -75,7 +78,8 @@ def test_euler_pinned_pinned_load():
     (1.0, math.pi ** 2, 1e-12),
 ])
 def test_effective_length_factors_of_ideal_ends(k, coefficient, rel):
-    model = strut(segment_extra=f"effective_length_factor = {k}")
+    model = strut(segment_extra=f"effective_length_factor = {k}",
+                  checks='[checks]\ncolumn_curve = "euler-only"')
     e, = entries(model, "buckling")
     EI = 200e9 * math.pi * 0.020 ** 4 / 64
     assert e.capacity == pytest.approx(coefficient * EI / 1.0 ** 2, rel=rel)
@@ -138,21 +142,27 @@ def test_safety_factor_scales_buckling_utilization():
     assert factored.utilization == pytest.approx(1.5 * base.utilization, rel=1e-12)
 
 
-def test_slenderness_limit_makes_stocky_struts_undecided():
+def test_euler_only_leaves_stocky_struts_undecided():
     # The Euler stress pi^2 E/(KL/r)^2 reaches f_y at KL/r = pi*sqrt(E/f_y): 88.86 for
     # E = 200 GPa, f_y = 250 MPa (common practice; e.g. Gere and Goodno, Mechanics of
     # Materials, columns chapter, from memory).  A 20 mm round has r = d/4 = 5 mm.
     limit = math.pi * math.sqrt(200e9 / 250e6)
     below = 0.99 * limit * 5.0   # mm
     above = 1.01 * limit * 5.0
-    e, = entries(strut(length=f"{below} mm", force="-1 kN"), "buckling")
+    euler_only = '[checks]\ncolumn_curve = "euler-only"'
+    e, = entries(strut(length=f"{below} mm", force="-1 kN", checks=euler_only), "buckling")
     assert e.slenderness == pytest.approx(0.99 * limit, rel=1e-9)
     assert e.slenderness_limit == pytest.approx(88.857658763167, rel=1e-12)
     assert e.ok is None and e.utilization is not None and e.utilization < 1
     assert "below the Euler limit pi*sqrt(E/f_y) = 88.86" in e.note
     assert "inelastic column curve from the applicable code governs" in e.note
-    e, = entries(strut(length=f"{above} mm", force="-1 kN"), "buckling")
+    assert e.curve == "euler-only" and e.capacity > 250e6 * math.pi * 0.01 ** 2
+    e, = entries(strut(length=f"{above} mm", force="-1 kN", checks=euler_only), "buckling")
     assert e.ok is True
+    # the default curve decides the stocky strut, with a capacity below the squash load
+    e, = entries(strut(length=f"{below} mm", force="-1 kN"), "buckling")
+    assert e.ok is True and e.curve == "johnson"
+    assert e.capacity < 250e6 * math.pi * 0.01 ** 2
 
 
 def test_no_yield_strength_leaves_buckling_undecided_and_strength_unchecked():
@@ -163,7 +173,8 @@ def test_no_yield_strength_leaves_buckling_undecided_and_strength_unchecked():
     b, = entries(model, "buckling")
     assert entries(model, "strength") == []
     assert b.ok is None and b.utilization is not None
-    assert "slenderness limit pi*sqrt(E/f_y) of the Euler formula is unknown" in b.note
+    assert ("neither the column curve nor the slenderness limit pi*sqrt(E/f_y) of the Euler "
+            "formula is known") in b.note
     report = check_solution(solve(model))
     assert report.unchecked == (model.segments[0].name,)
     # a strength that cannot be checked is never a pass, even with nothing else to check
@@ -183,7 +194,7 @@ shape = "round"
 diameter = "20 mm"
 [stations]
 a = "0 mm"
-b = "2000 mm"
+b = { x = "2000 mm", braced = true }
 [[segments]]
 from = "a"
 to = "b"
@@ -396,7 +407,7 @@ shape = "round"
 diameter = "20 mm"
 [stations]
 a = "0 mm"
-b = "{length}"
+b = {{ x = "{length}", braced = true }}
 [[segments]]
 name = "strut"
 from = "a"
@@ -418,8 +429,10 @@ def test_solve_json_has_checks_and_governing(tmp_path):
     data = json.loads(result.stdout)
     checks = data["cases"][0]["checks"]
     assert [c["kind"] for c in checks] == ["strength", "buckling"]
-    for c in checks:
-        assert set(c) >= {"kind", "name", "utilization", "ok", "note"}
+    assert set(checks[0]) == {"kind", "name", "utilization", "ok", "note", "at"}
+    assert set(checks[1]) == {"kind", "name", "utilization", "ok", "note", "curve",
+                              "buckling_length", "effective_length_factor", "slenderness",
+                              "relative_slenderness"}
     # a uniform strut: the stress is the same along it, so "at" is its least x (mm)
     assert checks[0] == {"kind": "strength", "name": "strut",
                          "utilization": pytest.approx(5e3 / (math.pi * 0.01 ** 2) / 250e6),
@@ -443,10 +456,15 @@ def test_solve_table_shows_checks(tmp_path):
     ("-5 kN", "1000 mm", 0, "pass"),           # slender strut, Euler applies, passes
     ("-20 kN", "1000 mm", 1, "fail"),          # above the Euler load
     ("80 kN", "1000 mm", 1, "fail"),           # 255 MPa > 250 MPa
-    ("-1 kN", "200 mm", 3, "undecided"),       # stocky: KL/r = 40 < 88.9
+    ("-1 kN", "200 mm", 0, "pass"),            # stocky: KL/r = 40, decided by Johnson's parabola
+    ("-76 kN", "200 mm", 1, "fail"),           # stocky: above the parabola (74.56 kN), below A*f_y
+    ("-1 kN", "200 mm", 3, "undecided"),       # no yield strength: no column curve
 ])
 def test_check_exit_codes(tmp_path, force, length, code, status):
-    path = write(tmp_path, strut_text(force, length))
+    text = strut_text(force, length)
+    if status == "undecided":
+        text = text.replace("structural-steel", "grey-cast-iron")
+    path = write(tmp_path, text)
     result = runner.invoke(app, ["check", str(path)])
     assert result.exit_code == code, result.output
     assert f"(overall: {status})" in result.stdout

@@ -1,4 +1,4 @@
-"""Design checks of a solved model: strength, Euler buckling, deformation limits.
+"""Design checks of a solved model: strength, buckling, deformation limits.
 
 Each check gives one :class:`CheckEntry` per item and case with a utilisation
 (demand over capacity, 1 at the limit) and a verdict ``ok``: True (passes),
@@ -8,12 +8,13 @@ False (fails) or None (the tool cannot decide; an engineer must judge).
   (the larger end), where a yield strength is known; the others are named in
   the basis of the report as not checked.
 - ``buckling``: for each segment in compression at either end, the largest
-  compression * safety factor / Euler load pi^2 E I / (K L)^2.  Euler's formula
-  holds for slender elastic members only: where K L / r lies below the limit
-  pi * sqrt(E / f_y), at which the Euler stress reaches the yield strength, the
-  entry keeps its utilisation but is undecided (an inelastic column curve from
-  the applicable code governs); without a yield strength the limit is unknown
-  and the entry is undecided as well.
+  compression * safety factor / capacity over the buckling length of its braced
+  run (:mod:`~axialfe.checks.bracing`), the capacity from the column curve
+  ``[checks] column_curve`` (:mod:`~axialfe.checks.columns`: Johnson's parabola
+  by default, EN 1993-1-1 curves a0..d, AISC 360-16 E3) and never more than the
+  squash load A * f_y; ``euler-only`` keeps Euler's load alone and leaves
+  stocky members undecided, as does a missing yield strength or a run braced
+  at neither end.
 - ``displacement``: |u| / allowable at a station (``[[limits]] at``).
 - ``gap``: min_opening / opening of a gap (``[[limits]] gap``); a closed gap
   fails with no utilisation.
@@ -23,13 +24,15 @@ compute; they print nothing (see :mod:`axialfe.output`).
 
 Examples
 --------
-A pinned-pinned steel strut, 1 m long, 20 mm round: Euler load pi^2 E I / L^2.
+A pinned-pinned steel strut, 1 m long, 20 mm round, braced at both ends: slender
+(K L / r = 200), so Johnson's curve gives Euler's load pi^2 E I / L^2.
 
 >>> import math
 >>> from axialfe.model import Material, Section, Station, Segment, Support, Load, Model
 >>> steel = Material("steel", 200e9, 12e-6, yield_strength=250e6)
 >>> rod = Section("d20", "round", (("diameter", 0.020),))
->>> m = Model((Station("a", 0.0), Station("b", 1.0)), (Segment("strut", "a", "b", steel, rod),),
+>>> m = Model((Station("a", 0.0), Station("b", 1.0, braced=True)),
+...           (Segment("strut", "a", "b", steel, rod),),
 ...           (Support("a"),), (Load("b", -5e3),))
 >>> from axialfe import solve
 >>> entry = [e for e in check_case(solve(m)["base"]) if e.kind == "buckling"][0]

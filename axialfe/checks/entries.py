@@ -39,6 +39,10 @@ class CheckEntry:
     at : float or None
         Strength entries: the position x (m) of the largest |stress| along the
         segment, inside it included (the least x where a stretch is uniform).
+    curve : str or None
+        The column curve used (buckling entries only).
+    relative_slenderness : float or None
+        lambda = sqrt(A*f_y/N_cr) of the EN 1993 curves (None for the others).
     """
 
     kind: str
@@ -54,7 +58,8 @@ class CheckEntry:
     buckling_length: float | None = None
     slenderness: float | None = None
     slenderness_limit: float | None = None
-    at: float | None = None
+    curve: str | None = None
+    relative_slenderness: float | None = None
 
     @property
     def verdict(self) -> str:
@@ -62,13 +67,24 @@ class CheckEntry:
         return {True: "pass", False: "FAIL", None: "review"}[self.ok]
 
     def to_dict(self, units: OutputUnits | None = None) -> dict:
-        """The JSON form: kind, name, utilization, ok, note; strength entries add ``at``
-        (in the length unit of ``units``, default SI)."""
+        """The JSON form: kind, name, utilization, ok, note.
+
+        A strength entry adds ``at``; a buckling entry adds curve, buckling_length,
+        effective_length_factor, slenderness and relative_slenderness.  Lengths are
+        in the length unit of ``units`` (default: the default output units).
+        """
+        units = units or OutputUnits()
         out = {"kind": self.kind, "name": self.name,
                "utilization": None if self.utilization is None else float(self.utilization),
                "ok": self.ok, "note": self.note}
         if self.kind == "strength":
-            out["at"] = self.at / (units.factor("length") if units else 1.0)
+            out["at"] = self.at / units.factor("length")
+        if self.kind == "buckling":
+            out.update({"curve": self.curve,
+                        "buckling_length": self.buckling_length / units.factor("length"),
+                        "effective_length_factor": self.k_factor,
+                        "slenderness": self.slenderness,
+                        "relative_slenderness": self.relative_slenderness})
         return out
 
 
@@ -145,14 +161,33 @@ class CheckReport:
         s = self.settings
         k_default = " (default)" if s.effective_length_factor == 1.0 else ""
         sf_default = " (default)" if s.safety_factor == 1.0 else ""
+        curve_default = " (default)" if s.column_curve == "johnson" else ""
         return (f"safety factor {s.safety_factor:g}{sf_default} on strength and buckling, none on "
-                f"deformation limits; buckling: Euler load pi^2*E*I/(K*L)^2 with K = "
-                f"{s.effective_length_factor:g}{k_default} and L = the segment length unless a "
-                "segment sets effective_length_factor or buckling_length (the default assumes "
-                "both end stations of a segment are braced laterally; give buckling_length for "
-                "an unbraced run)"
+                "deformation limits; buckling over braced runs: L = the distance between the "
+                "nearest braced stations at or beyond a segment's ends (stations marked braced, "
+                "and stations with a support of any kind, which is assumed to hold them "
+                "laterally; gaps brace nothing and end a run; a free end where no braced station "
+                f"follows), K = {s.effective_length_factor:g}{k_default} for a run braced at both "
+                "ends and 2 for a run with a free end, unless a segment sets buckling_length or "
+                "effective_length_factor; a run braced at neither end is undecided; column curve "
+                f"{s.column_curve}{curve_default}: {_CURVE_BASIS[s.column_curve]}"
                 + ("; strength NOT checked (no yield strength given): "
                    + ", ".join(f"'{n}'" for n in self.unchecked) if self.unchecked else ""))
+
+
+_EN1993 = ("EN 1993-1-1:2005 buckling curve {} (alpha = {}, eq. 6.49, chi at most 1) with "
+           "the safety factor as gamma_M1, capacity chi*A*f_y")
+_CURVE_BASIS = {
+    "johnson": "Johnson's parabola f_y - (f_y/(2*pi))^2*(K*L/r)^2/E below the tangency "
+               "K*L/r = sqrt(2*pi^2*E/f_y), Euler's pi^2*E/(K*L/r)^2 above it, capacity at most "
+               "A*f_y",
+    **{f"en1993-{c}": _EN1993.format(c, a) for c, a in
+       (("a0", 0.13), ("a", 0.21), ("b", 0.34), ("c", 0.49), ("d", 0.76))},
+    "aisc360": "ANSI/AISC 360-16 E3, F_cr = 0.658^(F_y/F_e)*F_y for F_y/F_e <= 2.25, else "
+               "0.877*F_e, with the safety factor as given, capacity at most A*f_y",
+    "euler-only": "Euler's load pi^2*E*I/(K*L)^2 only; members with K*L/r below pi*sqrt(E/f_y) "
+                  "are left undecided",
+}
 
 
 def quantity_text(value, unit, units: OutputUnits, key):

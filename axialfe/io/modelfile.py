@@ -41,7 +41,8 @@ _KEYS = {
     "case": ("name", "loads", "temperature_change", "temperature", "settlements"),
     "settlement": ("at", "displacement"),
     "combination": ("name", "factors"),
-    "checks": ("safety_factor", "effective_length_factor"),
+    "checks": ("safety_factor", "effective_length_factor", "column_curve"),
+    "station": ("x", "braced"),
     "limit": ("at", "displacement", "gap", "min_opening"),
 }
 _SECTION_KINDS = {"diameter": "length", "outer_diameter": "length", "wall_thickness": "length",
@@ -285,6 +286,23 @@ class _Reader:
         return self.build(Section, {"name": name, "shape": shape, "dimensions": tuple(dims.items())},
                           table, place=table, raw=entry)
 
+    def station(self, name, value):
+        """A station: ``name = "150 mm"`` or ``name = { x = "150 mm", braced = true }``."""
+        if not isinstance(value, dict):
+            x = self.quantity(value, "length", table="stations", key=name, place="stations")
+            return Station(name, x)
+        place = f"stations.{name}"
+        self.keys(value, _KEYS["station"], f"stations.{name}", place=place)
+        if "x" not in value:
+            self.fail("a station given as a table needs 'x' (its position)", f"stations.{name}",
+                      place=place)
+        x = self.quantity(value["x"], "length", table=f"stations.{name}", key="x", place=place)
+        braced = value.get("braced", False)
+        if not isinstance(braced, bool):
+            self.fail(f"braced: expected true or false: got {braced!r}", f"stations.{name}",
+                      key="braced", place=place)
+        return Station(name, x, braced)
+
     def temperature_pair(self, entry, reference, table, index, place):
         """Return the temperature change of an entry with ``temperature_change`` or
         ``temperature`` (absolute, against the reference), or None."""
@@ -359,8 +377,7 @@ class _Reader:
             self.fail("a model needs a [stations] table of names and positions, e.g. left = \"0 mm\"",
                       "stations", place="stations")
         for name, value in st_table.items():
-            x = self.quantity(value, "length", table="stations", key=name, place="stations")
-            stations.append(Station(name, x))
+            stations.append(self.station(name, value))
         station_names = dict.fromkeys(st_table)  # ordered, with O(1) look-ups
 
         builtins = None
@@ -511,8 +528,8 @@ class _Reader:
 
         checks_entry = data.get("checks", {})
         self.keys(checks_entry, _KEYS["checks"], "checks", place="checks")
-        checks = self.build(CheckSettings, {k: self.number(v, table="checks", key=k, place="checks")
-                                            for k, v in checks_entry.items()}, "checks")
+        checks = self.build(CheckSettings, {k: (self.text if k == "column_curve" else self.number)(
+            v, table="checks", key=k, place="checks") for k, v in checks_entry.items()}, "checks")
         limits = []
         for i, entry in enumerate(self.array("limits"), 1):
             place = f"limits[{i}]"

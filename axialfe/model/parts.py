@@ -19,7 +19,7 @@ from ..units import OutputUnits
 
 __all__ = [
     "Material", "Section", "Station", "Segment", "Support", "Load", "Gap",
-    "Case", "Combination", "Model", "BASE_CASE",
+    "Case", "Combination", "Model", "BASE_CASE", "COLUMN_CURVES",
 ]
 
 BASE_CASE = "base"
@@ -164,16 +164,24 @@ class Section:
 
 @dataclass(frozen=True)
 class Station:
-    """A named plane across the axis at position ``x`` (m)."""
+    """A named plane across the axis at position ``x`` (m).
+
+    ``braced`` marks a station held laterally: compression members buckle
+    between braced stations (see :mod:`axialfe.checks.bracing`).
+    """
 
     name: str
     x: float
+    braced: bool = False
 
     def __post_init__(self):
         _name(self.name, "a station's name", "stations")
         if self.x is None:
             raise ModelError("position is required", place=f"stations.{self.name}")
         _finite(self.x, "position", f"stations.{self.name}")
+        if not isinstance(self.braced, bool):
+            raise ModelError(f"braced must be true or false: got {self.braced!r}",
+                             place=f"stations.{self.name}")
 
 
 @dataclass(frozen=True)
@@ -386,17 +394,28 @@ class Combination:
                              place=f"combinations ('{self.name}')")
 
 
+# The column curves of the buckling check (axialfe.checks.columns computes them).
+COLUMN_CURVES = ("johnson", "en1993-a0", "en1993-a", "en1993-b", "en1993-c", "en1993-d",
+                 "aisc360", "euler-only")
+
+
 @dataclass(frozen=True)
 class CheckSettings:
     """Settings of the design checks: safety factor on strength and buckling,
-    and the default effective-length factor K."""
+    the default effective-length factor K of runs braced at both ends, and the
+    column curve of the buckling check (one of :data:`COLUMN_CURVES`)."""
 
     safety_factor: float = 1.0
     effective_length_factor: float = 1.0
+    column_curve: str = "johnson"
 
     def __post_init__(self):
         _positive(self.safety_factor, "safety_factor", "checks")
         _positive(self.effective_length_factor, "effective_length_factor", "checks")
+        if self.column_curve not in COLUMN_CURVES:
+            raise ModelError(f"column_curve: unknown column curve {self.column_curve!r}",
+                             place="checks", hint=suggest(str(self.column_curve), COLUMN_CURVES),
+                             options=COLUMN_CURVES)
 
 
 @dataclass(frozen=True)

@@ -160,7 +160,11 @@ def _input_tables(model, units):
     """Yield (title, headers, rows) echoing the model's input."""
     fF, fL, fS = units.factor("force"), units.factor("length"), units.factor("stress")
     L, F, S = units.length, units.force, units.stress
-    yield ("stations", ["station", f"x [{L}]"], [[st.name, _g(st.x / fL, 6)] for st in model.stations])
+    supported = {s.at for s in model.supports}
+    yield ("stations", ["station", f"x [{L}]", "laterally braced"],
+           [[st.name, _g(st.x / fL, 6), "yes" if st.braced else
+             "by its support (assumed)" if st.name in supported else "no"]
+            for st in model.stations])
     mats = {}
     for seg in model.segments:
         mats.setdefault(seg.material.name, seg.material)
@@ -261,9 +265,16 @@ def _assumptions(report) -> list[str]:
         "along a segment.",
         "A gap is an exact one-way constraint: a contact carries compression only once closed, a "
         "slack link tension only once taut.",
-        "Design checks: " + report.settings_text() + ". Euler's formula is used only for "
-        "slender members (K\u00b7L/r at least \u03c0\u221a(E/f_y)); shorter members are left "
-        "to an inelastic column curve of the applicable code.",
+        "Design checks: " + report.settings_text() + ". Buckling: each compressed segment is "
+        "checked with its own section, material and compression over the buckling length of "
+        "its braced run (conservative for the weaker parts of a run of mixed sections, not for "
+        "its stiffer parts, whose notes name the weaker segment); where "
+        "parts lie side by side (a sleeve on a bolt), the one guided by the other may in fact "
+        "be supported along its length, which the check does not assume. The column curve "
+        "decides stocky members with a capacity of at most A\u00b7f_y; with euler-only, members "
+        "with K\u00b7L/r below \u03c0\u221a(E/f_y) are left undecided. The bracing "
+        "assumptions, K and the curve must be confirmed against the applicable design code "
+        "and by a licensed engineer.",
     ]
 
 

@@ -237,14 +237,37 @@ def _check_cells(entry, units: OutputUnits):
             entry.verdict, entry.note or ""]
 
 
+# Lines of the check tables are kept within this width: long notes go under the table.
+WIDTH = 120
+
+
+def _wrap(text, first="", rest="   "):
+    """``text`` wrapped to :data:`WIDTH`, the first line after ``first``, the others after ``rest``."""
+    import textwrap
+
+    return textwrap.wrap(text, WIDTH, initial_indent=first, subsequent_indent=rest,
+                         break_on_hyphens=False) or [first.rstrip()]
+
+
 def _check_lines(case_checks, units: OutputUnits, title=True):
-    """Lines of the checks table of one case."""
-    out = [f" checks of case '{case_checks.case}' (utilization = demand x safety factor / capacity;"
-           " result pass, FAIL, or review where the tool cannot decide)"] if title else []
+    """Lines of the checks table of one case: notes numbered in the table, in full under it."""
+    out = _wrap(f"checks of case '{case_checks.case}' (utilization = demand x safety factor / "
+                "capacity; review: the tool cannot decide)",
+                " ", "   ") if title else []
     if not len(case_checks):
         return out + ["  (no checks)"]
-    rows = [_check_cells(e, units) for e in case_checks]
+    notes = {}                      # note text -> its number (one number for a repeated note)
+    rows = []
+    for e in case_checks:
+        cells = _check_cells(e, units)
+        if cells[-1]:
+            cells[-1] = str(notes.setdefault(cells[-1], len(notes) + 1))
+        rows.append(cells)
     lines = _grid(list(_CHECK_HEADERS), rows)
+    if notes:
+        lines.append("  notes:")
+        for text, n in notes.items():
+            lines += _wrap(text, f"  {n:>2}. ", "      ")
     return out + lines
 
 
@@ -285,15 +308,15 @@ def checks_json(checks, units: OutputUnits, title: str) -> str:
 def checks_table(checks, units: OutputUnits | None = None, title: str | None = None) -> str:
     """The checks of every case, the governing entry and the cautions, as text."""
     units = units or OutputUnits()
-    out = [f"axialfe check: {title}"] if title else []
+    out = _wrap(f"axialfe check: {title}", "", "  ") if title else []
     if title:
         out.append("units: " + ", ".join(f"{k} {v}" for k, v in units.as_dict().items()))
         out.append("")
     for c in checks.cases:
         out += _check_lines(c, units)
         out.append("")
-    out += _governing_lines(checks, units)
-    out += ["", "cautions:"] + [f" - {c}" for c in CAUTIONS]
+    out += [line for text in _governing_lines(checks, units) for line in _wrap(text, "", "  ")]
+    out += ["", "cautions:"] + [line for c in CAUTIONS for line in _wrap(c, " - ", "   ")]
     return "\n".join(out) + "\n"
 
 
