@@ -128,7 +128,8 @@ def materials():
 
     for name, entry in _builtin_table().items():
         typer.echo(f"{name}: {entry.get('description', '')}")
-        for key in ("elastic_modulus", "thermal_expansion", "yield_strength", "density"):
+        for key in ("elastic_modulus", "thermal_expansion", "yield_strength", "density",
+                    "poissons_ratio"):
             typer.echo(f"    {key:18s} {entry.get(key, '(not given)')}")
         typer.echo(f"    source             {entry['source']}")
     typer.echo("\nA model's own [materials] entry of the same name takes precedence. Values are "
