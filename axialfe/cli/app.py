@@ -392,6 +392,39 @@ def report(model: ModelPath,
         typer.echo(f"wrote {output}", err=True)
 
 
+@app.command()
+def fit(fit_file: Annotated[Path, typer.Argument(metavar="FIT", help="The fit file (TOML).")],
+        format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
+        output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+        stress_unit: StressUnit = None,
+        torque_unit: Annotated[Optional[str], typer.Option("--torque-unit", help="Unit of torques, e.g. N*m, lbf*in.")] = None):
+    """Check a press or shrink fit (Lamé's thick-walled cylinders) under temperature.
+
+    Exit code 0 when every check passes, 1 when any fails, 3 when none fails
+    but some cannot be decided; 2 for bad input.
+    """
+    from ..errors import UnitError
+    from ..fits.fit import FitUnits, solve_fit
+    from ..fits.reader import read_fit
+    from ..output.fittext import fit_json, fit_table
+
+    with user_errors():
+        spec = read_fit(fit_file)
+        base = spec.units.as_dict()
+        for key, value in (("force", force_unit), ("length", length_unit),
+                           ("stress", stress_unit), ("torque", torque_unit)):
+            if value:
+                try:
+                    FitUnits(**{**base, key: value})
+                except UnitError as exc:
+                    raise UnitError(f"--{key}-unit: {exc.message}") from None
+                base[key] = value
+        result = solve_fit(spec)
+        render = fit_json if format is CheckFormat.json else fit_table
+        emit(render(result, FitUnits(**base)), output)
+    raise typer.Exit(result.checks.exit_code)
+
+
 def main():
     """The entry point: a mistake on the command line is one ``error:`` line, exit 2.
 

@@ -44,7 +44,7 @@ FIT_CHECK_KINDS = ("hub-stress", "shaft-stress", "holding-force", "torque-capaci
 # the clearance a heated hub should have over the shaft when it is slid on, as a
 # fraction of the fit diameter: common practice (about 1 um per mm), no standard
 DEFAULT_CLEARANCE_RATIO = 0.001
-_KELVIN = 273.15
+DEFAULT_TEMPERATURE = 293.15  # K, 20 degC
 
 _FIT_KINDS = {"force": "force", "length": "length", "stress": "stress", "torque": "torque"}
 _FIT_SYSTEMS = {"SI": {"force": "N", "length": "mm", "stress": "MPa", "torque": "N*m"},
@@ -139,8 +139,9 @@ class PressFit:
         (m); negative values are clearances.  Given in either order.
     inner_diameter : float
         The shaft's bore (m), 0 for a solid shaft.
-    assembly_temperature : float
-        Temperature of both parts when the fit is made (K).
+    assembly_temperature : float, optional
+        Temperature of both parts when the fit is made (K); default 20 degC,
+        stated in the notes.
     assembly_clearance : float, optional
         Clearance wanted when a heated hub is slid on (m); default
         0.001 d (common practice).
@@ -162,7 +163,7 @@ class PressFit:
     friction: float
     interference: tuple[float, float]
     inner_diameter: float = 0.0
-    assembly_temperature: float = 293.15
+    assembly_temperature: float | None = None
     assembly_clearance: float | None = None
     services: tuple[ServiceState, ...] = ()
     safety_factor: float = 1.0
@@ -199,7 +200,8 @@ class PressFit:
         if self.assembly_clearance is not None and not (
                 math.isfinite(self.assembly_clearance) and self.assembly_clearance >= 0):
             raise ModelError("assembly_clearance must not be negative", place="fit")
-        if not (math.isfinite(self.assembly_temperature) and self.assembly_temperature >= 0):
+        if self.assembly_temperature is not None and not (
+                math.isfinite(self.assembly_temperature) and self.assembly_temperature >= 0):
             raise ModelError("assembly_temperature lies below absolute zero", place="fit")
         names = [ASSEMBLY]
         for s in self.services:
@@ -217,9 +219,14 @@ class PressFit:
         return DEFAULT_CLEARANCE_RATIO * self.diameter
 
     @property
+    def temperature(self) -> float:
+        """The assembly temperature in K (20 degC when none is given)."""
+        return DEFAULT_TEMPERATURE if self.assembly_temperature is None else self.assembly_temperature
+
+    @property
     def states(self) -> tuple[ServiceState, ...]:
         """The assembly state, then the service states."""
-        t = self.assembly_temperature
+        t = self.temperature
         return (ServiceState(ASSEMBLY, t, t), *self.services)
 
 
@@ -287,7 +294,7 @@ class FitResult:
 def _state(fit: PressFit, service: ServiceState) -> FitState:
     d, do, di = fit.diameter, fit.outer_diameter, fit.inner_diameter
     sh, hb = fit.shaft, fit.hub
-    t0 = fit.assembly_temperature
+    t0 = fit.temperature
     change = lame.interference_change(d, sh.thermal_expansion, service.shaft_temperature - t0,
                                       hb.thermal_expansion, service.hub_temperature - t0)
     delta = tuple(x + change for x in fit.interference)
@@ -311,15 +318,16 @@ def _state(fit: PressFit, service: ServiceState) -> FitState:
                     tuple(x <= 0 for x in delta))
 
 
-def _stress_entry(kind, part, material: Material, demand, state, sf):
+def _stress_entry(kind, part, material: Material, demand, state, sf, where=None):
     if material.yield_strength is None:
         return CheckEntry(kind, part, state, None, None,
                           f"material '{material.name}' gives no yield strength: judge the "
                           "stress against the material's own limit", "stress", demand, None)
     util = demand * sf / material.yield_strength
-    note = None
+    note = where
     if util > 1:
-        note = "above yield: the elastic (Lamé) pressure and stresses no longer hold"
+        note = ((where + "; " if where else "")
+                + "above yield: the elastic (Lamé) pressure and stresses no longer hold")
     return CheckEntry(kind, part, state, util, util <= 1.0, note, "stress", demand,
                       material.yield_strength)
 
@@ -341,7 +349,7 @@ def _checks(fit: PressFit, states) -> CheckReport:
         out = [_stress_entry("hub-stress", "hub", fit.hub, st.hub_equivalent_stress[1],
                              st.name, sf),
                _stress_entry("shaft-stress", "shaft", fit.shaft, st.shaft_equivalent_stress[1],
-                             st.name, sf)]
+                             st.name, sf, "at the shaft's bore" if fit.inner_diameter else None)]
         force, torque = abs(st.axial_load), abs(st.torque)
         if force > 0:
             out.append(_capacity_entry("holding-force", "fit", st.name, force,
@@ -362,7 +370,8 @@ def _checks(fit: PressFit, states) -> CheckReport:
                                       lost, assembly_least))
             else:
                 util = max(lost, 0.0) / assembly_least
-                note = ("the fit is loose in this state" if st.interference[0] <= 0 else None)
+                note = ("the fit is loose in this state" if st.interference[0] <= 0 else
+                        "the interference grows in this state" if lost < 0 else None)
                 out.append(CheckEntry("loosening", "fit", st.name, util,
                                       st.interference[0] > 0, note, "length", lost,
                                       assembly_least))
@@ -400,7 +409,7 @@ def solve_fit(fit: PressFit) -> FitResult:
     True
     """
     states = tuple(_state(fit, s) for s in fit.states)
-    d, t0 = fit.diameter, fit.assembly_temperature
+    d, t0 = fit.diameter, fit.temperature
     a_s, a_h = fit.shaft.thermal_expansion, fit.hub.thermal_expansion
     least, greatest = fit.interference
     loosening = None if a_s == a_h else t0 - least / ((a_s - a_h) * d)
@@ -422,6 +431,8 @@ def solve_fit(fit: PressFit) -> FitResult:
           "loosening",
     ]
     clearance_mm = f"{fit.clearance * 1e3:g} mm"
+    if fit.assembly_temperature is None:
+        notes.append("assembly temperature 20 degC (default)")
     if fit.assembly_clearance is None:
         notes.append(f"assembly clearance {clearance_mm} = 0.001*d (default, common practice) "
                      "for the shrink temperature")

@@ -210,7 +210,8 @@ class IsoFit:
     @property
     def interference(self) -> tuple[float, float]:
         """(least, greatest) diametral interference (m); negative is a clearance."""
-        return (self.shaft[0] - self.bore[1], self.shaft[1] - self.bore[0])
+        (lo_h, hi_h), (lo_s, hi_s) = self.hole_deviations, self.shaft_deviations
+        return ((lo_s - hi_h) * 1e-6, (hi_s - lo_h) * 1e-6)
 
 
 def fit_limits(designation: str) -> IsoFit:
