@@ -60,7 +60,8 @@ class _FitReader:
         entry = self.data.get(name)
         if entry is None:
             if required:
-                self.r.fail(f"a fit file needs a [{name}] table", place="top level")
+                raise ModelError(f"a fit file needs a [{name}] table", place="top level",
+                                 file=self.source)
             entry = {}
         self.r.keys(entry, _KEYS[name], name, place=name)
         return entry
