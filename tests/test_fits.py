@@ -552,3 +552,27 @@ def test_fit_command_unit_overrides():
     assert bad.exit_code == 2
     assert bad.stderr == ("error: --torque-unit: 'kN' is a unit of force, not of torque, e.g. "
                           "'100 N*m'\n")
+
+
+def test_report_and_plot_recognise_a_fit_file(tmp_path):
+    html = tmp_path / "fit.html"
+    result = runner.invoke(app, ["report", str(EXAMPLE), "-o", str(html)])
+    assert result.exit_code == 0, result.output
+    text = html.read_text(encoding="utf-8")
+    for section in ("job", "assumptions", "input", "results", "checks", "diagrams", "cautions"):
+        assert f'<section id="{section}">' in text
+    assert "<svg" in text and "50 H7/s6" in text and "Governing check:" in text
+    assert "http" not in text.replace("http://www.w3.org", "")  # no network needed
+    md = tmp_path / "fit.md"
+    assert runner.invoke(app, ["report", str(EXAMPLE), "-o", str(md)]).exit_code == 0
+    assert "data:image/png;base64," in md.read_text(encoding="utf-8")
+    png = tmp_path / "fit.png"
+    assert runner.invoke(app, ["plot", str(EXAMPLE), "-o", str(png)]).exit_code == 0
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+def test_model_commands_point_a_fit_file_to_the_fit_command():
+    result = runner.invoke(app, ["solve", str(EXAMPLE)])
+    assert result.exit_code == 2
+    assert result.stderr == (f"error: {EXAMPLE}: this is a fit file (it has a [fit] table): "
+                             f"check it with 'axialfe fit {EXAMPLE}'\n")

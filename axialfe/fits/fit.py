@@ -35,7 +35,7 @@ from ..model import CheckSettings, Material
 from ..units import unit_factor
 from . import lame
 
-__all__ = ["FitUnits", "ServiceState", "PressFit", "FitState", "FitResult", "solve_fit",
+__all__ = ["FitUnits", "ServiceState", "PressFit", "FitState", "FitResult", "solve_fit", "state_at",
            "ASSEMBLY", "FIT_CHECK_KINDS", "DEFAULT_CLEARANCE_RATIO"]
 
 ASSEMBLY = "assembly"
@@ -316,6 +316,21 @@ def _state(fit: PressFit, service: ServiceState) -> FitState:
                     tuple(lame.holding_force(mu, p, d, length) for p in pressure),
                     tuple(lame.torque_capacity(mu, p, d, length) for p in pressure),
                     tuple(x <= 0 for x in delta))
+
+
+def state_at(fit: PressFit, shaft_temperature: float, hub_temperature: float | None = None,
+             name: str = "at") -> FitState:
+    """The fit at given part temperatures (K; the hub's defaults to the shaft's), no loads.
+
+    >>> steel = Material("steel", 200e9, 12e-6, yield_strength=250e6, poissons_ratio=0.3)
+    >>> brass = Material("brass", 110e9, 20e-6, poissons_ratio=0.34)
+    >>> fit = PressFit(brass, steel, 0.05, 0.1, 0.04, 0.12, (20e-6, 40e-6))
+    >>> t = 293.15 - 20e-6 / (8e-6 * 0.05)   # the least interference is gone here
+    >>> state_at(fit, t - 1.0).loose, state_at(fit, t + 1.0).loose
+    ((True, False), (False, False))
+    """
+    hub = shaft_temperature if hub_temperature is None else hub_temperature
+    return _state(fit, ServiceState(name, shaft_temperature, hub))
 
 
 def _stress_entry(kind, part, material: Material, demand, state, sf, where=None):

@@ -15,7 +15,7 @@ from ..formatting import number
 from .text import CAUTIONS, _grid
 
 __all__ = ["FIT_CAUTIONS", "fit_dict", "fit_json", "fit_table", "fit_check_cells",
-           "FIT_CHECK_HEADERS"]
+           "FIT_CHECK_HEADERS", "fit_tables", "fit_summary_lines", "fit_governing_text"]
 
 _KELVIN = 273.15
 
@@ -151,24 +151,14 @@ def fit_summary_lines(result: FitResult, units: FitUnits) -> list[str]:
     return out
 
 
-def fit_table(result: FitResult, units: FitUnits | None = None) -> str:
-    """The terminal report of ``axialfe fit``."""
-    fit = result.fit
-    units = units or fit.units
+def fit_tables(result: FitResult, units: FitUnits):
+    """Yield (title, headers, rows) of the states and of their results, as text cells."""
     u = units.as_dict()
-    out = [f"axialfe fit: {fit.title}",
-           "units: " + ", ".join(f"{k} {v}" for k, v in u.items()) + ", temperature degC", "",
-           " fit"]
-    out += fit_summary_lines(result, units)
-    out += ["", " states"]
-    out += _grid(["state", "shaft [degC]", "hub [degC]", f"axial load [{u['force']}]",
-                  f"torque [{u['torque']}]"],
-                 [[s.name, number(s.shaft_temperature - _KELVIN),
-                   number(s.hub_temperature - _KELVIN), number(s.axial_load / units.factor("force")),
-                   number(s.torque / units.factor("torque"))] for s in result.states])
-    out += ["", " results at the least and at the greatest interference (stress + in tension; "
-                "equivalent = largest von Mises stress in the part)"]
     S, L, F, T = (units.factor(k) for k in ("stress", "length", "force", "torque"))
+    yield ("states", ["state", "shaft [degC]", "hub [degC]", f"axial load [{u['force']}]",
+                      f"torque [{u['torque']}]"],
+           [[s.name, number(s.shaft_temperature - _KELVIN), number(s.hub_temperature - _KELVIN),
+             number(s.axial_load / F), number(s.torque / T)] for s in result.states])
     rows = []
     for s in result.states:
         for j, at in enumerate(("least", "greatest")):
@@ -179,10 +169,38 @@ def fit_table(result: FitResult, units: FitUnits | None = None) -> str:
                          number(s.shaft_equivalent_stress[j] / S),
                          number(s.holding_force[j] / F), number(s.torque_capacity[j] / T),
                          "yes" if s.loose[j] else "no"])
-    out += _grid(["state", "at", f"interference [{u['length']}]", f"pressure [{u['stress']}]",
-                  f"hub hoop [{u['stress']}]", f"shaft hoop [{u['stress']}]",
-                  f"hub equiv. [{u['stress']}]", f"shaft equiv. [{u['stress']}]",
-                  f"holding [{u['force']}]", f"torque cap. [{u['torque']}]", "loose"], rows)
+    yield ("results at the least and at the greatest interference (stress + in tension; "
+           "equivalent = largest von Mises stress in the part)",
+           ["state", "at", f"interference [{u['length']}]", f"pressure [{u['stress']}]",
+            f"hub hoop [{u['stress']}]", f"shaft hoop [{u['stress']}]",
+            f"hub equiv. [{u['stress']}]", f"shaft equiv. [{u['stress']}]",
+            f"holding [{u['force']}]", f"torque cap. [{u['torque']}]", "loose"], rows)
+
+
+def fit_governing_text(result: FitResult) -> str:
+    """The governing check in words, naming any failure without a utilisation."""
+    entries = result.checks.entries
+    g = result.checks.governing
+    text = ("none (no check has a utilization)" if g is None else
+            f"{g.kind} of '{g.name}' in state '{g.case}', utilization "
+            f"{g.utilization:.3f} ({g.verdict})")
+    failing = [e for e in entries if e.ok is False and e.utilization is None]
+    if failing:
+        text += "; FAILING without a utilization: " + ", ".join(
+            f"{e.kind} in state '{e.case}'" for e in failing)
+    return text
+
+
+def fit_table(result: FitResult, units: FitUnits | None = None) -> str:
+    """The terminal report of ``axialfe fit``."""
+    fit = result.fit
+    units = units or fit.units
+    out = [f"axialfe fit: {fit.title}",
+           "units: " + ", ".join(f"{k} {v}" for k, v in units.as_dict().items())
+           + ", temperature degC", "", " fit"]
+    out += fit_summary_lines(result, units)
+    for title, headers, rows in fit_tables(result, units):
+        out += ["", f" {title}"] + _grid(headers, rows)
     out += ["", " checks (utilization = demand x safety factor / capacity; pass, FAIL, or "
                 "review where the tool cannot decide)"]
     entries = result.checks.entries
@@ -190,18 +208,10 @@ def fit_table(result: FitResult, units: FitUnits | None = None) -> str:
         out += _grid(list(FIT_CHECK_HEADERS), [fit_check_cells(e, units) for e in entries])
     else:
         out.append("  (no checks)")
-    g = result.checks.governing
     counts = {"pass": 0, "FAIL": 0, "review": 0}
     for e in entries:
         counts[e.verdict] += 1
-    governing = ("none (no check has a utilization)" if g is None else
-                 f"{g.kind} of '{g.name}' in state '{g.case}', utilization "
-                 f"{g.utilization:.3f} ({g.verdict})")
-    failing = [e for e in entries if e.ok is False and e.utilization is None]
-    if failing:
-        governing += "; FAILING without a utilization: " + ", ".join(
-            f"{e.kind} in state '{e.case}'" for e in failing)
-    out += ["", f"governing check: {governing}",
+    out += ["", f"governing check: {fit_governing_text(result)}",
             f"checks: {counts['pass']} pass, {counts['FAIL']} fail, {counts['review']} need "
             f"review (overall: {result.checks.status})", "", "basis:"]
     out += [f" - {n}" for n in result.notes]
