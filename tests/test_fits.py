@@ -453,6 +453,9 @@ FIT_ERRORS = [
      "here, e.g. '12 kN'"),
     (('[hub]\nmaterial = "aluminium-alloy"\nouter_diameter = "80 mm"\n', ''),
      "f.toml: top level: a fit file needs a [hub] table"),
+    (('friction = 0.15', 'friction = 0'), "f.toml:11: fit: friction must be positive: got 0"),
+    (('axial_load = "1 kN"\n', 'axial_load = "1 kN"\n[checks]\nsafety_factor = -1\n'),
+     "f.toml:18: checks: safety_factor must be positive: got -1"),
     (('title = "test fit"', 'title = "test fit"\nbolt = 1'),
      "f.toml:2: top level: unknown key 'bolt'; expected one of: 'title', 'shaft', 'hub', 'fit', "
      "'service', 'checks', 'materials', 'units'"),

@@ -174,8 +174,9 @@ class PressFit:
     units: FitUnits = field(default_factory=FitUnits)
 
     def __post_init__(self):
-        for key in ("diameter", "outer_diameter", "length", "friction", "safety_factor"):
+        for key in ("diameter", "outer_diameter", "length", "friction"):
             _positive(getattr(self, key), key, "fit")
+        _positive(self.safety_factor, "safety_factor", "checks")
         d = self.diameter
         if not self.outer_diameter > d:
             raise ModelError("the hub's outer diameter must be larger than the fit diameter: "
