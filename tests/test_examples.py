@@ -13,12 +13,10 @@ import pytest
 from typer.testing import CliRunner
 
 from axialfe.cli import app
-from axialfe.fits.reader import is_fit_file
 from axialfe.io.modelfile import read_model
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "examples"
-# fit files (axialfe fit) have their own tests in tests/test_fits.py
-FILES = sorted(p for p in EXAMPLES.glob("*.toml") if not is_fit_file(p))
+FILES = sorted(EXAMPLES.glob("*.toml"))
 runner = CliRunner()
 
 

@@ -25,7 +25,7 @@ from axialfe.io.modelfile import builtin_materials, parse_model
 from axialfe.model import Material
 
 ROOT = Path(__file__).resolve().parent.parent
-EXAMPLE = ROOT / "examples" / "bronze-bushing-fit.toml"
+EXAMPLE = ROOT / "examples" / "fits" / "bronze-bushing.toml"
 runner = CliRunner()
 STEEL = Material("steel", 200e9, 12e-6, yield_strength=250e6, poissons_ratio=0.3)
 BRONZE = Material("bronze", 110e9, 17.8e-6, yield_strength=345e6, poissons_ratio=0.34)
@@ -579,3 +579,15 @@ def test_model_commands_point_a_fit_file_to_the_fit_command():
     assert result.exit_code == 2
     assert result.stderr == (f"error: {EXAMPLE}: this is a fit file (it has a [fit] table): "
                              f"check it with 'axialfe fit {EXAMPLE}'\n")
+
+
+FIT_EXAMPLES = sorted((ROOT / "examples" / "fits").glob("*.toml"))
+
+
+@pytest.mark.parametrize("path", FIT_EXAMPLES, ids=[p.stem for p in FIT_EXAMPLES])
+def test_every_fit_example_runs(path):
+    assert path.read_text(encoding="utf-8").lstrip().startswith("#")  # commented
+    result = runner.invoke(app, ["fit", str(path), "--format", "json"])
+    assert result.exit_code in (0, 1, 3), result.output
+    data = json.loads(result.stdout)
+    assert data["status"] == {0: "pass", 1: "fail", 3: "undecided"}[result.exit_code]
