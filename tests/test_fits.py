@@ -591,3 +591,19 @@ def test_every_fit_example_runs(path):
     assert result.exit_code in (0, 1, 3), result.output
     data = json.loads(result.stdout)
     assert data["status"] == {0: "pass", 1: "fail", 3: "undecided"}[result.exit_code]
+
+
+def test_us_units_of_a_fit_file():
+    text = FIT.replace('title = "test fit"', 'title = "test fit"\n[units]\nsystem = "US"')
+    result = solve_fit(parse_fit(text))
+    from axialfe.output.fittext import fit_dict
+
+    data = fit_dict(result)
+    assert data["units"] == {"force": "lbf", "length": "in", "stress": "psi", "torque": "lbf*in"}
+    assert data["fit"]["diameter"] == pytest.approx(40 / 25.4)
+    assert data["states"][1]["axial_load"] == pytest.approx(1000 / 4.4482216152605)
+    with pytest.raises(ModelError) as info:
+        parse_fit(FIT.replace('title = "test fit"', 'title = "test fit"\n[units]\ntorque = "kN"'),
+                  "f.toml")
+    assert str(info.value) == ("f.toml:3: units: torque: 'kN' is a unit of force, not of torque, "
+                               "e.g. '100 N*m'")

@@ -71,15 +71,18 @@ def output_units(model, force=None, length=None, displacement=None, stress=None)
 
 def load(path, force=None, length=None, displacement=None, stress=None):
     """Read a model file and the units to report it in (the model's, with the overrides)."""
-    from ..fits.reader import is_fit_file
+    from ..errors import ModelError
     from ..io.modelfile import read_model
 
-    if is_fit_file(path):
-        from ..errors import ModelError
+    try:
+        model = read_model(path)
+    except ModelError:
+        from ..fits.reader import is_fit_file
 
-        raise ModelError("this is a fit file (it has a [fit] table): check it with "
-                         f"'axialfe fit {path}'", file=str(path))
-    model = read_model(path)
+        if is_fit_file(path):  # looked at only when the file is not a model
+            raise ModelError("this is a fit file (it has a [fit] table): check it with "
+                             f"'axialfe fit {path}'", file=str(path)) from None
+        raise
     return model, output_units(model, force, length, displacement, stress)
 
 

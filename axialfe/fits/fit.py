@@ -190,8 +190,9 @@ class PressFit:
         if len(pair) != 2 or not all(math.isfinite(x) for x in pair):
             raise ModelError("interference takes two finite limits", place="fit")
         if pair[0] <= -d or pair[1] >= d:
+            worst = pair[1] if pair[1] >= d else pair[0]
             raise ModelError(f"interference must be much smaller than the fit diameter: got "
-                             f"{pair[1] * 1e3:g} mm at {d * 1e3:g} mm", place="fit")
+                             f"{worst * 1e3:g} mm at {d * 1e3:g} mm", place="fit")
         object.__setattr__(self, "interference", pair)
         object.__setattr__(self, "services", tuple(self.services))
         for role, mat in (("shaft", self.shaft), ("hub", self.hub)):

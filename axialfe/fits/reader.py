@@ -11,6 +11,7 @@ errors, e.g.::
 from __future__ import annotations
 
 import math
+import re
 import tomllib
 from pathlib import Path
 
@@ -42,10 +43,16 @@ def is_fit_data(data: dict) -> bool:
     return isinstance(data.get("fit"), dict) and "stations" not in data
 
 
+# a line that opens a [fit] table or sets a top-level fit key: without one, a file is no
+# fit file and is not parsed here (a large model file is read once, by the model reader)
+_FIT_LINE = re.compile(r"^[ \t]*(?:\[[ \t]*fit[ \t]*\]|fit[ \t]*=)", re.MULTILINE)
+
+
 def is_fit_file(path) -> bool:
     """True when ``path`` is a readable TOML file that describes a fit."""
     try:
-        return is_fit_data(tomllib.loads(Path(path).read_text(encoding="utf-8")))
+        text = Path(path).read_text(encoding="utf-8")
+        return bool(_FIT_LINE.search(text)) and is_fit_data(tomllib.loads(text))
     except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
         return False  # the model reader reports it
 
@@ -268,8 +275,6 @@ def parse_fit(text: str, source: str | None = None) -> PressFit:
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        import re
-
         m = re.search(r"line (\d+)", str(exc))
         raise ModelError(f"not valid TOML: {exc}", file=source,
                          line=int(m.group(1)) if m else None) from exc
