@@ -252,6 +252,15 @@ def test_hub_heated_to_clear_the_greatest_interference():
     assert any("0.001*d (default, common practice)" in n for n in default.notes)
 
 
+def test_out_of_reach_temperatures_are_stated():
+    tight = solve_fit(_fit(interference=(0.3e-3, 0.35e-3)))
+    assert tight.loosening_temperature < 0
+    assert ("the loosening temperature lies below absolute zero: temperature alone does not "
+            "loosen this fit") in tight.notes
+    assert tight.shrink_temperature > 573.15
+    assert any(n.startswith("the shrink temperature is above about 300 degC") for n in tight.notes)
+
+
 def test_clearance_fit_is_loose_and_holds_nothing():
     iso = iso286.fit_limits("10 H8/f7")
     result = solve_fit(PressFit(STEEL, STEEL, 0.01, 0.03, 0.02, 0.15, iso.interference,

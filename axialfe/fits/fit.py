@@ -45,6 +45,7 @@ FIT_CHECK_KINDS = ("hub-stress", "shaft-stress", "holding-force", "torque-capaci
 # fraction of the fit diameter: common practice (about 1 um per mm), no standard
 DEFAULT_CLEARANCE_RATIO = 0.001
 DEFAULT_TEMPERATURE = 293.15  # K, 20 degC
+_HOT_HUB = 573.15  # K: heating a steel hub beyond about 300 degC is avoided (common practice)
 
 _FIT_KINDS = {"force": "force", "length": "length", "stress": "stress", "torque": "torque"}
 _FIT_SYSTEMS = {"SI": {"force": "N", "length": "mm", "stress": "MPa", "torque": "N*m"},
@@ -459,4 +460,11 @@ def solve_fit(fit: PressFit) -> FitResult:
     if need <= 0:
         notes.append("the parts clear each other by the assembly clearance at the assembly "
                      "temperature: no heating is needed")
+    if loosening is not None and loosening < 0:
+        notes.append("the loosening temperature lies below absolute zero: temperature alone "
+                     "does not loosen this fit")
+    if shrink is not None and shrink > _HOT_HUB:
+        notes.append("the shrink temperature is above about 300 degC, where a hardened or "
+                     "tempered steel hub may lose strength (common practice): consider "
+                     "cooling the shaft as well, or a press fit")
     return FitResult(fit, states, loosening, shrink, _checks(fit, states), tuple(notes))
