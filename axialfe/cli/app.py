@@ -417,7 +417,7 @@ def report(model: ModelPath,
 
 
 @app.command()
-def fit(fit_file: Annotated[Path, typer.Argument(metavar="FIT", help="The fit file (TOML).")],
+def fit(fit: Annotated[Path, typer.Argument(help="The fit file (TOML).")],
         format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
         output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
         stress_unit: StressUnit = None,
@@ -430,7 +430,7 @@ def fit(fit_file: Annotated[Path, typer.Argument(metavar="FIT", help="The fit fi
     from ..output.fittext import fit_json, fit_table
 
     with user_errors():
-        result, units = _solved_fit(fit_file, force_unit, length_unit, stress_unit, torque_unit)
+        result, units = _solved_fit(fit, force_unit, length_unit, stress_unit, torque_unit)
         render = fit_json if format is CheckFormat.json else fit_table
         emit(render(result, units), output)
     raise typer.Exit(result.checks.exit_code)
