@@ -36,6 +36,7 @@ KINDS: dict[str, tuple[str, str]] = {
     "stiffness": ("N/m", "50 kN/mm"),
     "temperature_difference": ("K", "60 K"),
     "temperature": ("K", "95 degC"),
+    "torque": ("N*m", "100 N*m"),
 }
 
 _NUMBER = re.compile(r"^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")

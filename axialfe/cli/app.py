@@ -86,9 +86,18 @@ def output_units(model, force=None, length=None, displacement=None, stress=None)
 
 def load(path, force=None, length=None, displacement=None, stress=None):
     """Read a model file and the units to report it in (the model's, with the overrides)."""
+    from ..errors import ModelError
     from ..io.modelfile import read_model
 
-    model = read_model(path)
+    try:
+        model = read_model(path)
+    except ModelError:
+        from ..fits.reader import is_fit_file
+
+        if is_fit_file(path):  # looked at only when the file is not a model
+            raise ModelError("this is a fit file (it has a [fit] table): check it with "
+                             f"'axialfe fit {path}'", file=str(path)) from None
+        raise
     return model, output_units(model, force, length, displacement, stress)
 
 
@@ -144,7 +153,8 @@ def materials():
 
     for name, entry in _builtin_table().items():
         typer.echo(f"{name}: {entry.get('description', '')}")
-        for key in ("elastic_modulus", "thermal_expansion", "yield_strength", "density"):
+        for key in ("elastic_modulus", "thermal_expansion", "yield_strength", "density",
+                    "poissons_ratio"):
             typer.echo(f"    {key:18s} {entry.get(key, '(not given)')}")
         typer.echo(f"    source             {entry['source']}")
     typer.echo("\nA model's own [materials] entry of the same name takes precedence. Values are "
@@ -388,9 +398,16 @@ def plot(model: ModelPath,
             raise ModelError(f"--what: unknown diagram '{what}'", hint=suggest(what, WHAT),
                              options=WHAT)
         _suffix(output)
-        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
-        result = _pick_case(run(m), case)
-        plot_case(result, what, output, units)
+        from ..fits.reader import is_fit_file
+
+        if is_fit_file(model):  # a fit: pressure and stresses against temperature
+            from ..output.fitplot import plot_fit
+
+            result, fit_units = _solved_fit(model, force_unit, length_unit, stress_unit)
+            plot_fit(result, output, fit_units)
+        else:
+            m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
+            plot_case(_pick_case(run(m), case), what, output, units)
         typer.echo(f"wrote {output}", err=True)
 
 
@@ -406,11 +423,58 @@ def report(model: ModelPath,
     from ..output.report import report_format, write_report
     from ..engine.system import solve as run
 
+    from ..fits.reader import is_fit_file
+
     with user_errors():
         fmt = report_format(output, format.value if format else None)
-        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
-        write_report(run(m), output, fmt, units)
+        if is_fit_file(model):  # a press or shrink fit (axialfe fit) has its own report
+            from ..output.fitreport import write_fit_report
+
+            result, units = _solved_fit(model, force_unit, length_unit, stress_unit)
+            write_fit_report(result, output, fmt, units)
+        else:
+            m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
+            write_report(run(m), output, fmt, units)
         typer.echo(f"wrote {output}", err=True)
+
+
+@app.command()
+def fit(fit: Annotated[Path, typer.Argument(help="The fit file (TOML).")],
+        format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
+        output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+        stress_unit: StressUnit = None,
+        torque_unit: Annotated[Optional[str], typer.Option("--torque-unit", help="Unit of torques, e.g. N*m, lbf*in.")] = None):
+    """Check a press or shrink fit (Lamé's thick-walled cylinders) under temperature.
+
+    Exit code 0 when every check passes, 1 when any fails, 3 when none fails
+    but some cannot be decided; 2 for bad input.
+    """
+    from ..output.fittext import fit_json, fit_table
+
+    with user_errors():
+        result, units = _solved_fit(fit, force_unit, length_unit, stress_unit, torque_unit)
+        render = fit_json if format is CheckFormat.json else fit_table
+        emit(render(result, units), output)
+    raise typer.Exit(result.checks.exit_code)
+
+
+def _solved_fit(path, force=None, length=None, stress=None, torque=None):
+    """Read and solve a fit file; return it with its units and the command line's overrides."""
+    from ..errors import UnitError
+    from ..fits.fit import FitUnits, solve_fit
+    from ..fits.reader import read_fit
+
+    spec = read_fit(path)
+    base = spec.units.as_dict()
+    for key, value in (("force", force), ("length", length), ("stress", stress),
+                       ("torque", torque)):
+        if value:
+            try:
+                FitUnits(**{**base, key: value})
+            except UnitError as exc:
+                raise UnitError(f"--{key}-unit: {exc.message}") from None
+            base[key] = value
+    return solve_fit(spec), FitUnits(**base)
 
 
 def main():

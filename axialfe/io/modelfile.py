@@ -29,7 +29,7 @@ _KEYS = {
     "settings": ("reference_temperature", "temperature_change", "temperature", "gravity"),
     "units": ("system", "force", "length", "displacement", "stress"),
     "material": ("elastic_modulus", "thermal_expansion", "yield_strength", "density", "source",
-                 "description"),
+                 "description", "poissons_ratio"),
     "section": ("shape", "diameter", "outer_diameter", "wall_thickness", "inner_diameter",
                 "width", "height", "area", "second_moment"),
     "segment": ("name", "from", "to", "material", "section", "end_section", "temperature_change",
@@ -257,6 +257,9 @@ class _Reader:
                   for k, kind in kinds.items() if k in entry}
         if "source" in entry:
             kwargs["source"] = self.text(entry["source"], table=table, key="source", place=place)
+        if "poissons_ratio" in entry:
+            kwargs["poissons_ratio"] = self.number(entry["poissons_ratio"], table=table,
+                                                   key="poissons_ratio", place=place)
         return self.build(Material, {"name": name, **kwargs}, table, place=place, raw=entry)
 
     def section(self, name, entry):

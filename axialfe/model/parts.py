@@ -81,6 +81,8 @@ class Material:
         In kg/m^3; needed for self-weight.
     source : str, optional
         Where the values come from.
+    poissons_ratio : float, optional
+        Poisson's ratio nu, 0 < nu < 0.5; needed for press and shrink fits.
     """
 
     name: str
@@ -89,6 +91,7 @@ class Material:
     yield_strength: float | None = None
     density: float | None = None
     source: str | None = None
+    poissons_ratio: float | None = None
 
     def __post_init__(self):
         _name(self.name, "a material's name", "materials")
@@ -99,6 +102,9 @@ class Material:
         _finite(self.thermal_expansion, "thermal_expansion", place)
         _positive(self.yield_strength, "yield_strength", place)
         _positive(self.density, "density", place)
+        nu = self.poissons_ratio
+        if isinstance(nu, (int, float)) and not (0.0 < nu < 0.5):
+            raise ModelError(f"poissons_ratio must lie between 0 and 0.5: got {nu:g}", place=place)
 
 
 @dataclass(frozen=True)
