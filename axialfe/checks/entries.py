@@ -60,6 +60,7 @@ class CheckEntry:
     slenderness_limit: float | None = None
     curve: str | None = None
     relative_slenderness: float | None = None
+    at: float | None = None
 
     @property
     def verdict(self) -> str:
