@@ -27,7 +27,7 @@ from .model import (Case, Combination, Gap, Load, Material, Model, Section, Segm
                     Support)
 from .io.modelfile import builtin_materials, parse_model, read_model
 from .results import CaseResult, Solution
-from .engine.system import System, solve
+from .engine.system import solve
 
 try:
     __version__ = version("axialfe")
@@ -39,7 +39,7 @@ __all__ = [
     "Material", "Section", "Station", "Segment", "Support", "Load", "Gap", "Case",
     "Combination", "Model",
     "read_model", "parse_model", "builtin_materials",
-    "System", "solve", "Solution", "CaseResult",
+    "solve", "Solution", "CaseResult",
     "solve_symbolic",
     "__version__",
 ]

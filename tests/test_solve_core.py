@@ -578,3 +578,13 @@ def test_numeric_solve_refuses_symbols():
         solve(model)
     assert str(err.value) == ("the model holds symbolic values; give every symbol a value, or ask "
                               "for the closed form (axialfe closed-form)")
+
+
+def test_an_unknown_solver_method_lists_the_names():
+    model = Model((Station("a", 0.0), Station("b", 1.0)),
+                  (Segment("ab", "a", "b", Material("m", 200e9), Section("r", "area", (("area", 1e-4),))),),
+                  (Support("a"),), (Load("b", 1e3),))
+    assert solve(model, method="sparse-lu")["base"].displacement("b") == pytest.approx(1e3 / 2e7)
+    with pytest.raises(ModelError) as err:
+        solve(model, method="sparse_lu")
+    assert str(err.value) == "method: unknown solver method 'sparse_lu'; did you mean 'sparse-lu'?"

@@ -20,7 +20,8 @@ from ..errors import ModelError, SolveError, suggest
 from ..model.cases import LoadState, load_states
 from ..model import Model
 from ..results import CaseResult
-from ..engine.system import System, solve_gaps
+from ..engine.contact import solve_gaps
+from ..engine.system import System
 from ..units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
 

@@ -1,0 +1,122 @@
+"""Degrees of freedom: supports, the connectivity check, free and restrained stations.
+
+Before anything is factorised, the model is checked from its topology alone:
+every connected part must be held by a support, a spring or a gap, or the
+model is a mechanism (a located :class:`SolveError`).  A part held only
+through gaps gets an anchor station whose rigid shift is solved with the gap
+forces.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import SolveError
+from ..model import Model
+from .contact import names_text
+
+__all__ = ["Dofs", "degrees_of_freedom"]
+
+
+@dataclass(frozen=True)
+class Dofs:
+    """Supports and unknowns of a model (arrays of station or support indices).
+
+    Attributes
+    ----------
+    presc_support, presc : supports with a prescribed displacement and their stations
+    spring_support, spring_at, spring_k : spring supports, their stations and stiffnesses
+    part_label : per station, the gap-held part it belongs to (-1: none)
+    n_parts, anchors : the gap-held parts and their anchor stations
+    free, restrained : stations solved for, and stations prescribed or anchored
+    E : scipy.sparse matrix (n, n_parts), the rigid shift of each gap-held part
+    """
+
+    presc_support: np.ndarray
+    presc: np.ndarray
+    spring_support: np.ndarray
+    spring_at: np.ndarray
+    spring_k: np.ndarray
+    part_label: np.ndarray
+    n_parts: int
+    anchors: np.ndarray
+    free: np.ndarray
+    restrained: np.ndarray
+    E: object
+
+
+def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
+    """Check connectivity and number the unknowns.
+
+    Parameters
+    ----------
+    model : Model
+    start, end : ndarray of int
+        The segments' end stations.
+    cons : Unilateral
+        The gaps (they connect parts, and hold a part against ground).
+
+    Raises
+    ------
+    SolveError
+        When some stations are held by no support, spring or gap (a mechanism).
+    """
+    import scipy.sparse as sp
+    from scipy.sparse.csgraph import connected_components
+
+    n = len(model.stations)
+    index = model._station_index
+    sup = model.supports
+    presc_support = np.array([j for j, s in enumerate(sup) if s.kind != "spring"], dtype=int)
+    presc = np.array([index[sup[j].at] for j in presc_support], dtype=int)
+    spring_support = np.array([j for j, s in enumerate(sup) if s.kind == "spring"], dtype=int)
+    spring_at = np.array([index[sup[j].at] for j in spring_support], dtype=int)
+    spring_k = np.array([sup[j].stiffness for j in spring_support], dtype=float)
+
+    held = np.zeros(n, dtype=bool)
+    held[presc] = True
+    held[spring_at] = True
+    seg = sp.coo_matrix((np.ones(len(start)), (start, end)), shape=(n, n))
+    n_seg, seg_label = connected_components(seg, directed=False)
+    two = cons.b >= 0
+    gap_edges = sp.coo_matrix((np.ones(int(two.sum())), (cons.a[two], cons.b[two])), shape=(n, n))
+    n_all, all_label = connected_components(seg + gap_edges, directed=False)
+    grounded = held.copy()
+    grounded[cons.a[~two]] = True
+    comp_grounded = np.bincount(all_label, grounded, minlength=n_all) > 0
+    names = [st.name for st in model.stations]
+    used = np.zeros(n, dtype=bool)
+    used[start] = used[end] = True
+    used[cons.a] = True
+    used[cons.b[two]] = True
+    for c in np.flatnonzero(~comp_grounded):
+        members = [names[i] for i in np.flatnonzero(all_label == c)]
+        line = model.line_of(f"stations.{members[0]}")
+        if len(members) == 1 and not used[all_label == c].any():
+            raise SolveError(f"station '{members[0]}' is not connected to any "
+                             "segment or gap and has no support; remove it or connect it",
+                             file=model.source, line=line)
+        raise SolveError(f"stations {names_text(members)} float: no support, spring or "
+                         "gap holds them (a rigid-body mechanism); add a support or connect "
+                         "them", file=model.source, line=line)
+    comp_held = np.bincount(seg_label, held, minlength=n_seg) > 0
+    free_comps = np.flatnonzero(~comp_held)
+    # A part held only through gaps: its first station is an anchor, and its
+    # rigid shift is solved with the gap forces.
+    part_label = np.full(n, -1)
+    anchors = []
+    for p, c in enumerate(free_comps):
+        members = np.flatnonzero(seg_label == c)
+        part_label[members] = p
+        anchors.append(members[0])
+    anchors = np.array(anchors, dtype=int)
+    restrained = np.zeros(n, dtype=bool)
+    restrained[presc] = True
+    restrained[anchors] = True
+    in_part = part_label >= 0
+    E = sp.csr_matrix((np.ones(int(in_part.sum())), (np.flatnonzero(in_part), part_label[in_part])),
+                      shape=(n, len(free_comps)))
+    return Dofs(presc_support, presc, spring_support, spring_at, spring_k, part_label,
+                len(free_comps), anchors, np.flatnonzero(~restrained), np.flatnonzero(restrained), E)
