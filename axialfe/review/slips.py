@@ -1,0 +1,371 @@
+"""Common slips of a hand calculation, one small function each, in a fixed order.
+
+A *model slip* is a mistake in setting the problem up: a temperature change
+left out, a support treated as free, two moduli swapped.  Its function takes
+the model and the solved case a claim belongs to and yields the slipped
+models it applies to (:class:`ModelSlip`), each built with
+:func:`dataclasses.replace`; the reviewer solves each with the same engine and
+compares the claimed value with what the slipped model gives.
+
+A *reading slip* is a mistake in stating a right number: the opposite sign, a
+unit off by a factor of 10^3 or 10^6.  Its function takes the claim and the
+computed value and yields the value that slip would have written.
+
+:data:`SLIPS` lists them in the documented order; a new slip is one function
+added there.  Identifiers (``no-temperature``, ``free-support:<station>``, ...)
+are part of the interface and never change.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Iterator
+from dataclasses import dataclass, field, replace
+
+from ..model import Case, Gap, Material, Model, Section, Segment, Station, Support
+from ..results import CaseResult
+from .claims import Claim, measure
+
+__all__ = ["ModelSlip", "ReadingSlip", "SLIPS", "model_slips", "reading_slips"]
+
+
+@dataclass(frozen=True)
+class ModelSlip:
+    """A model as a slipped calculation sets it up.
+
+    ``read`` gives the claimed quantity from the slipped model's solved case
+    where the slip removed or replaced what the claim speaks of (a support
+    treated as free has no reaction); None reads it as usual.
+    """
+
+    slip: str
+    text: str
+    model: Model
+    read: Callable[[Claim, CaseResult], float] | None = field(default=None, compare=False)
+
+    def value(self, claim: Claim, result: CaseResult) -> float:
+        if self.read is not None:
+            found = self.read(claim, result)
+            if found is not None:
+                return found
+        return measure(claim, result)
+
+
+@dataclass(frozen=True)
+class ReadingSlip:
+    """A right number stated wrongly: the value the slip would have written."""
+
+    slip: str
+    text: str
+    value: float
+
+
+# --- helpers -----------------------------------------------------------------
+def _heated(result: CaseResult) -> list[int]:
+    return [i for i, t in enumerate(result.thermal_strain) if t != 0]
+
+
+def _cases(model: Model, change) -> tuple[Case, ...]:
+    return tuple(change(c) for c in model.cases)
+
+
+def _segments(model: Model, change) -> tuple[Segment, ...]:
+    return tuple(change(s) for s in model.segments)
+
+
+# --- model slips, in the documented order --------------------------------------
+def no_temperature(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """The temperature change left out: of the whole model, or of one segment."""
+    heated = _heated(result)
+    if not heated:
+        return
+    yield ModelSlip("no-temperature", "the temperature change is left out", replace(
+        model, temperature_change=None,
+        segments=_segments(model, lambda s: replace(s, temperature_change=None)),
+        cases=_cases(model, lambda c: replace(c, temperature_change=()))))
+    if len(heated) < 2:
+        return  # one heated segment: the same as the whole model's
+    for i in heated:
+        name = model.segments[i].name
+        yield ModelSlip(
+            f"no-temperature:{name}", f"the temperature change of segment '{name}' is left out",
+            replace(model, segments=_segments(
+                        model, lambda s: replace(s, temperature_change=0.0) if s.name == name else s),
+                    cases=_cases(model, lambda c: replace(
+                        c, temperature_change=tuple((n, t) for n, t in c.temperature_change
+                                                    if n != name) + ((name, 0.0),))
+                        if c.temperature_change else c)))
+
+
+def temperature_sign(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """Every temperature change taken with the opposite sign."""
+    if not _heated(result):
+        return
+    flip = (lambda t: None if t is None else -t)
+    yield ModelSlip("temperature-sign",
+                    "the temperature change is taken with the opposite sign (heating as cooling)",
+                    replace(model, temperature_change=flip(model.temperature_change),
+                            segments=_segments(model, lambda s: replace(
+                                s, temperature_change=flip(s.temperature_change))),
+                            cases=_cases(model, lambda c: replace(
+                                c, temperature_change=tuple((n, -t) for n, t in c.temperature_change)))))
+
+
+def misfit(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A segment's misfit (or preload) left out, or taken with the opposite sign."""
+    for seg in model.segments:
+        if seg.misfit == 0:
+            continue
+        name = seg.name
+        for slip, text, value in (
+                ("no-misfit", f"the misfit (or preload) of segment '{name}' is left out", 0.0),
+                ("misfit-sign", f"the misfit (or preload) of segment '{name}' is taken with the "
+                                "opposite sign (too short as too long)", -seg.misfit)):
+            yield ModelSlip(f"{slip}:{name}", text, replace(model, segments=_segments(
+                model, lambda s, v=value: replace(s, misfit=v) if s.name == name else s)))
+
+
+def free_support(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A support treated as free: the station is left unrestrained."""
+    for at in dict.fromkeys(s.at for s in model.supports):
+        def read(claim, slipped, at=at):
+            if claim.what == "reaction" and claim.at == at:
+                return 0.0  # a free end carries no reaction
+            return None
+
+        yield ModelSlip(
+            f"free-support:{at}", f"the support at '{at}' is treated as free",
+            replace(model, supports=tuple(s for s in model.supports if s.at != at),
+                    cases=_cases(model, lambda c: replace(
+                        c, settlements=tuple(p for p in c.settlements if p[0] != at)))), read)
+
+
+def rigid_spring(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A spring support treated as rigid (fixed)."""
+    for j, sup in enumerate(model.supports):
+        if sup.kind != "spring":
+            continue
+        yield ModelSlip(
+            f"rigid-spring:{sup.at}", f"the spring at '{sup.at}' is treated as rigid",
+            replace(model, supports=tuple(Support(s.at) if k == j else s
+                                          for k, s in enumerate(model.supports))))
+
+
+def no_settlement(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A settlement support's prescribed displacement left out."""
+    for sup in model.supports:
+        if sup.kind != "settlement":
+            continue
+        moved = [d for c in model.cases for st, d in c.settlements if st == sup.at]
+        if sup.displacement == 0 and not any(moved):
+            continue
+        at = sup.at
+        yield ModelSlip(
+            f"no-settlement:{at}", f"the settlement of the support at '{at}' is left out",
+            replace(model,
+                    supports=tuple(replace(s, displacement=0.0) if s is sup else s
+                                   for s in model.supports),
+                    cases=_cases(model, lambda c: replace(c, settlements=tuple(
+                        (st, 0.0 if st == at else d) for st, d in c.settlements)))))
+
+
+# a rigid link stands in for a gap treated as closed: this many times the stiffness of
+# the stiffest segment, so that its own stretch is far below any tolerance of a claim
+_RIGID = 1e8
+
+
+def _gap_reader(name: str, kind: str, link=None, station=None, toward=0.0, gap: Gap = None):
+    """How a claim on gap ``name`` is read once the gap is replaced (closed) or removed (open)."""
+    def read(claim, slipped):
+        if claim.target != "gap" or claim.at != name:
+            return None
+        if kind == "closed":
+            if claim.what == "gap_opening":
+                return 0.0
+            if link is not None:
+                return float(slipped.force(link)[0])
+            return toward * slipped.reaction(station)
+        if claim.what == "gap_force":
+            return 0.0
+        s1, s2 = gap.sign
+        closure = s1 * slipped.displacement(gap.stations[0])
+        if len(gap.stations) == 2:
+            closure += s2 * slipped.displacement(gap.stations[1])
+        return gap.clearance - closure
+
+    return read
+
+
+def _closed_gap_model(model: Model, gap: Gap):
+    """The model with ``gap`` held closed both ways: (model, reader) or None."""
+    others = tuple(g for g in model.gaps if g.name != gap.name)
+    limits = tuple(lim for lim in model.limits if lim.gap != gap.name)
+    s1, s2 = gap.sign
+    if len(gap.stations) == 1:
+        at = gap.stations[0]
+        support = Support(at, "settlement", displacement=s1 * gap.clearance)
+        return (replace(model, gaps=others, limits=limits, supports=model.supports + (support,)),
+                _gap_reader(gap.name, "closed", station=at, toward=s1))
+    a, b = gap.stations
+    xa, xb = (model.stations[model.station_index(n)].x for n in (a, b))
+    xs = [s.x for s in model.stations]
+    span = (max(xs) - min(xs)) or 1.0
+    k_max = max(seg.material.elastic_modulus * min(sec.area for sec in seg.sections)
+                / abs(model.stations[model.station_index(seg.end)].x
+                      - model.stations[model.station_index(seg.start)].x)
+                for seg in model.segments)
+    stations = model.stations
+    ends = [(a, b, xa, xb)]
+    if xa == xb:  # parts that butt at one position: the link runs through a station beside them
+        helper = f"{gap.name}~link"
+        stations = stations + (Station(helper, xa + 1e-3 * span),)
+        ends = [(a, helper, xa, xa + 1e-3 * span), (helper, b, xa + 1e-3 * span, xb)]
+    links = []
+    for n, (p, q, xp, xq) in enumerate(ends):
+        length = abs(xq - xp)
+        e = 1.0 if xq > xp else -1.0
+        # s1*u_a + s2*u_b = clearance, and u_q - u_p = e*(change of the link's length)
+        link = Segment(f"{gap.name}~link{n + 1}", p, q,
+                       Material(f"{gap.name}~rigid", _RIGID * k_max * length),
+                       Section(f"{gap.name}~rigid", "area", (("area", 1.0),)),
+                       misfit=e * s2 * gap.clearance if n == 0 else 0.0)
+        links.append(link)
+    return (replace(model, stations=stations, segments=model.segments + tuple(links),
+                    gaps=others, limits=limits),
+            _gap_reader(gap.name, "closed", link=links[0].name))
+
+
+def gap_state(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A gap treated as closed where it stays open, or as open where it closes."""
+    for j, gap in enumerate(model.gaps):
+        if not result.gap_closed[j]:
+            slipped, read = _closed_gap_model(model, gap)
+            yield ModelSlip(f"gap-closed:{gap.name}",
+                            f"gap '{gap.name}' is treated as closed, but it stays open", slipped, read)
+    for j, gap in enumerate(model.gaps):
+        if result.gap_closed[j]:
+            yield ModelSlip(
+                f"gap-open:{gap.name}", f"gap '{gap.name}' is treated as open, but it closes",
+                replace(model, gaps=tuple(g for g in model.gaps if g.name != gap.name),
+                        limits=tuple(lim for lim in model.limits if lim.gap != gap.name)),
+                _gap_reader(gap.name, "open", gap=gap))
+
+
+def no_self_weight(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """Self-weight left out."""
+    if model.gravity != 0 and any(s.material.density for s in model.segments):
+        yield ModelSlip("no-self-weight", "the self-weight is left out",
+                        replace(model, gravity=0.0))
+
+
+def no_distributed_load(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A segment's distributed load left out."""
+    for seg in model.segments:
+        if seg.distributed_load != 0:
+            name = seg.name
+            yield ModelSlip(f"no-distributed-load:{name}",
+                            f"the distributed load on segment '{name}' is left out",
+                            replace(model, segments=_segments(model, lambda s: replace(
+                                s, distributed_load=0.0) if s.name == name else s)))
+
+
+def load_sign(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A point load taken with the opposite sign."""
+    for i, st in enumerate(model.stations):
+        if result.applied[i] == 0:
+            continue
+        name = st.name
+
+        def flip(loads, name=name):
+            return tuple(replace(ld, force=-ld.force) if ld.at == name else ld for ld in loads)
+
+        yield ModelSlip(f"load-sign:{name}",
+                        f"the point load at '{name}' is taken with the opposite sign",
+                        replace(model, loads=flip(model.loads),
+                                cases=_cases(model, lambda c: replace(c, loads=flip(c.loads)))))
+
+
+def moduli_swapped(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """The elastic moduli of two materials swapped."""
+    used = list({s.material.name: s.material for s in model.segments}.values())
+    for i, a in enumerate(used):
+        for b in used[i + 1:]:
+            if a.elastic_modulus == b.elastic_modulus:
+                continue
+            swap = {a.name: replace(a, elastic_modulus=b.elastic_modulus),
+                    b.name: replace(b, elastic_modulus=a.elastic_modulus)}
+            yield ModelSlip(
+                f"moduli-swapped:{a.name}:{b.name}",
+                f"the elastic moduli of '{a.name}' and '{b.name}' are swapped",
+                replace(model, segments=_segments(model, lambda s: replace(
+                    s, material=swap.get(s.material.name, s.material)))))
+
+
+_DIAMETERS = {"round": ("diameter",), "tube": ("outer_diameter", "inner_diameter")}
+
+
+def _scaled_section(model: Model, name: str, factor: float) -> Model:
+    def scale(sec):
+        if sec is None or sec.name != name:
+            return sec
+        return replace(sec, dimensions=tuple((k, v * factor) for k, v in sec.dimensions))
+
+    return replace(model, segments=_segments(model, lambda s: replace(
+        s, section=scale(s.section), end_section=scale(s.end_section))))
+
+
+def diameter_radius(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A diameter used as a radius (area 4 times too large), or a radius as a diameter."""
+    sections = {}
+    for seg in model.segments:
+        for sec in seg.sections:
+            if sec.shape in _DIAMETERS:
+                sections.setdefault(sec.name, sec)
+    for name in sections:
+        yield ModelSlip(f"diameter-as-radius:{name}",
+                        f"a diameter of section '{name}' is used as a radius (its area taken "
+                        "4 times too large)", _scaled_section(model, name, 2.0))
+    for name in sections:
+        yield ModelSlip(f"radius-as-diameter:{name}",
+                        f"a radius of section '{name}' is used as a diameter (its area taken "
+                        "4 times too small)", _scaled_section(model, name, 0.5))
+
+
+# --- reading slips -------------------------------------------------------------
+def opposite_sign(claim: Claim, computed: float) -> Iterator[ReadingSlip]:
+    """The right number with the opposite sign."""
+    if computed == 0:
+        return
+    if claim.what == "reaction":
+        yield ReadingSlip("reaction-sign", "the reaction has the opposite sign: the force of the "
+                          "bar on the support, not of the support on the bar", -computed)
+    else:
+        yield ReadingSlip("sign", "the value has the opposite sign (tension read as compression, "
+                          "or a direction turned over)", -computed)
+
+
+_UNIT_SLIPS = (
+    (1e3, "units-1e3", "the value is 1000 times the computed one: a unit slip (a number in N "
+                       "written as kN, or in mm as m)"),
+    (1e-3, "units-1e-3", "the value is 1/1000 of the computed one: a unit slip (a number in kN "
+                         "written as N, or in m as mm)"),
+    (1e6, "units-1e6", "the value is 10^6 times the computed one: a unit slip (a number in Pa "
+                       "written as MPa, or in mm^2 as m^2)"),
+    (1e-6, "units-1e-6", "the value is 10^-6 of the computed one: a unit slip (a number in MPa "
+                         "written as Pa, or in m^2 as mm^2)"),
+)
+
+
+def unit_factor(claim: Claim, computed: float) -> Iterator[ReadingSlip]:
+    """The right number off by a factor of 10^3 or 10^6 (claimed = factor * computed)."""
+    if computed == 0:
+        return
+    for factor, slip, text in _UNIT_SLIPS:
+        yield ReadingSlip(slip, text, factor * computed)
+
+
+# The documented order: model slips, then reading slips.
+SLIPS = (no_temperature, temperature_sign, misfit, free_support, rigid_spring, no_settlement,
+         gap_state, no_self_weight, no_distributed_load, load_sign, moduli_swapped,
+         diameter_radius, opposite_sign, unit_factor)
+model_slips = SLIPS[:12]
+reading_slips = SLIPS[12:]
