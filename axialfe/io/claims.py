@@ -100,15 +100,21 @@ class _ClaimReader:
         if "tolerance" in entry:
             kwargs["tolerance"] = self.tolerance(entry["tolerance"], kind, index, place)
         try:
-            return check_claim(model, Claim(**kwargs))
+            claim = Claim(**kwargs)
+        except ModelError as exc:
+            key = next((k for k in ("end", "tolerance", "value", "at") if f"'{k}'" in exc.message
+                        or exc.message.startswith(k)), None)
+            raise exc.located(file=self.source, line=self.locator.find("claims", index, key)) from exc
+        try:
+            return check_claim(model, claim)
         except ModelError as exc:
             key = ("case" if "case" in entry else None) if "case" in exc.message else "at"
             raise exc.located(file=self.source, line=self.locator.find("claims", index, key)) from exc
 
     def claims(self, items, model: Model) -> tuple[Claim, ...]:
         if not isinstance(items, list):
-            self.fail("'claims' must be an array of tables ([[claims]])", key="claims",
-                      place="top level")
+            raise ModelError("'claims' must be an array of tables ([[claims]])",
+                             place="top level", file=self.source, line=self.locator.find("claims"))
         return tuple(self.claim(entry, i, model) for i, entry in enumerate(items, 1))
 
 
