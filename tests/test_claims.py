@@ -7,6 +7,8 @@ model states values.  Line numbers are those of MODEL below (counted by hand).
 """
 
 import json
+import math
+from pathlib import Path
 
 import pytest
 from typer.testing import CliRunner
@@ -14,7 +16,8 @@ from typer.testing import CliRunner
 from axialfe.cli import app
 from axialfe.errors import ModelError
 from axialfe.io.claims import read_claims
-from axialfe.io.modelfile import read_model
+from axialfe.engine.system import solve
+from axialfe.io.modelfile import builtin_materials, read_model
 
 runner = CliRunner()
 
@@ -191,7 +194,7 @@ def test_verify_agrees_exit_0(tmp_path):
     path = write(tmp_path, MODEL + CLAIM)
     result = runner.invoke(app, ["verify", str(path)])
     assert result.exit_code == 0, result.output
-    assert "claims: 1 agree, 0 differ (every stated value agrees)" in result.output
+    assert "claims: 1 agrees, 0 differ (every stated value agrees)" in result.output
     assert "      1  reaction  A   base  24000 N  24000 N   0 N         0 %       0.5 %      agrees" \
         in result.output
 
@@ -263,3 +266,34 @@ def test_report_has_a_review_section_only_with_claims(tmp_path):
     out = tmp_path / "stated.md"
     assert runner.invoke(app, ["report", str(stated), "-o", str(out)]).exit_code == 0
     assert "## Review of the stated values" in out.read_text(encoding="utf-8")
+
+
+# --- the example: a calculation sheet with two slips ----------------------------------
+EXAMPLE = Path(__file__).resolve().parent.parent / "examples" / "heated-rod-hand-check.toml"
+
+
+def test_example_hand_check_against_hand_solution():
+    # Gere and Goodno, 8th ed., 2.4 and 2.5 (from memory): parts in series with an elastic
+    # support; the held-back thermal growth gives N_T = -growth / (f_1 + f_2 + 1/k) in
+    # every part, and the joint load P splits by flexibility: N_rod = N_T + P*(f_2 + 1/k)/f
+    mats = builtin_materials()
+    al, st = mats["aluminium-alloy"], mats["structural-steel"]
+    f1 = 0.6 / (al.elastic_modulus * math.pi * 0.016**2 / 4)
+    f2 = 0.2 / (st.elastic_modulus * math.pi * 0.020**2 / 4)
+    fk = 1 / 40e6
+    growth = 45 * (al.thermal_expansion * 0.6 + st.thermal_expansion * 0.2)
+    n_rod = -growth / (f1 + f2 + fk) - 3e3 * (f2 + fk) / (f1 + f2 + fk)
+    model = read_model(EXAMPLE)
+    case = solve(model)["base"]
+    assert case.force("rod").tolist() == pytest.approx([n_rod, n_rod], rel=1e-9)
+    assert case.reaction("bracket") == pytest.approx(-n_rod, rel=1e-9)
+
+
+def test_example_hand_check_finds_both_slips():
+    result = runner.invoke(app, ["verify", str(EXAMPLE), "--format", "json"])
+    assert result.exit_code == 1, result.output
+    data = json.loads(result.output)
+    assert [c["verdict"] for c in data["claims"]] == ["agrees", "differs", "differs", "agrees"]
+    assert [[s["slip"] for s in c["slips"]] for c in data["claims"]] == [
+        [], ["rigid-spring:mount"], ["temperature-sign"], []]
+    assert [c["source"] for c in data["claims"]][:2] == ["sheet 1, line 14", "sheet 2, line 3"]

@@ -14,10 +14,14 @@ from ..formatting import number
 from ..review.claims import DISPLAY
 from ..units import OutputUnits
 
-__all__ = ["REVIEW_TITLE", "review_rows", "review_lines", "review_table", "review_json",
+__all__ = ["REVIEW_TITLE", "REVIEW_CAUTION", "review_rows", "review_lines", "review_table", "review_json",
            "review_markdown", "review_html"]
 
 REVIEW_TITLE = "review of the stated values"
+REVIEW_CAUTION = ("A slip listed here reproduces a stated value: it is the likely cause to look for "
+                  "in the calculation, not a proof of it. A value that agrees shows only that the "
+                  "calculation and this model give the same number: the model must still describe "
+                  "the job.")
 _HEADERS = ("claim", "value", "at", "case", "claimed", "computed", "difference", "relative",
             "tolerance", "verdict", "source")
 
@@ -59,7 +63,10 @@ def _slip_lines(review, units: OutputUnits) -> list[str]:
 
 
 def _summary(review) -> str:
-    return (f"claims: {review.agree} agree, {review.differ} differ"
+    def count(n, verb):
+        return f"{n} {verb}" + ("s" if n == 1 else "")
+
+    return (f"claims: {count(review.agree, 'agree')}, {count(review.differ, 'differ')}"
             + ("" if review.differ else " (every stated value agrees)"))
 
 
@@ -77,7 +84,7 @@ def review_lines(review, units: OutputUnits) -> list[str]:
         for head, lines in slips:
             out.append(f"  {head}")
             out += [f"    {line}" for line in lines]
-    out += ["", _summary(review)]
+    out += ["", _summary(review), f"note: {REVIEW_CAUTION}"]
     return out
 
 
@@ -100,7 +107,7 @@ def review_json(review, units: OutputUnits | None = None) -> str:
     from .text import CAUTIONS
 
     data = review.to_dict(units)
-    data["cautions"] = list(CAUTIONS)
+    data["cautions"] = [REVIEW_CAUTION, *CAUTIONS]
     return json.dumps(data, indent=2) + "\n"
 
 
@@ -121,7 +128,7 @@ def review_markdown(review, units: OutputUnits, heading: str = "##") -> list[str
     out.append("")
     for head, lines in _slip_lines(review, units):
         out += [f"**{_md(head)}**", ""] + [f"- {_md(line[2:])}" for line in lines] + [""]
-    out += [_summary(review) + ".", ""]
+    out += [_summary(review) + ".", "", _md(REVIEW_CAUTION), ""]
     return out
 
 
@@ -143,4 +150,5 @@ def review_html(review, units: OutputUnits) -> str:
         body.append(f"<p><strong>{e(head)}</strong></p><ul>"
                     + "".join(f"<li>{e(line[2:])}</li>" for line in lines) + "</ul>")
     body.append(f"<p>{e(_summary(review))}.</p>")
+    body.append(f"<p>{e(REVIEW_CAUTION)}</p>")
     return "\n".join(body)
