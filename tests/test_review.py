@@ -174,6 +174,13 @@ def test_spring_treated_as_rigid():
     assert slips_of(model, Claim("reaction", "A", -P * b / L)) == ["rigid-spring:B"]
 
 
+def test_a_spring_beside_a_fixed_support_is_no_slip():
+    # the spring at B carries nothing: treating it as rigid changes nothing, and the
+    # model with two fixed supports at B is never built
+    model = bar(supports=(Support("A"), Support("B"), Support("B", "spring", stiffness=K_SPRING)))
+    assert slips_of(model, Claim("reaction", "A", -P)) == ["free-support:B"]
+
+
 def test_settlement_left_out():
     # the wall at B moved 0.1 mm toward +x: the bar is stretched by E*A*s/L more
     s = 0.1e-3
@@ -232,6 +239,20 @@ def test_gap_treated_as_closed_but_it_stays_open(two_station):
     (item,) = review_of(model, claim)
     assert [s.slip for s in item.slips] == ["gap-closed:stop"]
     assert item.slips[0].value == pytest.approx(2000.0, rel=1e-6)
+
+
+@pytest.mark.parametrize("form", ["stop", "between"])
+def test_slack_link_treated_as_taut_but_it_stays_slack(form):
+    # the mirror of the contact: P pulls the bar away from a tie that takes up 0.1 mm
+    # of slack; P*a/(E*A) = 0.08 mm leaves it slack, and held taut it would push
+    tie = (Gap("tie", ("B",), 0.1e-3, kind="slack", side="+x") if form == "stop" else
+           Gap("tie", ("B", "W"), 0.1e-3, kind="slack"))
+    model = bar(supports=(Support("A"),) + ((Support("W"),) if form == "between" else ()),
+                extra_stations=(Station("W", L + 0.05),) if form == "between" else (),
+                loads=(Load("C", -P),), gaps=(tie,))
+    assert agrees(model, Claim("reaction", "A", P))
+    assert slips_of(model, Claim("reaction", "A", -closed_reaction(0.1e-3))) == ["gap-closed:tie"]
+    assert slips_of(model, Claim("gap_force", "tie", -2000.0)) == ["gap-closed:tie"]
 
 
 # --- loads ----------------------------------------------------------------------------

@@ -141,9 +141,10 @@ def free_support(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
 
 def rigid_spring(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
     """A spring support treated as rigid (fixed)."""
+    prescribed = {s.at for s in model.supports if s.kind != "spring"}
     for j, sup in enumerate(model.supports):
-        if sup.kind != "spring":
-            continue
+        if sup.kind != "spring" or sup.at in prescribed:
+            continue  # a spring beside a fixed support carries nothing either way
         yield ModelSlip(
             f"rigid-spring:{sup.at}", f"the spring at '{sup.at}' is treated as rigid",
             replace(model, supports=tuple(Support(s.at) if k == j else s
@@ -173,7 +174,7 @@ def no_settlement(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
 _RIGID = 1e8
 
 
-def _gap_reader(name: str, kind: str, link=None, station=None, toward=0.0, gap: Gap = None):
+def _gap_reader(name: str, kind: str, link=None, toward=0.0, gap: Gap = None):
     """How a claim on gap ``name`` is read once the gap is replaced (closed) or removed (open)."""
     def read(claim, slipped):
         if claim.target != "gap" or claim.at != name:
@@ -183,7 +184,9 @@ def _gap_reader(name: str, kind: str, link=None, station=None, toward=0.0, gap: 
                 return 0.0
             if link is not None:
                 return float(slipped.force(link)[0])
-            return toward * slipped.reaction(station)
+            # the support that stands in for the gap is the model's last one (a spring may
+            # stand beside it at the same station)
+            return toward * float(slipped.reactions[-1])
         if claim.what == "gap_force":
             return 0.0
         s1, s2 = gap.sign
@@ -196,15 +199,25 @@ def _gap_reader(name: str, kind: str, link=None, station=None, toward=0.0, gap: 
 
 
 def _closed_gap_model(model: Model, gap: Gap):
-    """The model with ``gap`` held closed both ways: (model, reader) or None."""
+    """The model with ``gap`` held closed both ways, and how to read the gap's claims there.
+
+    A gap against ground becomes a settlement support that holds its station
+    where the gap closes; a gap between two stations becomes a link
+    :data:`_RIGID` times stiffer than the stiffest segment, made to the
+    clearance, so that it holds the two stations where the gap closes (to a
+    relative error of about 1e-8).  Returns None for a gap against ground at a
+    station that a support holds already (the gap cannot move there).
+    """
     others = tuple(g for g in model.gaps if g.name != gap.name)
     limits = tuple(lim for lim in model.limits if lim.gap != gap.name)
     s1, s2 = gap.sign
     if len(gap.stations) == 1:
         at = gap.stations[0]
+        if any(s.at == at and s.kind != "spring" for s in model.supports):
+            return None
         support = Support(at, "settlement", displacement=s1 * gap.clearance)
         return (replace(model, gaps=others, limits=limits, supports=model.supports + (support,)),
-                _gap_reader(gap.name, "closed", station=at, toward=s1))
+                _gap_reader(gap.name, "closed", toward=1.0 if gap.side == "+x" else -1.0))
     a, b = gap.stations
     xa, xb = (model.stations[model.station_index(n)].x for n in (a, b))
     xs = [s.x for s in model.stations]
@@ -237,8 +250,9 @@ def _closed_gap_model(model: Model, gap: Gap):
 def gap_state(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
     """A gap treated as closed where it stays open, or as open where it closes."""
     for j, gap in enumerate(model.gaps):
-        if not result.gap_closed[j]:
-            slipped, read = _closed_gap_model(model, gap)
+        closed = None if result.gap_closed[j] else _closed_gap_model(model, gap)
+        if closed is not None:
+            slipped, read = closed
             yield ModelSlip(f"gap-closed:{gap.name}",
                             f"gap '{gap.name}' is treated as closed, but it stays open", slipped, read)
     for j, gap in enumerate(model.gaps):

@@ -115,20 +115,20 @@ class Review:
 _UNSOLVED = object()
 
 
-def find_slips(model: Model, verdict: Verdict, solved: dict | None = None) -> tuple[SlipFound, ...]:
+def find_slips(model: Model, verdict: Verdict, solution: Solution,
+               solved: dict | None = None) -> tuple[SlipFound, ...]:
     """The slips that reproduce a claimed value, in the documented order.
 
-    ``solved`` caches the solutions of slipped models by slip identifier (None
-    for one that cannot be solved), shared between the claims of one review.
+    ``solution`` is the model's own; ``solved`` caches the solutions of slipped
+    models by slip identifier (None for one that cannot be solved), shared
+    between the claims of one review.
     """
     solved = {} if solved is None else solved
     claim = verdict.claim
-    result = None
+    result = solution[claim.case]
     found = []
     for slip_fn in model_slips:
-        if result is None:
-            result = _original_case(model, claim, solved)
-        for slip in slip_fn(model, result):
+        for slip in _slipped_models(slip_fn, model, result):
             solution = solved.get(slip.slip, _UNSOLVED)
             if solution is _UNSOLVED:
                 try:
@@ -151,8 +151,12 @@ def find_slips(model: Model, verdict: Verdict, solved: dict | None = None) -> tu
     return tuple(found)
 
 
-def _original_case(model, claim, solved):
-    return solved[""][claim.case]
+def _slipped_models(slip_fn, model, result):
+    """The models of one slip function; one that cannot build its model ends there."""
+    try:
+        yield from slip_fn(model, result)
+    except AxialfeError:
+        return
 
 
 def verify(model: Model, claims, solution: Solution | None = None) -> Review:
@@ -192,10 +196,10 @@ def verify(model: Model, claims, solution: Solution | None = None) -> Review:
     """
     claims = [check_claim(model, c) for c in claims]
     solution = solution if solution is not None else solve(model)
-    solved = {"": solution}
+    solved = {}
     out = []
     for claim in claims:
         verdict = judge(claim, solution[claim.case])
-        slips = () if verdict.agrees else find_slips(model, verdict, solved)
+        slips = () if verdict.agrees else find_slips(model, verdict, solution, solved)
         out.append(ClaimReview(verdict, slips))
     return Review(model, tuple(out))
