@@ -297,3 +297,19 @@ def test_example_hand_check_finds_both_slips():
     assert [[s["slip"] for s in c["slips"]] for c in data["claims"]] == [
         [], ["rigid-spring:mount"], ["temperature-sign"], []]
     assert [c["source"] for c in data["claims"]][:2] == ["sheet 1, line 14", "sheet 2, line 3"]
+
+
+def test_readme_shows_the_example_as_it_runs():
+    result = runner.invoke(app, ["verify", str(EXAMPLE)])
+    shown = result.output.split("\ncautions:")[0].rstrip()
+    readme = (EXAMPLE.parent.parent / "README.md").read_text(encoding="utf-8")
+    assert "$ axialfe verify examples/heated-rod-hand-check.toml\n" + shown + "\n```" in readme
+
+
+def test_text_from_the_file_is_escaped_in_markdown_and_html(tmp_path):
+    stated = write(tmp_path, MODEL + CLAIM + 'source = "<b>sheet</b> | 2"\n', "stated.toml")
+    out = tmp_path / "r.html"
+    assert runner.invoke(app, ["report", str(stated), "-o", str(out)]).exit_code == 0
+    assert "&lt;b&gt;sheet&lt;/b&gt; | 2" in out.read_text(encoding="utf-8")
+    md = runner.invoke(app, ["solve", str(stated), "-f", "markdown"]).output
+    assert "&lt;b&gt;sheet&lt;/b&gt; \\| 2" in md and "<b>" not in md

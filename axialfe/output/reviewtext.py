@@ -112,7 +112,7 @@ def review_json(review, units: OutputUnits | None = None) -> str:
 
 
 def _md(text) -> str:
-    text = str(text)
+    text = html.escape(str(text), quote=False)  # names and sources come from the model file
     for ch in "\\`*_[]#|":
         text = text.replace(ch, "\\" + ch)
     return text

@@ -17,6 +17,7 @@ from dataclasses import dataclass
 
 from ..engine.system import solve
 from ..errors import AxialfeError
+from ..formatting import number
 from ..model import Model
 from ..results import Solution
 from ..units import OutputUnits
@@ -58,7 +59,7 @@ class ClaimReview:
             key = DISPLAY[claim.what]
             out.append(f"the {claim.tolerance.text()} tolerance of a zero value is taken of the "
                        f"largest {claim.what.replace('_', ' ')} in the case, "
-                       f"{_num(v.floor / units.factor(key))} {getattr(units, key)}")
+                       f"{number(v.floor / units.factor(key))} {getattr(units, key)}")
         if not v.agrees and not self.slips:
             out.append("no common slip reproduces the claimed value")
         return out
@@ -77,12 +78,6 @@ class ClaimReview:
                 "slips": [{"slip": s.slip, "text": s.text, "value": s.value / f}
                           for s in self.slips],
                 "note": "; ".join(notes) if notes else None}
-
-
-def _num(value):
-    from ..formatting import number
-
-    return number(value)
 
 
 @dataclass(frozen=True)
