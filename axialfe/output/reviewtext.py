@@ -22,7 +22,7 @@ REVIEW_CAUTION = ("A slip listed here reproduces a stated value: it is the likel
                   "in the calculation, not a proof of it. A value that agrees shows only that the "
                   "calculation and this model give the same number: the model must still describe "
                   "the job.")
-_HEADERS = ("claim", "value", "at", "case", "claimed", "computed", "difference", "relative",
+_HEADERS = ("claim", "quantity", "at", "case", "claimed", "computed", "difference", "relative",
             "tolerance", "verdict", "source")
 
 

@@ -22,7 +22,7 @@ units.  This module imports the model and the results only.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -160,7 +160,8 @@ def case_names(model: Model) -> list[str]:
 
 
 def check_claim(model: Model, claim: Claim) -> Claim:
-    """Check that ``claim`` speaks of something in ``model``; return it with its case.
+    """Check that ``claim`` speaks of something in ``model``; return it with its case named
+    (a new claim when it named none and the model has one case).
 
     Raises
     ------
@@ -191,13 +192,14 @@ def check_claim(model: Model, claim: Claim) -> Claim:
         if len(cases) != 1:
             raise ModelError("the model has several cases: give 'case'", place=place,
                              options=cases)
-        object.__setattr__(claim, "case", cases[0])
-    elif claim.case not in cases:
+        return replace(claim, case=cases[0])
+    if claim.case not in cases:
         raise ModelError(f"unknown case '{claim.case}'", place=place,
                          hint=suggest(claim.case, cases), options=cases)
     return claim
 
 
+# --- end = "max" of a segment: the one place to switch to the field inside a segment ------
 def _along(values, end: str) -> float:
     """One value of a segment: at its ``from`` or ``to`` end, or the one of largest magnitude.
 
