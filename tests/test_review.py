@@ -14,7 +14,8 @@ from axialfe.engine.system import solve
 from axialfe.errors import ModelError
 from axialfe.model import Gap, Load, Material, Model, Section, Segment, Station, Support, Case
 from axialfe.review import Claim, Tolerance, verify
-from axialfe.review.claims import judge
+from axialfe.review.claims import check_claim, judge
+from axialfe.review.verify import ClaimReview
 
 from conftest import area, steel
 
@@ -354,6 +355,35 @@ def test_diameter_slip_of_a_tube():
     assert slips_of(model, Claim("stress", "alloy-part",
                                  n2 / (math.pi * (0.060**2 - 0.040**2) / 4))) == [
         "diameter-as-radius:tube"]
+
+
+def test_a_large_model_tries_the_whole_model_slips_first_and_says_what_it_left():
+    # twelve heated segments between walls: a slip per segment, and one budget too small
+    # for them all; the temperature left out everywhere is still found, and the claim
+    # says how many single-segment slips were not tried
+    from axialfe.review.verify import _Solver, find_slips
+
+    n = 12
+    stations = tuple(Station(f"s{i}", 0.1 * i) for i in range(n + 1))
+    segments = tuple(Segment(f"p{i}", f"s{i}", f"s{i + 1}", steel(E=E, alpha=ALPHA),
+                             area("a", A), temperature_change=10.0 + i) for i in range(n))
+    model = Model(stations, segments, (Support("s0"), Support(f"s{n}")), (Load("s3", P),))
+    solution = solve(model)
+    claim = check_claim(model, Claim("reaction", "s0", -P * 0.9 / 1.2))  # the load alone: -P*b/L
+    verdict = judge(claim, solution["base"])
+    solver = _Solver(model)
+    solver.budget = 4
+    slips, untried = find_slips(model, verdict, solution, solver)
+    assert [s.slip for s in slips] == ["no-temperature"]
+    # two slips of the whole model, then 12 segments' temperatures, 2 supports, 1 load:
+    # 17, of which 4 were tried
+    assert untried == 13
+    assert ClaimReview(verdict, slips, untried).notes(model.units) == [
+        "13 slips of single segments or stations were not tried: a review of a model this "
+        "large solves a bounded number of slipped models"]
+    review = verify(model, [claim])
+    assert [s.slip for s in review.claims[0].slips] == ["no-temperature"]
+    assert review.claims[0].untried == 0
 
 
 # --- verdict arithmetic and tolerances -------------------------------------------------

@@ -2,10 +2,11 @@
 
 A *model slip* is a mistake in setting the problem up: a temperature change
 left out, a support treated as free, two moduli swapped.  Its function takes
-the model and the solved case a claim belongs to and yields the slipped
-models it applies to (:class:`ModelSlip`), each built with
-:func:`dataclasses.replace`; the reviewer solves each with the same engine and
-compares the claimed value with what the slipped model gives.
+the model and the solved case a claim belongs to and yields the slips that
+apply there (:class:`ModelSlip`), each with the function that builds its
+slipped model from the model by :func:`dataclasses.replace` when it is tried;
+the reviewer solves it with the same engine and compares the claimed value
+with what the slipped model gives.
 
 A *reading slip* is a mistake in stating a right number: the opposite sign, a
 unit off by a factor of 10^3 or 10^6.  Its function takes the claim and the
@@ -20,6 +21,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field, replace
+from functools import partial
 
 from ..model import Case, Gap, Material, Model, Section, Segment, Station, Support
 from ..results import CaseResult
@@ -32,15 +34,22 @@ __all__ = ["ModelSlip", "ReadingSlip", "SLIPS", "model_slips", "reading_slips"]
 class ModelSlip:
     """A model as a slipped calculation sets it up.
 
-    ``read`` gives the claimed quantity from the slipped model's solved case
-    where the slip removed or replaced what the claim speaks of (a support
-    treated as free has no reaction); None reads it as usual.
+    ``build`` makes the slipped model (built only when the slip is tried, so
+    that listing the slips of a large model costs little).  ``read`` gives the
+    claimed quantity from the slipped model's solved case where the slip
+    removed or replaced what the claim speaks of (a support treated as free
+    has no reaction); it returns None to read the quantity as usual.
     """
 
     slip: str
     text: str
-    model: Model
-    read: Callable[[Claim, CaseResult], float] | None = field(default=None, compare=False)
+    build: Callable[[], Model] = field(compare=False)
+    read: Callable[[Claim, CaseResult], float | None] | None = field(default=None, compare=False)
+
+    @property
+    def per_item(self) -> bool:
+        """True for a slip of one named item (``no-misfit:<segment>``), not of the whole model."""
+        return ":" in self.slip
 
     def value(self, claim: Claim, result: CaseResult) -> float:
         if self.read is not None:
@@ -59,7 +68,7 @@ class ReadingSlip:
     value: float
 
 
-# --- helpers -----------------------------------------------------------------
+# --- the slipped models --------------------------------------------------------------
 def _heated(result: CaseResult) -> list[int]:
     return [i for i, t in enumerate(result.thermal_strain) if t != 0]
 
@@ -72,101 +81,66 @@ def _segments(model: Model, change) -> tuple[Segment, ...]:
     return tuple(change(s) for s in model.segments)
 
 
-# --- model slips, in the documented order --------------------------------------
-def no_temperature(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """The temperature change left out: of the whole model, or of one segment."""
-    heated = _heated(result)
-    if not heated:
-        return
-    yield ModelSlip("no-temperature", "the temperature change is left out", replace(
-        model, temperature_change=None,
-        segments=_segments(model, lambda s: replace(s, temperature_change=None)),
-        cases=_cases(model, lambda c: replace(c, temperature_change=()))))
-    if len(heated) < 2:
-        return  # one heated segment: the same as the whole model's
-    for i in heated:
-        name = model.segments[i].name
-        yield ModelSlip(
-            f"no-temperature:{name}", f"the temperature change of segment '{name}' is left out",
-            replace(model, segments=_segments(
-                        model, lambda s: replace(s, temperature_change=0.0) if s.name == name else s),
-                    cases=_cases(model, lambda c: replace(
-                        c, temperature_change=tuple((n, t) for n, t in c.temperature_change
-                                                    if n != name) + ((name, 0.0),))
-                        if c.temperature_change else c)))
+def _named(name, change):
+    """``change`` applied to the segment called ``name`` only."""
+    return lambda s: change(s) if s.name == name else s
 
 
-def temperature_sign(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """Every temperature change taken with the opposite sign."""
-    if not _heated(result):
-        return
-    flip = (lambda t: None if t is None else -t)
-    yield ModelSlip("temperature-sign",
-                    "the temperature change is taken with the opposite sign (heating as cooling)",
-                    replace(model, temperature_change=flip(model.temperature_change),
-                            segments=_segments(model, lambda s: replace(
-                                s, temperature_change=flip(s.temperature_change))),
-                            cases=_cases(model, lambda c: replace(
-                                c, temperature_change=tuple((n, -t) for n, t in c.temperature_change)))))
+def _without_temperature(model: Model) -> Model:
+    return replace(model, temperature_change=None,
+                   segments=_segments(model, lambda s: replace(s, temperature_change=None)),
+                   cases=_cases(model, lambda c: replace(c, temperature_change=())))
 
 
-def misfit(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """A segment's misfit (or preload) left out, or taken with the opposite sign."""
-    for seg in model.segments:
-        if seg.misfit == 0:
-            continue
-        name = seg.name
-        for slip, text, value in (
-                ("no-misfit", f"the misfit (or preload) of segment '{name}' is left out", 0.0),
-                ("misfit-sign", f"the misfit (or preload) of segment '{name}' is taken with the "
-                                "opposite sign (too short as too long)", -seg.misfit)):
-            yield ModelSlip(f"{slip}:{name}", text, replace(model, segments=_segments(
-                model, lambda s, v=value: replace(s, misfit=v) if s.name == name else s)))
+def _without_segment_temperature(model: Model, name: str) -> Model:
+    def case(c):
+        if not c.temperature_change:
+            return c
+        table = tuple((n, t) for n, t in c.temperature_change if n != name)
+        return replace(c, temperature_change=table + ((name, 0.0),))
+
+    return replace(model, cases=_cases(model, case), segments=_segments(
+        model, _named(name, lambda s: replace(s, temperature_change=0.0))))
 
 
-def free_support(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """A support treated as free: the station is left unrestrained."""
-    for at in dict.fromkeys(s.at for s in model.supports):
-        def read(claim, slipped, at=at):
-            if claim.what == "reaction" and claim.at == at:
-                return 0.0  # a free end carries no reaction
-            return None
+def _flipped_temperature(model: Model) -> Model:
+    def flip(t):
+        return None if t is None else -t
 
-        yield ModelSlip(
-            f"free-support:{at}", f"the support at '{at}' is treated as free",
-            replace(model, supports=tuple(s for s in model.supports if s.at != at),
-                    cases=_cases(model, lambda c: replace(
-                        c, settlements=tuple(p for p in c.settlements if p[0] != at)))), read)
+    return replace(model, temperature_change=flip(model.temperature_change),
+                   segments=_segments(model, lambda s: replace(
+                       s, temperature_change=flip(s.temperature_change))),
+                   cases=_cases(model, lambda c: replace(
+                       c, temperature_change=tuple((n, -t) for n, t in c.temperature_change))))
 
 
-def rigid_spring(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """A spring support treated as rigid (fixed)."""
-    prescribed = {s.at for s in model.supports if s.kind != "spring"}
-    for j, sup in enumerate(model.supports):
-        if sup.kind != "spring" or sup.at in prescribed:
-            continue  # a spring beside a fixed support carries nothing either way
-        yield ModelSlip(
-            f"rigid-spring:{sup.at}", f"the spring at '{sup.at}' is treated as rigid",
-            replace(model, supports=tuple(Support(s.at) if k == j else s
-                                          for k, s in enumerate(model.supports))))
+def _with_misfit(model: Model, name: str, value: float) -> Model:
+    return replace(model, segments=_segments(model, _named(name, lambda s: replace(s, misfit=value))))
 
 
-def no_settlement(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """A settlement support's prescribed displacement left out."""
-    for sup in model.supports:
-        if sup.kind != "settlement":
-            continue
-        moved = [d for c in model.cases for st, d in c.settlements if st == sup.at]
-        if sup.displacement == 0 and not any(moved):
-            continue
-        at = sup.at
-        yield ModelSlip(
-            f"no-settlement:{at}", f"the settlement of the support at '{at}' is left out",
-            replace(model,
-                    supports=tuple(replace(s, displacement=0.0) if s is sup else s
-                                   for s in model.supports),
-                    cases=_cases(model, lambda c: replace(c, settlements=tuple(
-                        (st, 0.0 if st == at else d) for st, d in c.settlements)))))
+def _without_support(model: Model, at: str) -> Model:
+    return replace(model, supports=tuple(s for s in model.supports if s.at != at),
+                   cases=_cases(model, lambda c: replace(
+                       c, settlements=tuple(p for p in c.settlements if p[0] != at))))
+
+
+def _spring_fixed(model: Model, j: int) -> Model:
+    return replace(model, supports=tuple(Support(s.at) if k == j else s
+                                         for k, s in enumerate(model.supports)))
+
+
+def _without_settlement(model: Model, j: int) -> Model:
+    at = model.supports[j].at
+    return replace(model,
+                   supports=tuple(replace(s, displacement=0.0) if k == j else s
+                                  for k, s in enumerate(model.supports)),
+                   cases=_cases(model, lambda c: replace(c, settlements=tuple(
+                       (st, 0.0 if st == at else d) for st, d in c.settlements))))
+
+
+def _without_gap(model: Model, name: str) -> Model:
+    return replace(model, gaps=tuple(g for g in model.gaps if g.name != name),
+                   limits=tuple(lim for lim in model.limits if lim.gap != name))
 
 
 # a rigid link stands in for a gap treated as closed: this many times the stiffness of
@@ -174,19 +148,56 @@ def no_settlement(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
 _RIGID = 1e8
 
 
-def _gap_reader(name: str, kind: str, link=None, toward=0.0, gap: Gap = None):
-    """How a claim on gap ``name`` is read once the gap is replaced (closed) or removed (open)."""
+def _closed_gap(model: Model, gap: Gap) -> Model:
+    """The model with ``gap`` held closed both ways.
+
+    A gap against ground becomes a settlement support (the model's last) that
+    holds its station where the gap closes; a gap between two stations becomes
+    a link :data:`_RIGID` times stiffer than the stiffest segment, made to the
+    clearance, so that it holds the two stations where the gap closes (to a
+    relative error of about 1e-8).  Parts that butt at one position are linked
+    through a station placed beside them.
+    """
+    base = _without_gap(model, gap.name)
+    s1, s2 = gap.sign
+    if len(gap.stations) == 1:
+        support = Support(gap.stations[0], "settlement", displacement=s1 * gap.clearance)
+        return replace(base, supports=base.supports + (support,))
+    a, b = gap.stations
+    x = {st.name: st.x for st in model.stations}
+    span = (max(x.values()) - min(x.values())) or 1.0
+    k_max = max(seg.material.elastic_modulus * min(sec.area for sec in seg.sections)
+                / abs(x[seg.end] - x[seg.start]) for seg in model.segments)
+    stations, ends = base.stations, [(a, b)]
+    if x[a] == x[b]:
+        helper = f"{gap.name}~link"
+        x[helper] = x[a] + 1e-3 * span
+        stations = stations + (Station(helper, x[helper]),)
+        ends = [(a, helper), (helper, b)]
+    links = []
+    for n, (p, q) in enumerate(ends):
+        e = 1.0 if x[q] > x[p] else -1.0
+        # s1*u_a + s2*u_b = clearance, and u_q - u_p = e*(change of the link's length)
+        links.append(Segment(f"{gap.name}~link{n + 1}", p, q,
+                             Material(f"{gap.name}~rigid", _RIGID * k_max * abs(x[q] - x[p])),
+                             Section(f"{gap.name}~rigid", "area", (("area", 1.0),)),
+                             misfit=e * s2 * gap.clearance if n == 0 else 0.0))
+    return replace(base, stations=stations, segments=base.segments + tuple(links))
+
+
+def _gap_reader(gap: Gap, closed: bool):
+    """How a claim on ``gap`` is read once the gap is held closed or removed (open)."""
     def read(claim, slipped):
-        if claim.target != "gap" or claim.at != name:
+        if claim.target != "gap" or claim.at != gap.name:
             return None
-        if kind == "closed":
+        if closed:
             if claim.what == "gap_opening":
                 return 0.0
-            if link is not None:
-                return float(slipped.force(link)[0])
-            # the support that stands in for the gap is the model's last one (a spring may
-            # stand beside it at the same station)
-            return toward * float(slipped.reactions[-1])
+            if len(gap.stations) == 2:
+                return float(slipped.force(f"{gap.name}~link1")[0])
+            # the support standing in for the gap is the model's last one (a spring may
+            # stand beside it at the same station); the stop's side gives the sign
+            return (1.0 if gap.side == "+x" else -1.0) * float(slipped.reactions[-1])
         if claim.what == "gap_force":
             return 0.0
         s1, s2 = gap.sign
@@ -198,123 +209,24 @@ def _gap_reader(name: str, kind: str, link=None, toward=0.0, gap: Gap = None):
     return read
 
 
-def _closed_gap_model(model: Model, gap: Gap):
-    """The model with ``gap`` held closed both ways, and how to read the gap's claims there.
-
-    A gap against ground becomes a settlement support that holds its station
-    where the gap closes; a gap between two stations becomes a link
-    :data:`_RIGID` times stiffer than the stiffest segment, made to the
-    clearance, so that it holds the two stations where the gap closes (to a
-    relative error of about 1e-8).  Returns None for a gap against ground at a
-    station that a support holds already (the gap cannot move there).
-    """
-    others = tuple(g for g in model.gaps if g.name != gap.name)
-    limits = tuple(lim for lim in model.limits if lim.gap != gap.name)
-    s1, s2 = gap.sign
-    if len(gap.stations) == 1:
-        at = gap.stations[0]
-        if any(s.at == at and s.kind != "spring" for s in model.supports):
-            return None
-        support = Support(at, "settlement", displacement=s1 * gap.clearance)
-        return (replace(model, gaps=others, limits=limits, supports=model.supports + (support,)),
-                _gap_reader(gap.name, "closed", toward=1.0 if gap.side == "+x" else -1.0))
-    a, b = gap.stations
-    xa, xb = (model.stations[model.station_index(n)].x for n in (a, b))
-    xs = [s.x for s in model.stations]
-    span = (max(xs) - min(xs)) or 1.0
-    k_max = max(seg.material.elastic_modulus * min(sec.area for sec in seg.sections)
-                / abs(model.stations[model.station_index(seg.end)].x
-                      - model.stations[model.station_index(seg.start)].x)
-                for seg in model.segments)
-    stations = model.stations
-    ends = [(a, b, xa, xb)]
-    if xa == xb:  # parts that butt at one position: the link runs through a station beside them
-        helper = f"{gap.name}~link"
-        stations = stations + (Station(helper, xa + 1e-3 * span),)
-        ends = [(a, helper, xa, xa + 1e-3 * span), (helper, b, xa + 1e-3 * span, xb)]
-    links = []
-    for n, (p, q, xp, xq) in enumerate(ends):
-        length = abs(xq - xp)
-        e = 1.0 if xq > xp else -1.0
-        # s1*u_a + s2*u_b = clearance, and u_q - u_p = e*(change of the link's length)
-        link = Segment(f"{gap.name}~link{n + 1}", p, q,
-                       Material(f"{gap.name}~rigid", _RIGID * k_max * length),
-                       Section(f"{gap.name}~rigid", "area", (("area", 1.0),)),
-                       misfit=e * s2 * gap.clearance if n == 0 else 0.0)
-        links.append(link)
-    return (replace(model, stations=stations, segments=model.segments + tuple(links),
-                    gaps=others, limits=limits),
-            _gap_reader(gap.name, "closed", link=links[0].name))
+def _without_distributed_load(model: Model, name: str) -> Model:
+    return replace(model, segments=_segments(
+        model, _named(name, lambda s: replace(s, distributed_load=0.0))))
 
 
-def gap_state(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """A gap treated as closed where it stays open, or as open where it closes."""
-    for j, gap in enumerate(model.gaps):
-        closed = None if result.gap_closed[j] else _closed_gap_model(model, gap)
-        if closed is not None:
-            slipped, read = closed
-            yield ModelSlip(f"gap-closed:{gap.name}",
-                            f"gap '{gap.name}' is treated as closed, but it stays open", slipped, read)
-    for j, gap in enumerate(model.gaps):
-        if result.gap_closed[j]:
-            yield ModelSlip(
-                f"gap-open:{gap.name}", f"gap '{gap.name}' is treated as open, but it closes",
-                replace(model, gaps=tuple(g for g in model.gaps if g.name != gap.name),
-                        limits=tuple(lim for lim in model.limits if lim.gap != gap.name)),
-                _gap_reader(gap.name, "open", gap=gap))
+def _flipped_load(model: Model, at: str) -> Model:
+    def flip(loads):
+        return tuple(replace(ld, force=-ld.force) if ld.at == at else ld for ld in loads)
+
+    return replace(model, loads=flip(model.loads),
+                   cases=_cases(model, lambda c: replace(c, loads=flip(c.loads))))
 
 
-def no_self_weight(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """Self-weight left out."""
-    if model.gravity != 0 and any(s.material.density for s in model.segments):
-        yield ModelSlip("no-self-weight", "the self-weight is left out",
-                        replace(model, gravity=0.0))
-
-
-def no_distributed_load(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """A segment's distributed load left out."""
-    for seg in model.segments:
-        if seg.distributed_load != 0:
-            name = seg.name
-            yield ModelSlip(f"no-distributed-load:{name}",
-                            f"the distributed load on segment '{name}' is left out",
-                            replace(model, segments=_segments(model, lambda s: replace(
-                                s, distributed_load=0.0) if s.name == name else s)))
-
-
-def load_sign(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """A point load taken with the opposite sign."""
-    for i, st in enumerate(model.stations):
-        if result.applied[i] == 0:
-            continue
-        name = st.name
-
-        def flip(loads, name=name):
-            return tuple(replace(ld, force=-ld.force) if ld.at == name else ld for ld in loads)
-
-        yield ModelSlip(f"load-sign:{name}",
-                        f"the point load at '{name}' is taken with the opposite sign",
-                        replace(model, loads=flip(model.loads),
-                                cases=_cases(model, lambda c: replace(c, loads=flip(c.loads)))))
-
-
-def moduli_swapped(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
-    """The elastic moduli of two materials swapped."""
-    used = list({s.material.name: s.material for s in model.segments}.values())
-    for i, a in enumerate(used):
-        for b in used[i + 1:]:
-            if a.elastic_modulus == b.elastic_modulus:
-                continue
-            swap = {a.name: replace(a, elastic_modulus=b.elastic_modulus),
-                    b.name: replace(b, elastic_modulus=a.elastic_modulus)}
-            yield ModelSlip(
-                f"moduli-swapped:{a.name}:{b.name}",
-                f"the elastic moduli of '{a.name}' and '{b.name}' are swapped",
-                replace(model, segments=_segments(model, lambda s: replace(
-                    s, material=swap.get(s.material.name, s.material)))))
-
-
-_DIAMETERS = {"round": ("diameter",), "tube": ("outer_diameter", "inner_diameter")}
+def _swapped_moduli(model: Model, a: Material, b: Material) -> Model:
+    swap = {a.name: replace(a, elastic_modulus=b.elastic_modulus),
+            b.name: replace(b, elastic_modulus=a.elastic_modulus)}
+    return replace(model, segments=_segments(model, lambda s: replace(
+        s, material=swap.get(s.material.name, s.material))))
 
 
 def _scaled_section(model: Model, name: str, factor: float) -> Model:
@@ -327,21 +239,155 @@ def _scaled_section(model: Model, name: str, factor: float) -> Model:
         s, section=scale(s.section), end_section=scale(s.end_section))))
 
 
+# --- model slips, in the documented order --------------------------------------------
+def no_temperature(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """The temperature change left out: of the whole model, or of one segment."""
+    heated = _heated(result)
+    if not heated:
+        return
+    yield ModelSlip("no-temperature", "the temperature change is left out",
+                    partial(_without_temperature, model))
+    if len(heated) < 2:
+        return  # one heated segment: the same as the whole model's
+    for i in heated:
+        name = model.segments[i].name
+        yield ModelSlip(f"no-temperature:{name}",
+                        f"the temperature change of segment '{name}' is left out",
+                        partial(_without_segment_temperature, model, name))
+
+
+def temperature_sign(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """Every temperature change taken with the opposite sign."""
+    if _heated(result):
+        yield ModelSlip("temperature-sign",
+                        "the temperature change is taken with the opposite sign (heating as "
+                        "cooling)", partial(_flipped_temperature, model))
+
+
+def misfit(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A segment's misfit (or preload) left out, or taken with the opposite sign."""
+    for seg in model.segments:
+        if seg.misfit == 0:
+            continue
+        name = seg.name
+        yield ModelSlip(f"no-misfit:{name}",
+                        f"the misfit (or preload) of segment '{name}' is left out",
+                        partial(_with_misfit, model, name, 0.0))
+        yield ModelSlip(f"misfit-sign:{name}",
+                        f"the misfit (or preload) of segment '{name}' is taken with the opposite "
+                        "sign (too short as too long)", partial(_with_misfit, model, name, -seg.misfit))
+
+
+def _no_reaction_at(at: str):
+    def read(claim, slipped):
+        return 0.0 if claim.what == "reaction" and claim.at == at else None  # a free end
+
+    return read
+
+
+def free_support(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A support treated as free: the station is left unrestrained."""
+    for at in dict.fromkeys(s.at for s in model.supports):
+        yield ModelSlip(f"free-support:{at}", f"the support at '{at}' is treated as free",
+                        partial(_without_support, model, at), _no_reaction_at(at))
+
+
+def rigid_spring(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A spring support treated as rigid (fixed)."""
+    prescribed = {s.at for s in model.supports if s.kind != "spring"}
+    for j, sup in enumerate(model.supports):
+        if sup.kind != "spring" or sup.at in prescribed:
+            continue  # a spring beside a fixed support carries nothing either way
+        yield ModelSlip(f"rigid-spring:{sup.at}", f"the spring at '{sup.at}' is treated as rigid",
+                        partial(_spring_fixed, model, j))
+
+
+def no_settlement(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A settlement support's prescribed displacement left out."""
+    for j, sup in enumerate(model.supports):
+        if sup.kind != "settlement":
+            continue
+        moved = [d for c in model.cases for st, d in c.settlements if st == sup.at]
+        if sup.displacement == 0 and not any(moved):
+            continue
+        yield ModelSlip(f"no-settlement:{sup.at}",
+                        f"the settlement of the support at '{sup.at}' is left out",
+                        partial(_without_settlement, model, j))
+
+
+def gap_state(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A gap treated as closed where it stays open, or as open where it closes."""
+    prescribed = {s.at for s in model.supports if s.kind != "spring"}
+    for j, gap in enumerate(model.gaps):
+        if result.gap_closed[j]:
+            continue
+        if len(gap.stations) == 1 and gap.stations[0] in prescribed:
+            continue  # a support holds the station already: the gap cannot move
+        yield ModelSlip(f"gap-closed:{gap.name}",
+                        f"gap '{gap.name}' is treated as closed, but it stays open",
+                        partial(_closed_gap, model, gap), _gap_reader(gap, closed=True))
+    for j, gap in enumerate(model.gaps):
+        if result.gap_closed[j]:
+            yield ModelSlip(f"gap-open:{gap.name}",
+                            f"gap '{gap.name}' is treated as open, but it closes",
+                            partial(_without_gap, model, gap.name), _gap_reader(gap, closed=False))
+
+
+def no_self_weight(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """Self-weight left out."""
+    if model.gravity != 0 and any(s.material.density for s in model.segments):
+        yield ModelSlip("no-self-weight", "the self-weight is left out",
+                        partial(replace, model, gravity=0.0))
+
+
+def no_distributed_load(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A segment's distributed load left out."""
+    for seg in model.segments:
+        if seg.distributed_load != 0:
+            yield ModelSlip(f"no-distributed-load:{seg.name}",
+                            f"the distributed load on segment '{seg.name}' is left out",
+                            partial(_without_distributed_load, model, seg.name))
+
+
+def load_sign(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """A point load taken with the opposite sign."""
+    for i, st in enumerate(model.stations):
+        if result.applied[i] != 0:
+            yield ModelSlip(f"load-sign:{st.name}",
+                            f"the point load at '{st.name}' is taken with the opposite sign",
+                            partial(_flipped_load, model, st.name))
+
+
+def moduli_swapped(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
+    """The elastic moduli of two materials swapped."""
+    used = list({s.material.name: s.material for s in model.segments}.values())
+    for i, a in enumerate(used):
+        for b in used[i + 1:]:
+            if a.elastic_modulus != b.elastic_modulus:
+                yield ModelSlip(f"moduli-swapped:{a.name}:{b.name}",
+                                f"the elastic moduli of '{a.name}' and '{b.name}' are swapped",
+                                partial(_swapped_moduli, model, a, b))
+
+
+# the shapes whose every dimension is a diameter
+_DIAMETER_SHAPES = ("round", "tube")
+
+
 def diameter_radius(model: Model, result: CaseResult) -> Iterator[ModelSlip]:
     """A diameter used as a radius (area 4 times too large), or a radius as a diameter."""
     sections = {}
     for seg in model.segments:
         for sec in seg.sections:
-            if sec.shape in _DIAMETERS:
+            if sec.shape in _DIAMETER_SHAPES:
                 sections.setdefault(sec.name, sec)
     for name in sections:
         yield ModelSlip(f"diameter-as-radius:{name}",
                         f"a diameter of section '{name}' is used as a radius (its area taken "
-                        "4 times too large)", _scaled_section(model, name, 2.0))
+                        "4 times too large)", partial(_scaled_section, model, name, 2.0))
     for name in sections:
         yield ModelSlip(f"radius-as-diameter:{name}",
                         f"a radius of section '{name}' is used as a diameter (its area taken "
-                        "4 times too small)", _scaled_section(model, name, 0.5))
+                        "4 times too small)", partial(_scaled_section, model, name, 0.5))
 
 
 # --- reading slips -------------------------------------------------------------

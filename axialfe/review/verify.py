@@ -38,10 +38,12 @@ class SlipFound:
 
 @dataclass(frozen=True)
 class ClaimReview:
-    """One claim's verdict and the slips that explain it when it differs."""
+    """One claim's verdict, the slips that explain it when it differs, and the number of
+    model slips a large model's review left untried."""
 
     verdict: Verdict
     slips: tuple[SlipFound, ...] = ()
+    untried: int = 0
 
     @property
     def claim(self) -> Claim:
@@ -61,7 +63,11 @@ class ClaimReview:
                        f"largest {claim.what.replace('_', ' ')} in the case, "
                        f"{number(v.floor / units.factor(key))} {getattr(units, key)}")
         if not v.agrees and not self.slips:
-            out.append("no common slip reproduces the claimed value")
+            out.append("no common slip reproduces the claimed value"
+                       + (" among those tried" if self.untried else ""))
+        if self.untried:
+            out.append(f"{self.untried} slips of single segments or stations were not tried: "
+                       "a review of a model this large solves a bounded number of slipped models")
         return out
 
     def to_dict(self, units: OutputUnits) -> dict:
@@ -107,51 +113,82 @@ class Review:
                 "agree": self.agree, "differ": self.differ}
 
 
-_UNSOLVED = object()
+class _Solver:
+    """Solves slipped models for one review: each once, and no more of them than a budget.
+
+    A hand calculation's model is small and every slip is tried.  A large model
+    has a slip per heated or misfit segment and per loaded station, each a full
+    solve: the budget bounds the work to about two million segment-solves (a few
+    seconds), and the claims whose slips were not all tried say so.
+    """
+
+    def __init__(self, model: Model):
+        size = len(model.segments) + len(model.stations)
+        self.budget = max(20, min(1000, 2_000_000 // max(size, 1)))
+        self.solved = {}
+
+    def solution(self, slip):
+        """The slipped model's solution, None when it has none, _UNTRIED past the budget."""
+        if slip.slip in self.solved:
+            return self.solved[slip.slip]
+        if len(self.solved) >= self.budget:
+            return _UNTRIED
+        try:
+            solution = solve(slip.build())
+        except (AxialfeError, FloatingPointError):
+            solution = None  # the slip leaves no equilibrium: it explains nothing
+        self.solved[slip.slip] = solution
+        return solution
+
+
+_UNTRIED = object()
+
+
+def _candidates(model, result):
+    """Every model slip that applies, in the documented order."""
+    out = []
+    for slip_fn in model_slips:
+        try:
+            out.extend(slip_fn(model, result))
+        except AxialfeError:  # a slip function that cannot describe its slip explains nothing
+            continue
+    return out
 
 
 def find_slips(model: Model, verdict: Verdict, solution: Solution,
-               solved: dict | None = None) -> tuple[SlipFound, ...]:
-    """The slips that reproduce a claimed value, in the documented order.
+               solver: _Solver | None = None) -> tuple[tuple[SlipFound, ...], int]:
+    """The slips that reproduce a claimed value, in the documented order, and how many
+    model slips were left untried by the review's budget.
 
-    ``solution`` is the model's own; ``solved`` caches the solutions of slipped
-    models by slip identifier (None for one that cannot be solved), shared
-    between the claims of one review.
+    Slips of the whole model are tried before slips of one item (a segment, a
+    station), so that a budget spent on a large model's items never leaves them
+    out; the slips found are listed in the documented order all the same.
     """
-    solved = {} if solved is None else solved
+    solver = solver or _Solver(model)
     claim = verdict.claim
-    result = solution[claim.case]
-    found = []
-    for slip_fn in model_slips:
-        for slip in _slipped_models(slip_fn, model, result):
-            solution = solved.get(slip.slip, _UNSOLVED)
-            if solution is _UNSOLVED:
-                try:
-                    solution = solve(slip.model)
-                except (AxialfeError, FloatingPointError):
-                    solution = None  # the slip leaves no equilibrium: it explains nothing
-                solved[slip.slip] = solution
-            if solution is None:
-                continue
-            try:
-                value = slip.value(claim, solution[claim.case])
-            except AxialfeError:
-                continue
-            if within(claim.value, value, claim.tolerance, verdict.floor):
-                found.append(SlipFound(slip.slip, slip.text, value))
+    candidates = _candidates(model, solution[claim.case])
+    order = sorted(range(len(candidates)), key=lambda i: (candidates[i].per_item, i))
+    found, untried = {}, 0
+    for i in order:
+        slip = candidates[i]
+        slipped = solver.solution(slip)
+        if slipped is _UNTRIED:
+            untried += 1
+            continue
+        if slipped is None:
+            continue
+        try:
+            value = slip.value(claim, slipped[claim.case])
+        except AxialfeError:
+            continue
+        if within(claim.value, value, claim.tolerance, verdict.floor):
+            found[i] = SlipFound(slip.slip, slip.text, value)
+    out = [found[i] for i in sorted(found)]
     for slip_fn in reading_slips:
         for slip in slip_fn(claim, verdict.computed):
             if within(claim.value, slip.value, claim.tolerance, verdict.floor):
-                found.append(SlipFound(slip.slip, slip.text, slip.value))
-    return tuple(found)
-
-
-def _slipped_models(slip_fn, model, result):
-    """The models of one slip function; one that cannot build its model ends there."""
-    try:
-        yield from slip_fn(model, result)
-    except AxialfeError:
-        return
+                out.append(SlipFound(slip.slip, slip.text, slip.value))
+    return tuple(out), untried
 
 
 def verify(model: Model, claims, solution: Solution | None = None) -> Review:
@@ -191,10 +228,10 @@ def verify(model: Model, claims, solution: Solution | None = None) -> Review:
     """
     claims = [check_claim(model, c) for c in claims]
     solution = solution if solution is not None else solve(model)
-    solved = {}
+    solver = _Solver(model)
     out = []
     for claim in claims:
         verdict = judge(claim, solution[claim.case])
-        slips = () if verdict.agrees else find_slips(model, verdict, solution, solved)
-        out.append(ClaimReview(verdict, slips))
+        slips, untried = ((), 0) if verdict.agrees else find_slips(model, verdict, solution, solver)
+        out.append(ClaimReview(verdict, slips, untried))
     return Review(model, tuple(out))
