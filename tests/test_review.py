@@ -9,6 +9,7 @@ section numbering); the numbers of each problem are our own.
 import math
 
 import pytest
+from hypothesis import assume, given, strategies as st
 
 from axialfe.engine.system import solve
 from axialfe.errors import ModelError
@@ -108,6 +109,17 @@ def test_unit_slips(factor, slip):
     assert slips_of(HEATED, Claim("displacement", "C", factor * u * 1.004)) == [slip]
     if factor > 1:
         assert slips_of(HEATED, Claim("reaction", "A", factor * R_HEATED * 1.004)) == [slip]
+
+
+def test_a_stress_with_the_area_in_the_wrong_unit():
+    # sigma = N/A with A = 500 mm^2 used as if it were 500 m^2: 10^-6 of the stress (and
+    # about zero, as AC carries nothing with the support at A taken as free)
+    stress = solve(HEATED)["base"].stress[0, 0]
+    (item,) = review_of(HEATED, Claim("stress", "AC", stress * 1e-6))
+    assert [(s.slip, s.text) for s in item.slips] == [
+        ("free-support:A", "the support at 'A' is treated as free"), (
+        "units-1e-6", "the value is 10^-6 of the computed one: a unit slip (a number in MPa "
+        "written as Pa, or an area in mm^2 used as if in m^2)")]
 
 
 def test_a_small_claim_is_about_zero():
@@ -501,3 +513,28 @@ def test_bad_tolerance():
         Tolerance(relative=0.01, absolute=1.0)
     assert str(info.value) == ("tolerance: a tolerance is either relative ('1 %') or absolute "
                                "('0.01 mm')")
+
+
+# --- property: a slip worked by hand is always among the slips found ----------------------
+@given(dT=st.floats(5.0, 80.0), delta=st.floats(0.02e-3, 0.5e-3), p=st.floats(1e3, 50e3),
+       a_=st.floats(0.2, 0.8), which=st.sampled_from(["no-temperature", "temperature-sign",
+                                                       "no-misfit:AC", "misfit-sign:AC",
+                                                       "load-sign:C", "free-support:B"]))
+def test_a_slip_built_by_hand_is_found(dT, delta, p, a_, which):
+    # the slipped model is built here directly, not by the slip's own function
+    mat, sec = steel(E=E, alpha=ALPHA), area("a500", A)
+
+    def model(dT=dT, delta=delta, p=p, supports=(Support("A"), Support("B"))):
+        return Model((Station("A", 0.0), Station("C", a_), Station("B", L)),
+                     (Segment("AC", "A", "C", mat, sec, temperature_change=dT, misfit=delta),
+                      Segment("CB", "C", "B", mat, sec, temperature_change=dT)),
+                     supports, (Load("C", p),))
+
+    slipped = {"no-temperature": model(dT=0.0), "temperature-sign": model(dT=-dT),
+               "no-misfit:AC": model(delta=0.0), "misfit-sign:AC": model(delta=-delta),
+               "load-sign:C": model(p=-p), "free-support:B": model(supports=(Support("A"),))}
+    right = solve(model())["base"].force("AC")[0]
+    value = solve(slipped[which])["base"].force("AC")[0]
+    assume(abs(value - right) > 0.02 * max(abs(value), abs(right)))
+    assert agrees(model(), Claim("axial_force", "AC", right))
+    assert which in slips_of(model(), Claim("axial_force", "AC", value))

@@ -409,9 +409,9 @@ _UNIT_SLIPS = (
     (1e-3, "units-1e-3", "the value is 1/1000 of the computed one: a unit slip (a number in kN "
                          "written as N, or in m as mm)"),
     (1e6, "units-1e6", "the value is 10^6 times the computed one: a unit slip (a number in Pa "
-                       "written as MPa, or in mm^2 as m^2)"),
+                       "written as MPa, or an area in m^2 used as if in mm^2)"),
     (1e-6, "units-1e-6", "the value is 10^-6 of the computed one: a unit slip (a number in MPa "
-                         "written as Pa, or in m^2 as mm^2)"),
+                         "written as Pa, or an area in mm^2 used as if in m^2)"),
 )
 
 
