@@ -211,6 +211,25 @@ def test_settlement_of_a_case_left_out():
     assert slips_of(model, Claim("reaction", "A", -P * b / L)) == ["no-settlement:B"]
 
 
+def test_claims_on_a_combination():
+    # the heated bar's load and temperature as two cases and their combination
+    from axialfe.model import Combination
+
+    base = bar()
+    model = Model(base.stations, base.segments, base.supports, (),
+                  cases=(Case("load", (Load("C", P),)), Case("heat", temperature_change=(("all", 30.0),))),
+                  combinations=(Combination("both", (("load", 1.0), ("heat", 1.0))),))
+    assert agrees(model, Claim("reaction", "A", thermal_reaction(30.0, 30.0), case="both"))
+    assert slips_of(model, Claim("reaction", "A", thermal_reaction(0, 0), case="both")) == [
+        "no-temperature"]
+    assert slips_of(model, Claim("reaction", "A", thermal_reaction(30.0, 30.0, -P),
+                                 case="both")) == ["load-sign:C"]
+    with pytest.raises(ModelError) as info:
+        verify(model, [Claim("reaction", "A", 1.0)])
+    assert str(info.value) == ("claims: the model has several cases: give 'case'; expected one "
+                               "of: 'load', 'heat', 'both'")
+
+
 # --- gaps -----------------------------------------------------------------------------
 # Gere and Goodno, 8th ed., 2.4 (a bar with a gap to a wall; from memory): the end
 # closes a clearance s once P*a/(E*A) > s, and then N_AC = P*b/L + E*A*s/L
