@@ -249,6 +249,13 @@ def test_solve_shows_claims_only_when_there_are_some(tmp_path):
     assert data["claims"][0]["verdict"] == "agrees" and (data["agree"], data["differ"]) == (1, 0)
     md = runner.invoke(app, ["solve", str(stated), "-f", "markdown"]).output
     assert "## Review of the stated values" in md
+    plain_csv = runner.invoke(app, ["solve", str(plain), "-f", "csv"]).output
+    assert ",claim," not in plain_csv
+    rows = runner.invoke(app, ["solve", str(stated), "-f", "csv"]).output.splitlines()
+    assert [r for r in rows if ",claim," in r] == [
+        "base,claim,A,reaction claimed,,24000.0,N",
+        f"base,claim,A,reaction computed,,{data['claims'][0]['computed']!r},N",
+        "base,claim,A,reaction verdict,,agrees,0.5 %"]
 
 
 def test_report_has_a_review_section_only_with_claims(tmp_path):

@@ -14,7 +14,7 @@ from ..formatting import number
 from ..review.claims import DISPLAY
 from ..units import OutputUnits
 
-__all__ = ["REVIEW_TITLE", "REVIEW_CAUTION", "review_rows", "review_lines", "review_table", "review_json",
+__all__ = ["REVIEW_TITLE", "REVIEW_CAUTION", "review_rows", "review_csv_rows", "review_lines", "review_table", "review_json",
            "review_markdown", "review_html"]
 
 REVIEW_TITLE = "review of the stated values"
@@ -42,6 +42,24 @@ def review_rows(review, units: OutputUnits) -> list[list[str]]:
                      f"{number(item['difference'])} {unit}",
                      "-" if rel is None else f"{number(rel * 100)} %",
                      item["tolerance"], item["verdict"], item["source"] or ""])
+    return rows
+
+
+def review_csv_rows(review, units: OutputUnits) -> list[list[str]]:
+    """Rows of the long CSV table of a solution: for each claim its claimed and computed
+    value, its verdict, and each slip found (item ``claim``, name = where it is stated)."""
+    rows = []
+    for item in review.to_dict(units)["claims"]:
+        unit = getattr(units, DISPLAY[item["what"]])
+        end = item["end"] or ""
+        rows += [[item["case"], "claim", item["at"], f"{item['what']} claimed", end,
+                  repr(item["claimed"]), unit],
+                 [item["case"], "claim", item["at"], f"{item['what']} computed", end,
+                  repr(item["computed"]), unit],
+                 [item["case"], "claim", item["at"], f"{item['what']} verdict", end,
+                  item["verdict"], item["tolerance"]]]
+        rows += [[item["case"], "claim", item["at"], f"{item['what']} slip {s['slip']}", end,
+                  repr(s["value"]), unit] for s in item["slips"]]
     return rows
 
 

@@ -145,8 +145,9 @@ def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
     return json.dumps(data, indent=2) + "\n"
 
 
-def to_csv(solution: Solution, units: OutputUnits | None = None) -> str:
-    """One long table: case, item, name, quantity, position, value, unit."""
+def to_csv(solution: Solution, units: OutputUnits | None = None, review=None) -> str:
+    """One long table: case, item, name, quantity, position, value, unit (with the stated
+    values of ``review``, a Review, when given)."""
     units = units or solution.model.units
     data = solution.to_dict(units)
     u = data["units"]
@@ -177,6 +178,10 @@ def to_csv(solution: Solution, units: OutputUnits | None = None) -> str:
             w.writerow([c, "gap", g["name"], "opening", "", repr(g["opening"]), u["displacement"]])
             w.writerow([c, "gap", g["name"], "force", "", repr(g["force"]), u["force"]])
         w.writerow([c, "case", c, "equilibrium_residual", "", repr(case["equilibrium_residual"]), "1"])
+    if review is not None:  # --- stated values (axialfe.review) ---
+        from .reviewtext import review_csv_rows
+
+        w.writerows(review_csv_rows(review, units))
     return buf.getvalue()
 
 
@@ -222,7 +227,7 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
     when given.
     """
     if fmt == "csv":
-        return to_csv(solution, units)
+        return to_csv(solution, units, review=review)
     if checks is None:
         from ..checks import check_solution
 
