@@ -170,10 +170,10 @@ def _closed_gap(model: Model, gap: Gap) -> Model:
                 / abs(x[seg.end] - x[seg.start]) for seg in model.segments)
     stations, ends = base.stations, [(a, b)]
     if x[a] == x[b]:
-        helper = f"{gap.name}~link"
-        x[helper] = x[a] + 1e-3 * span
-        stations = stations + (Station(helper, x[helper]),)
-        ends = [(a, helper), (helper, b)]
+        beside = f"{gap.name}~link"
+        x[beside] = x[a] + 1e-3 * span
+        stations = stations + (Station(beside, x[beside]),)
+        ends = [(a, beside), (beside, b)]
     links = []
     for n, (p, q) in enumerate(ends):
         e = 1.0 if x[q] > x[p] else -1.0
