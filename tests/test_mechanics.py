@@ -175,3 +175,14 @@ def test_sweep_yield_event_follows_a_moving_peak():
     assert dense_peak(event.value) == pytest.approx(250e6, rel=1e-9)
     assert dense_peak(event.value * (1 - 1e-6)) < 250e6
     assert np.abs(solved(event.value)["base"].stress[0]).max() < 0.9 * 250e6  # the ends lag
+
+
+def test_a_claim_of_the_largest_stress_includes_the_inside_of_a_taper():
+    # the stated peak of the loaded cone (-1e8/pi Pa at x = 2/3 m) agrees; its end
+    # value (-30 kN / (pi/4 * (40 mm)^2) = -23.87 MPa) differs from the peak
+    from axialfe.review.claims import _along
+
+    case = solve(cone())["base"]
+    assert _along(case, "stress", 0, "max") == pytest.approx(-1e8 / math.pi, rel=1e-12)
+    assert _along(case, "stress", 0, "from") == pytest.approx(-30e3 / (math.pi / 4 * 0.04**2))
+    assert _along(case, "axial_force", 0, "max") == pytest.approx(-30e3, rel=1e-12)

@@ -101,6 +101,15 @@ def load(path, force=None, length=None, displacement=None, stress=None):
     return model, output_units(model, force, length, displacement, stress)
 
 
+def stated_values(path, model, solution):
+    """The review of the values the model file states ([[claims]]), or None when it states none."""
+    from ..io.claims import read_claims
+    from ..review import verify
+
+    claims = read_claims(path, model)
+    return verify(model, claims, solution) if claims else None
+
+
 def emit(text: str, output: Path | None):
     if output is None:
         typer.echo(text, nl=False)
@@ -126,7 +135,8 @@ def solve(model: ModelPath,
     with user_errors():
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
-        emit(render(solution, format.value, units), output)
+        emit(render(solution, format.value, units, review=stated_values(model, m, solution)),
+             output)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
 
@@ -434,7 +444,8 @@ def report(model: ModelPath,
             write_fit_report(result, output, fmt, units)
         else:
             m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
-            write_report(run(m), output, fmt, units)
+            solution = run(m)
+            write_report(solution, output, fmt, units, review=stated_values(model, m, solution))
         typer.echo(f"wrote {output}", err=True)
 
 
@@ -475,6 +486,32 @@ def _solved_fit(path, force=None, length=None, stress=None, torque=None):
                 raise UnitError(f"--{key}-unit: {exc.message}") from None
             base[key] = value
     return solve_fit(spec), FitUnits(**base)
+
+
+@app.command("verify")
+def verify_claims(model: ModelPath,
+                  format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
+                  output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+                  displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+    """Check the values a hand calculation states ([[claims]], claims_file) against the model.
+
+    Each claim gets the computed value, the difference and a verdict, agrees or
+    differs; for each that differs, the common slips that reproduce it.  Exit
+    code 0 when every claim agrees, 1 when any differs, 2 for bad input.
+    """
+    from ..errors import ModelError
+    from ..output.reviewtext import review_json, review_table
+    from ..engine.system import solve as run
+
+    with user_errors():
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
+        review = stated_values(model, m, run(m))
+        if review is None:
+            raise ModelError("the model states no values to verify: add [[claims]] or "
+                             "claims_file", file=str(model))
+        text = (review_json if format is CheckFormat.json else review_table)(review, units)
+        emit(text, output)
+    raise typer.Exit(review.exit_code)
 
 
 def main():

@@ -24,7 +24,8 @@ from ..units import OutputUnits, parse_quantity, split_quantity
 __all__ = ["read_model", "parse_model", "builtin_materials"]
 
 _TOP_KEYS = ("title", "settings", "units", "materials", "sections", "stations", "segments",
-             "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols")
+             "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols",
+             "claims", "claims_file")  # the last two: stated values, read by io.claims
 _KEYS = {
     "settings": ("reference_temperature", "temperature_change", "temperature", "gravity"),
     "units": ("system", "force", "length", "displacement", "stress"),

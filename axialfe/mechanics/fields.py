@@ -170,6 +170,13 @@ class Fields:
             [np.zeros((len(self.length), 1)), np.cumsum(parts, axis=1)], axis=1)
 
     # --- extremes -----------------------------------------------------------
+    def force_peak(self):
+        """The axial force of largest magnitude in each segment and where it is (as
+        :meth:`stress_peak`): the ends, or a root of N'(t) inside."""
+        f = self.force
+        num = np.column_stack([f[:, 1], 2 * f[:, 2], 3 * f[:, 3], np.zeros(len(f)), np.zeros(len(f))])
+        return self._peak(num, (f[:, 2] != 0) | (f[:, 3] != 0), self.axial_force)
+
     def stress_peak(self):
         """The stress of largest magnitude in each segment and where it is.
 
@@ -195,13 +202,19 @@ class Fields:
         for i in range(4):
             for j in range(2):
                 num[:, i + j] -= f[:, i] * da[:, j]
+        varying = (a[:, 1] != 0) | (a[:, 2] != 0) | (f[:, 2] != 0) | (f[:, 3] != 0)
+        return self._peak(num, varying, self.stress)
+
+    def _peak(self, num, varying, values):
+        """The value of ``values(t)`` of largest magnitude over the ends and the roots in
+        (0, 1) of the polynomials ``num`` (rows where ``varying``)."""
+        m = len(self.length)
         candidates = np.full((m, 6), np.nan)
         candidates[:, 0], candidates[:, 1] = 0.0, 1.0
-        varying = (a[:, 1] != 0) | (a[:, 2] != 0) | (f[:, 2] != 0) | (f[:, 3] != 0)
         if varying.any():
             candidates[varying, 2:] = _real_roots_in_unit(num[varying])
         t = np.where(np.isnan(candidates), 0.0, candidates)
-        sigma = np.where(np.isnan(candidates), 0.0, self.stress(t))
+        sigma = np.where(np.isnan(candidates), 0.0, values(t))
         size = np.abs(sigma)
         best = size.max(axis=1)
         # of the candidates within rounding of the largest magnitude, the one of least x

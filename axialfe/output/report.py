@@ -4,8 +4,9 @@ Sections, in order: the job, the assumptions, an echo of the input, the results
 of each case, a calculation sheet per case (each segment's elongation split into
 N*L/(E*A), alpha*dT*L and misfit, summed and compared with the relative
 displacement of its end stations; each station's displacement in words), the
-design checks with the governing case, the diagrams (inline SVG), and the
-cautions.  Every text that comes from the model is escaped; the file needs no
+design checks with the governing case, the review of the stated values (only
+when the model states values, ``[[claims]]``), the diagrams (inline SVG), and
+the cautions.  Every text that comes from the model is escaped; the file needs no
 network and no other file.
 """
 
@@ -367,7 +368,7 @@ def _station_word_rows(result, units):
 
 
 def build_html(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
-               checks=None) -> str:
+               checks=None, review=None) -> str:
     """The report as one self-contained HTML document.
 
     Parameters
@@ -379,6 +380,9 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
         ISO date shown under the title (default: today).
     checks : CheckReport, optional
         Computed when not given.
+    review : Review, optional
+        The review of the model's stated values (:mod:`axialfe.review`): a
+        section of its own after the checks, when given.
     """
     from ..checks import check_solution
 
@@ -438,6 +442,11 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
     out.append(f'<p id="governing"><strong>Governing check:</strong> '
                f"{_e(_governing_text(checks))}. Overall: {_e(checks.status)}.</p>")
     out.append(f"<p>Basis: {_e(checks.settings_text())}.</p></section>")
+    if review is not None:  # --- stated values (axialfe.review) ---
+        from .reviewtext import REVIEW_TITLE, review_html
+
+        out.append(f'<section id="review"><h2>{REVIEW_TITLE[0].upper()}{REVIEW_TITLE[1:]}</h2>'
+                   f"{review_html(review, units)}</section>")
     section("diagrams")
     for n, result in enumerate(solution.cases):
         out.append(f'<figure id="diagram-{n}">{_svg(result, units)}'
@@ -465,7 +474,7 @@ def _md_table(headers, rows) -> list[str]:
 
 
 def build_markdown(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
-                   checks=None) -> str:
+                   checks=None, review=None) -> str:
     """The report as one Markdown document (diagrams as embedded base64 PNG)."""
     from ..checks import check_solution
 
@@ -505,6 +514,10 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
         out += _md_table(_CHECK_HEADERS, [_check_cells(e, units) for e in case])
     out += [f"**Governing check:** {_md(_governing_text(checks))}. Overall: {checks.status}.", "",
             f"Basis: {_md(checks.settings_text())}.", ""]
+    if review is not None:  # --- stated values (axialfe.review) ---
+        from .reviewtext import review_markdown
+
+        out += review_markdown(review, units)
     out += [f"## {_TITLES['diagrams']}", ""]
     for n, result in enumerate(solution.cases):
         out += [f"![diagram {n + 1}: axial force, stress and displacement, case "
@@ -514,12 +527,14 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
 
 
 def write_report(solution: Solution, path, fmt: str | None = None,
-                 units: OutputUnits | None = None, date: str | None = None) -> Path:
-    """Write the report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None)."""
+                 units: OutputUnits | None = None, date: str | None = None,
+                 review=None) -> Path:
+    """Write the report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None), with the
+    review of the stated values when ``review`` is given."""
     path = Path(path)
     fmt = report_format(path, fmt)
     build = build_html if fmt == "html" else build_markdown
-    text = build(solution, units, date)
+    text = build(solution, units, date, review=review)
     try:
         path.write_text(text, encoding="utf-8")
     except OSError as exc:

@@ -94,8 +94,10 @@ def summary_line(model) -> str:
     return ", ".join(parts)
 
 
-def to_table(solution: Solution, units: OutputUnits | None = None, checks=None) -> str:
-    """The readable terminal report (with the checks of ``checks``, a CheckReport, when given)."""
+def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
+             review=None) -> str:
+    """The readable terminal report (with the checks of ``checks``, a CheckReport, and the
+    review of stated values ``review``, when given)."""
     units = units or solution.model.units
     data = solution.to_dict(units)
     model = solution.model
@@ -122,24 +124,33 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None) 
     if checks is not None:
         out += _governing_lines(checks, units)
         out.append("")
+    if review is not None:  # --- stated values (axialfe.review) ---
+        from .reviewtext import review_lines
+
+        out += review_lines(review, units) + [""]
     out.append("cautions:")
     out += [f" - {c}" for c in CAUTIONS]
     return "\n".join(out) + "\n"
 
 
-def to_json(solution: Solution, units: OutputUnits | None = None, checks=None) -> str:
+def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
+            review=None) -> str:
     units = units or solution.model.units
     data = solution.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
         for case in data["cases"]:
             case["checks"] = [e.to_dict(units) for e in checks.case(case["name"])]
         data["governing"] = checks.governing_dict()
+    if review is not None:  # --- stated values (axialfe.review) ---
+        reviewed = review.to_dict(units or solution.model.units)
+        data.update({k: reviewed[k] for k in ("claims", "agree", "differ")})
     data["cautions"] = list(CAUTIONS)
     return json.dumps(data, indent=2) + "\n"
 
 
-def to_csv(solution: Solution, units: OutputUnits | None = None) -> str:
-    """One long table: case, item, name, quantity, position, value, unit."""
+def to_csv(solution: Solution, units: OutputUnits | None = None, review=None) -> str:
+    """One long table: case, item, name, quantity, position, value, unit (with the stated
+    values of ``review``, a Review, when given)."""
     units = units or solution.model.units
     data = solution.to_dict(units)
     u = data["units"]
@@ -170,6 +181,10 @@ def to_csv(solution: Solution, units: OutputUnits | None = None) -> str:
             w.writerow([c, "gap", g["name"], "opening", "", repr(g["opening"]), u["displacement"]])
             w.writerow([c, "gap", g["name"], "force", "", repr(g["force"]), u["force"]])
         w.writerow([c, "case", c, "equilibrium_residual", "", repr(case["equilibrium_residual"]), "1"])
+    if review is not None:  # --- stated values (axialfe.review) ---
+        from .reviewtext import review_csv_rows
+
+        w.writerows(review_csv_rows(review, units))
     return buf.getvalue()
 
 
@@ -177,7 +192,8 @@ def _md_escape(text) -> str:
     return str(text).replace("|", "\\|")
 
 
-def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=None) -> str:
+def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=None,
+                review=None) -> str:
     units = units or solution.model.units
     data = solution.to_dict(units)
     out = [f"# {_md_escape(data['title'])}", "",
@@ -198,25 +214,31 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
     if checks is not None:
         out += ["**Governing check:** " + _md_escape(_governing_text(checks)), "",
                 "Basis: " + checks.settings_text() + ".", ""]
+    if review is not None:  # --- stated values (axialfe.review) ---
+        from .reviewtext import review_markdown
+
+        out += review_markdown(review, units)
     out += ["## Cautions", ""] + [f"- {c}" for c in CAUTIONS]
     return "\n".join(out) + "\n"
 
 
 def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None,
-           checks=None) -> str:
+           checks=None, review=None) -> str:
     """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
 
     The table, JSON and Markdown forms carry the design checks: ``checks`` (a
-    :class:`~axialfe.checks.CheckReport`), computed here when not given.
+    :class:`~axialfe.checks.CheckReport`), computed here when not given, and the
+    review of the model's stated values (``review``, an :class:`axialfe.review.Review`)
+    when given.
     """
     if fmt == "csv":
-        return to_csv(solution, units)
+        return to_csv(solution, units, review=review)
     if checks is None:
         from ..checks import check_solution
 
         checks = check_solution(solution, units)
     return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
-        solution, units, checks=checks)
+        solution, units, checks=checks, review=review)
 
 
 # --- design checks (axialfe.checks) -----------------------------------------
