@@ -97,6 +97,19 @@ class _Locator:
                 return found
         return start + 1
 
+    def table_keys(self, table) -> dict:
+        """The 1-based line of every key of table ``table``, in one pass."""
+        span = self._span(table, None)
+        if span is None:
+            return {}
+        pattern = re.compile(r"^\s*[\"']?([^\"'=]+?)[\"']?\s*=")
+        out = {}
+        for i in range(span[0] + 1, span[1]):
+            m = pattern.match(self.lines[i])
+            if m:
+                out.setdefault(m.group(1).strip(), i + 1)
+        return out
+
     def _key_line(self, start, stop, key):
         pattern = re.compile(r"^\s*[\"']?" + re.escape(str(key)) + r"[\"']?\s*=")
         inline = re.compile(r"[{,]\s*[\"']?" + re.escape(str(key)) + r"[\"']?\s*=")
@@ -552,20 +565,20 @@ class _Reader:
                          temperature_change=default_dt, gravity=gravity,
                          reference_temperature=reference, units=units, title=str(title),
                          source=self.source, checks=checks, limits=tuple(limits),
-                         symbols=tuple(self.symbols.values()), locate=self.locate_name)
+                         symbols=tuple(self.symbols.values()), lines=self.name_lines())
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
 
-    def locate_name(self, key: str) -> int | None:
-        """The line of ``'stations.<name>'`` or ``'gaps.<name>'`` (for solver messages)."""
-        table, _, name = key.partition(".")
-        if table == "stations":
-            return self.line("stations", None, name)
-        if table == "gaps":
-            for i, entry in enumerate(self.data.get("gaps", []), 1):
-                if isinstance(entry, dict) and entry.get("name") == name:
-                    return self.line("gaps", i)
-        return None
+    def name_lines(self) -> dict:
+        """The lines of ``'stations.<name>'`` and ``'gaps.<name>'`` (for solver messages),
+        found in one pass over the stations table."""
+        if self.locator is None:
+            return {}
+        lines = {f"stations.{k}": v for k, v in self.locator.table_keys("stations").items()}
+        for i, entry in enumerate(self.data.get("gaps", []), 1):
+            if isinstance(entry, dict) and isinstance(entry.get("name"), str):
+                lines.setdefault(f"gaps.{entry['name']}", self.line("gaps", i))
+        return lines
 
     def _line_of_place(self, place):
         if not place:

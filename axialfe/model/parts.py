@@ -473,8 +473,9 @@ class Model:
     title : str
     source : str, optional
         The model file's name, for messages.
-    locate : callable, optional
-        Maps ``'stations.<name>'`` or ``'gaps.<name>'`` to its file line (set by the reader).
+    lines : dict, optional
+        The file line of ``'stations.<name>'`` and ``'gaps.<name>'`` (set by the
+        reader): plain data, so a model can be pickled and sent to workers.
     symbols : tuple of SymbolDef
         The symbols declared in the file's ``[symbols]`` (closed form).  A
         model read with ``symbolic=True`` holds sympy expressions of them in
@@ -502,7 +503,7 @@ class Model:
     source: str | None = None
     checks: CheckSettings = field(default_factory=CheckSettings)
     limits: tuple[Limit, ...] = ()
-    locate: object = field(default=None, compare=False, repr=False)
+    lines: dict = field(default_factory=dict, compare=False, repr=False)
     # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
     symbols: tuple = ()
 
@@ -597,7 +598,7 @@ class Model:
     # --- look-ups -------------------------------------------------------
     def line_of(self, key: str) -> int | None:
         """The file line of ``'stations.<name>'`` or ``'gaps.<name>'``, when read from a file."""
-        return self.locate(key) if callable(self.locate) else None
+        return self.lines.get(key)
 
     def station_index(self, name: str) -> int:
         """Return the position of station ``name`` in :attr:`stations`."""

@@ -345,7 +345,7 @@ def used_symbols(model: Model) -> set:
             used |= {s.name for s in obj.free_symbols}
         elif dataclasses.is_dataclass(obj) and not isinstance(obj, type):
             stack.extend(getattr(obj, f.name) for f in dataclasses.fields(obj)
-                         if f.name not in ("symbols", "locate"))
+                         if f.name not in ("symbols", "lines"))
         elif isinstance(obj, tuple):
             stack.extend(obj)
     return used
