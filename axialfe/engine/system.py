@@ -58,7 +58,7 @@ class System:
         self.model = model
         self.asm = asm = asm if asm is not None else assemble(model)
         n = asm.n
-        self.x = np.array([st.x for st in model.stations], dtype=float)
+        self.x = model.arrays.x
         self.cons = cons = unilateral(model, n)
         self.dofs = dofs = degrees_of_freedom(model, asm.start, asm.end, cons)
         self.K = asm.K + sp.diags(np.bincount(dofs.spring_at, dofs.spring_k, minlength=n)

@@ -50,9 +50,7 @@ class LoadState:
 
 
 def _own_temperatures(model: Model) -> np.ndarray:
-    default = model.temperature_change or 0.0
-    return np.fromiter((default if s.temperature_change is None else s.temperature_change
-                        for s in model.segments), dtype=float, count=len(model.segments))
+    return np.array(model.arrays.temperature_change)
 
 
 def _case_overrides(model: Model, case: Case):
