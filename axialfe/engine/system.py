@@ -480,5 +480,8 @@ def solve(model: Model) -> Solution:
     >>> [round(case.reaction(s), 9) for s in ("A", "B")]  # -P*b/L, -P*a/L
     [-6000.0, -3000.0]
     """
+    from .preload import resolve_preloads  # a preload is a force: find its misfit first
+
+    model = resolve_preloads(model)
     system = System(model)
     return Solution(model, tuple(system.solve_state(s) for s in load_states(model)))

@@ -34,7 +34,7 @@ _KEYS = {
                 "width", "height", "area", "second_moment"),
     "segment": ("name", "from", "to", "material", "section", "end_section", "temperature_change",
                 "temperature", "misfit", "distributed_load", "buckling_length",
-                "effective_length_factor"),
+                "effective_length_factor", "preload"),
     "support": ("at", "kind", "stiffness", "displacement"),
     "load": ("at", "force"),
     "gap": ("name", "between", "at", "side", "clearance", "kind"),
@@ -400,6 +400,14 @@ class _Reader:
                                 key="effective_length_factor", place=place)
                     if "effective_length_factor" in entry else None),
             }
+            if "preload" in entry:  # a force; the solver turns it into a misfit
+                if "misfit" in entry:
+                    self.fail("give 'misfit' or 'preload', not both", table, i, "preload",
+                              place=place)
+                if self.symbolic:
+                    self.fail("preload: the closed form takes a 'misfit', not a preload", table,
+                              i, "preload", place=place)
+                kwargs["preload"] = qs(entry["preload"], "force", key="preload")
             if not isinstance(kwargs["name"], str):
                 self.fail("name: expected a name in quotes", table, i, "name", place=place)
             if (gravity and materials[mat_name].density is None):
@@ -532,14 +540,15 @@ class _Reader:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
 
     def locate_name(self, key: str) -> int | None:
-        """The line of ``'stations.<name>'`` or ``'gaps.<name>'`` (for solver messages)."""
+        """The line of ``'stations.<name>'``, ``'gaps.<name>'`` or ``'segments.<name>'``."""
         table, _, name = key.partition(".")
         if table == "stations":
             return self.line("stations", None, name)
-        if table == "gaps":
-            for i, entry in enumerate(self.data.get("gaps", []), 1):
-                if isinstance(entry, dict) and entry.get("name") == name:
-                    return self.line("gaps", i)
+        if table in ("gaps", "segments"):
+            for i, entry in enumerate(self.data.get(table, []), 1):
+                if isinstance(entry, dict) and entry.get("name", f"{entry.get('from')}-"
+                                                         f"{entry.get('to')}") == name:
+                    return self.line(table, i)
         return None
 
     def _line_of_place(self, place):
