@@ -8,6 +8,7 @@ model file: every error is one line naming the file, the line and the place.
 
 from __future__ import annotations
 
+import re
 import tomllib
 from pathlib import Path
 
@@ -259,12 +260,14 @@ class _JointReader(_Reader):
         try:
             return Joint(**kwargs)
         except ModelError as exc:
-            table = (exc.place or "").split("[")[0].split(" ")[0] or None
+            m = re.match(r"(\w+)(?:\[(\d+)\])?", exc.place or "")
+            table = m.group(1) if m and m.group(1) in _KEYS else None
+            index = int(m.group(2)) if m and m.group(2) else None
             key = next((k for k in ("thread_length", "length", "into", "preload",
                                     "safety_factor", "minimum_clamp_force")
                         if exc.message.startswith(k)), None)
             raise ModelError(exc.message, place=exc.place, file=self.source,
-                             line=self.line(table if table in _KEYS else None, None, key),
+                             line=self.line(table, index, key) if table else None,
                              hint=exc.hint, options=exc.options) from exc
 
 
@@ -280,8 +283,6 @@ def parse_joint(text: str, source: str | None = None) -> Joint:
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        import re
-
         m = re.search(r"line (\d+)", str(exc))
         raise ModelError(f"not valid TOML: {exc}", file=source,
                          line=int(m.group(1)) if m else None) from exc

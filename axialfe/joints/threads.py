@@ -112,8 +112,10 @@ def thread(designation: str) -> Thread:
         d = float(m.group(1))
         key = int(d) if d == int(d) else d
         if key not in METRIC_COARSE:
-            raise ModelError(f"unknown metric size 'M{m.group(1)}' (ISO 261 coarse M3 to M64)",
-                             hint=_close(f"M{m.group(1)}", [f"M{k}" for k in METRIC_COARSE]))
+            near = sorted(METRIC_COARSE, key=lambda k: (abs(k - d), k))[:2]
+            a, b = sorted(near)
+            raise ModelError(f"unknown metric size 'M{m.group(1)}' (ISO 261 coarse M3 to M64); "
+                             f"the nearest sizes are 'M{a:g}' and 'M{b:g}'")
         coarse = METRIC_COARSE[key]
         if m.group(2) is None:
             return Thread(text, "metric", d * 1e-3, coarse * 1e-3)
@@ -139,6 +141,3 @@ def thread(designation: str) -> Thread:
     raise ModelError(f"cannot read the thread size '{designation}': give e.g. 'M10', "
                      "'M10x1.25' or '3/8-16 UNC'")
 
-
-def _close(name, options):
-    return suggest(name, options)
