@@ -441,3 +441,52 @@ def test_joint_sweep_json():
     result = runner.invoke(app, ["joint", str(EXAMPLE), "--sweep", "-40..150"])
     assert result.exit_code == 2
     assert result.stderr == "error: --sweep: '-40..150' has no unit: give e.g. '-40 K..120 K'\n"
+
+
+# --- the joint diagram and the report --------------------------------------------
+def test_joint_diagram_lines_are_the_classic_triangle():
+    from axialfe.joints.joint import diagram_lines
+
+    j = read_joint(EXAMPLE)
+    result = solve_joint(j)
+    C = j.joint_constant
+    for line, state in zip(diagram_lines(result), result.states):
+        P0, Psep, Ptop = line.loads
+        assert (P0, Psep) == (0.0, state.separation_load)
+        F0 = j.preload + state.thermal_change
+        assert line.bolt[0] == pytest.approx(F0, rel=1e-9)
+        assert line.clamp[0] == pytest.approx(F0, rel=1e-9)
+        # bolt slope C, clamp slope -(1 - C) up to separation; then the bolt carries P alone
+        assert line.bolt[1] == pytest.approx(F0 + C * Psep, rel=1e-9)
+        assert line.bolt[1] == pytest.approx(Psep, rel=1e-9)
+        assert line.clamp[1] == pytest.approx(0.0, abs=1e-6 * F0)
+        assert (line.bolt[2], line.clamp[2]) == (pytest.approx(Ptop, rel=1e-9), 0.0)
+
+
+def test_joint_report_through_the_command_line(tmp_path):
+    html_path, md_path, png = tmp_path / "joint.html", tmp_path / "joint.md", tmp_path / "jd.png"
+    result = runner.invoke(app, ["report", str(EXAMPLE), "-o", str(html_path)])
+    assert result.exit_code == 0, result.output
+    text = html_path.read_text()
+    for part in ('<section id="checks">', '<section id="diagrams">', "Joint diagram",
+                 "Governing check:", "frustum cones", "licensed professional engineer"):
+        assert part in text
+    assert text.count("<svg") == 1 + 3  # the joint diagram and one force diagram per state
+    assert 'src="http' not in text and "<link" not in text and "<script" not in text
+    assert runner.invoke(app, ["report", str(EXAMPLE), "-o", str(md_path)]).exit_code == 0
+    assert md_path.read_text().count("data:image/png;base64,") == 4
+    from axialfe.output.jointplot import plot_joint
+
+    plot_joint(solve_joint(read_joint(EXAMPLE)), png)
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+@pytest.mark.parametrize("path", sorted(EXAMPLE.parent.glob("*.toml")), ids=lambda p: p.stem)
+def test_every_joint_example_runs(path):
+    assert path.read_text(encoding="utf-8").lstrip().startswith("#")  # commented
+    result = runner.invoke(app, ["joint", str(path)])
+    assert result.exit_code in (0, 1, 3), result.output
+    assert result.stdout.startswith(f"axialfe joint: {read_joint(path).title}\n")
+    assert "cautions:" in result.stdout
+    data = json.loads(runner.invoke(app, ["joint", str(path), "--format", "json"]).stdout)
+    assert data["states"][0]["name"] == "assembly"

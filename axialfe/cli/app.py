@@ -386,6 +386,17 @@ def report(model: ModelPath,
 
     with user_errors():
         fmt = report_format(output, format.value if format else None)
+        from ..joints import is_joint_file
+
+        if is_joint_file(model):  # a bolted joint: its own report (axialfe.output.jointreport)
+            from ..joints import read_joint, solve_joint
+            from ..output.jointreport import write_joint_report
+
+            j = read_joint(model)
+            units = output_units(j, force_unit, length_unit, None, stress_unit)
+            write_joint_report(solve_joint(j), output, fmt, units)
+            typer.echo(f"wrote {output}", err=True)
+            return
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         write_report(run(m), output, fmt, units)
         typer.echo(f"wrote {output}", err=True)

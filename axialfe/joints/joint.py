@@ -39,6 +39,7 @@ from .stiffness import METHOD, bolt_stiffness, member_stiffness
 from .threads import INCH, Thread
 
 __all__ = ["Part", "Service", "Joint", "JointState", "JointResult", "JointSweep", "solve_joint",
+           "DiagramLine", "diagram_lines",
            "sweep_joint", "build_model", "ASSEMBLY", "EVENTS", "CHECK_KINDS"]
 
 ASSEMBLY = "assembly"
@@ -608,3 +609,51 @@ def sweep_joint(joint: Joint, start: float, stop: float, steps: int, *, unit: st
                  f"'{service.name}'",)
     return JointSweep(joint, service.name, part, unit, tuple(float(v) for v in values),
                       tuple(states), events, notes)
+
+
+# --- the joint diagram -----------------------------------------------------
+@dataclass(frozen=True)
+class DiagramLine:
+    """Bolt and clamp force of one state against the external load (N), from the built model.
+
+    ``loads`` runs 0, the separation load, and a load beyond it: the forces are
+    straight between these points (the contact state changes only at the
+    separation load), so these three solves draw the whole diagram.
+    """
+
+    state: str
+    loads: tuple[float, ...]
+    bolt: tuple[float, ...]
+    clamp: tuple[float, ...]
+    external_load: float
+    bolt_force: float
+    clamp_force: float
+
+
+def diagram_lines(result: JointResult) -> tuple[DiagramLine, ...]:
+    """The joint diagram of every state: bolt and clamp force against the external load."""
+    from ..engine.system import solve
+
+    joint = result.joint
+    top = 1.3 * max([s.separation_load for s in result.states]
+                    + [abs(s.external_load) for s in result.states] + [joint.preload])
+    services = [None, *joint.services]
+    cases, plan = [], []
+    for s, service in zip(result.states, services):
+        loads = sorted({0.0, s.separation_load, top})
+        plan.append(loads)
+        base = service or Service(ASSEMBLY)
+        for i, P in enumerate(loads):
+            cases.append(state_case(joint, replace(base, external_load=P),
+                                    name=f"{s.name} load {i}"))
+    solution = solve(build_model(joint, cases))
+    bolt_seg, first = _bolt_segments(joint)[-1][0], joint.parts[0].name
+    out, k = [], 0
+    for s, loads in zip(result.states, plan):
+        rows = solution.cases[k:k + len(loads)]
+        k += len(loads)
+        out.append(DiagramLine(s.name, tuple(loads),
+                               tuple(float(r.force(bolt_seg)[0]) for r in rows),
+                               tuple(max(-float(r.force(first)[0]), 0.0) for r in rows),
+                               s.external_load, s.bolt_force, s.clamp_force))
+    return tuple(out)
