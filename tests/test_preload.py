@@ -275,3 +275,10 @@ def test_closed_form_refuses_a_preload():
         parse_model(EXAMPLE_TEXT, "cf.toml", symbolic=True)
     assert str(err.value) == ("cf.toml:13: segments[1] ('bolt'): preload: the closed form takes "
                               "a 'misfit', not a preload")
+
+
+def test_closed_form_of_a_model_built_in_code_refuses_a_preload():
+    model = parse_model(EXAMPLE_TEXT, "cf.toml")
+    with pytest.raises(ModelError) as err:
+        axialfe.solve_symbolic(model)
+    assert str(err.value) == "segments: the closed form takes a 'misfit', not a preload"

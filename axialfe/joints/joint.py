@@ -411,7 +411,7 @@ def _states(joint: Joint, solution, services) -> list[JointState]:
         P = service.external_load if service is not None else 0.0
         separated = (not bool(case.gap_closed[0])) or Fm <= 0.0
         sep_load = max((joint.preload + dF) / (1 - C), 0.0)
-        out.append(JointState(case.name, tuple(temps.items()), P, dF, Fb, max(Fm, 0.0),
+        out.append(JointState(case.name, tuple(temps.items()), P, dF, Fb, Fm if Fm > 0 else 0.0,
                               Fb / joint.thread.tensile_stress_area, separated, sep_load))
     return out
 
@@ -654,6 +654,7 @@ def diagram_lines(result: JointResult) -> tuple[DiagramLine, ...]:
         k += len(loads)
         out.append(DiagramLine(s.name, tuple(loads),
                                tuple(float(r.force(bolt_seg)[0]) for r in rows),
-                               tuple(max(-float(r.force(first)[0]), 0.0) for r in rows),
+                               tuple(-float(r.force(first)[0]) if r.force(first)[0] < 0 else 0.0
+                                     for r in rows),
                                s.external_load, s.bolt_force, s.clamp_force))
     return tuple(out)

@@ -73,7 +73,7 @@ def member_stiffness(parts, d, washer=None, half_angle=HALF_ANGLE):
     >>> import math
     >>> tan = math.tan(math.radians(30))
     >>> l, d, E = 0.04, 0.012, 200e9
-    >>> exact = math.pi*E*d*tan / (2*math.log((l*tan + 0.6*d)*2.5*d/((l*tan + 2.5*d)*0.5*d)))
+    >>> exact = math.pi*E*d*tan / (2*math.log((l*tan + 0.5*d)*2.5*d/((l*tan + 2.5*d)*0.5*d)))
     >>> abs(member_stiffness([(E, l)], d)[1] / exact - 1) < 1e-12  # should be True
     True
     """
