@@ -490,3 +490,21 @@ def test_every_joint_example_runs(path):
     assert "cautions:" in result.stdout
     data = json.loads(runner.invoke(app, ["joint", str(path), "--format", "json"]).stdout)
     assert data["states"][0]["name"] == "assembly"
+
+
+def test_a_cap_screw_shank_may_not_enter_the_tapped_hole():
+    text = EXAMPLE.read_text().replace('length = "50 mm"',
+                                       'length = "40 mm"\nthread_length = "20 mm"\ninto = "flange"')
+    with pytest.raises(ModelError) as err:
+        parse_joint(text, "j.toml")  # shank 20 mm under the head, tapped part from 14 mm
+    assert str(err.value) == ("j.toml:19: bolt: thread_length: the thread starts 20 mm under the "
+                              "head, so the plain shank would enter the tapped hole")
+
+
+def test_a_bolt_pressed_slack_is_undecided_not_passed():
+    text = EXAMPLE.read_text().replace('external_load = "6 kN"', 'external_load = "-200 kN"', 1)
+    result = solve_joint(parse_joint(text, "j.toml"))
+    entry = next(e for e in result.checks.entries if e.kind == "bolt-proof" and e.case == "hot")
+    assert result.state("hot").bolt_force < 0
+    assert (entry.ok, entry.utilization) == (None, None)
+    assert entry.note.startswith("the bolt is not in tension")

@@ -282,3 +282,69 @@ def test_closed_form_of_a_model_built_in_code_refuses_a_preload():
     with pytest.raises(ModelError) as err:
         axialfe.solve_symbolic(model)
     assert str(err.value) == "segments: the closed form takes a 'misfit', not a preload"
+
+
+# --- property: any preload through gaps is met exactly --------------------------------
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+from axialfe.model import Gap, Material, Model, Section, Segment, Station, Support  # noqa: E402
+
+
+@settings(max_examples=25)
+@given(F=st.floats(1e2, 2e5), c1=st.floats(0.0, 2e-4), c2=st.floats(0.0, 2e-4),
+       E2=st.floats(20e9, 400e9), k_spring=st.floats(1e6, 1e10), split=st.floats(0.2, 0.8))
+def test_a_preload_through_two_clearances_and_springs_is_met(F, c1, c2, E2, k_spring, split):
+    # a bolt clamping two sleeves in series, each face with its own clearance, the nut end
+    # held by a spring and the second sleeve by a soft one: the force is piecewise linear in
+    # the misfit, with up to four pieces
+    a = Section("a", "area", (("area", 1e-4),))
+    steel, other = Material("steel", 200e9), Material("other", E2)
+    L = 0.06
+    model = Model(
+        [Station("head", 0.0), Station("mid-a", L * split), Station("mid-b", L * split),
+         Station("end", L), Station("nut", L)],
+        [Segment("bolt", "head", "nut", steel, a, preload=F),
+         Segment("sleeve-1", "head", "mid-a", other, a),
+         Segment("sleeve-2", "mid-b", "end", steel, a)],
+        [Support("head"), Support("nut", "spring", stiffness=k_spring),
+         Support("mid-b", "spring", stiffness=1e5)],
+        gaps=[Gap("g1", ("mid-a", "mid-b"), c1), Gap("g2", ("end", "nut"), c2)])
+    case = axialfe.solve(model)["base"]
+    assert case.force("bolt")[0] == pytest.approx(F, rel=1e-8)
+
+
+def test_a_spacer_held_only_by_two_contacts_takes_a_preload():
+    # the spacer touches nothing but the two contact faces: the engine's search for a part
+    # held only by gaps must find the clamped state
+    a = Section("a", "area", (("area", 1e-4),))
+    steel = Material("steel", 200e9)
+    model = Model(
+        [Station("head", 0.0), Station("mid-a", 0.02), Station("mid-b", 0.02),
+         Station("end", 0.06), Station("nut", 0.06)],
+        [Segment("bolt", "head", "nut", steel, a, preload=20e3),
+         Segment("sleeve-1", "head", "mid-a", steel, a),
+         Segment("spacer", "mid-b", "end", steel, a)],
+        [Support("head")],
+        gaps=[Gap("g1", ("mid-a", "mid-b"), 0.0), Gap("g2", ("end", "nut"), 0.0)])
+    case = axialfe.solve(model)["base"]
+    assert case.force("bolt")[0] == pytest.approx(20e3, rel=1e-9)
+    assert case.force("spacer")[0] == pytest.approx(-20e3, rel=1e-9)
+
+
+def test_a_spacer_held_only_by_two_contacts_is_clamped_by_a_moving_support():
+    # the nut face settles 0.1 mm toward the head: the spacer between the two contact faces
+    # takes N = -E*A*0.1 mm/(L_1 + L_2) with the sleeve in series (Gere and Goodno, 8th ed.,
+    # 2.4, bars in series; the openings in m and forces in N must not upset the pivoting)
+    a = Section("a", "area", (("area", 1e-4),))
+    steel = Material("steel", 200e9)
+    model = Model(
+        [Station("head", 0.0), Station("mid-a", 0.02), Station("mid-b", 0.02),
+         Station("end", 0.06), Station("nut", 0.06)],
+        [Segment("sleeve", "head", "mid-a", steel, a), Segment("spacer", "mid-b", "end", steel, a)],
+        [Support("head"), Support("nut", "settlement", displacement=-1e-4)],
+        gaps=[Gap("g1", ("mid-a", "mid-b"), 0.0), Gap("g2", ("end", "nut"), 0.0)])
+    case = axialfe.solve(model)["base"]
+    N = -200e9 * 1e-4 * 1e-4 / 0.06
+    assert case.force("spacer")[0] == pytest.approx(N, rel=1e-9)
+    assert case.force("sleeve")[0] == pytest.approx(N, rel=1e-9)

@@ -27,7 +27,7 @@ from dataclasses import replace
 
 import numpy as np
 
-from ..errors import ModelError
+from ..errors import ModelError, SolveError
 from ..formatting import number
 from ..model import Model, Support
 from ..model.cases import case_state
@@ -98,10 +98,26 @@ def _span(model: Model) -> float:
 
 
 def _solve_one(model: Model, i: int, response: _Response, k: float) -> float:
-    """The misfit of segment ``i`` that gives its preload: secant steps with a bracket."""
+    """The misfit of segment ``i`` that gives its preload: secant steps with a bracket.
+
+    A trial misfit at which the installed model has no unique equilibrium (a part
+    held only by gaps that this misfit leaves open) tells nothing of the force; it
+    lies on the slack side of the answer, where those gaps have not yet closed, so
+    the search goes on past it as if the force there fell short of the preload.
+    """
     target = model.segments[i].preload
+
+    failed = []
+
+    def f_of(m, short):
+        try:
+            return float(response([m])[0]) - target
+        except SolveError as exc:
+            failed.append(exc)
+            return short
+
     m0 = 0.0
-    f0 = float(response([m0])[0]) - target
+    f0 = f_of(m0, -target)  # unsolvable: taken as carrying nothing yet
     scale = max(abs(target), abs(f0 + target))
     tol = _RTOL * scale if scale > 0 else 0.0
     if abs(f0) <= tol:
@@ -111,7 +127,7 @@ def _solve_one(model: Model, i: int, response: _Response, k: float) -> float:
     limit = max(_span(model), abs(step))
     m1, f1 = m0 + step, None
     while True:  # march until the force responds
-        f1 = float(response([m1])[0]) - target
+        f1 = f_of(m1, f0)
         if abs(f1) <= _RTOL * max(scale, k * abs(m1)):
             return m1
         if abs(f1 - f0) > _RTOL * max(scale, k * abs(m1)):
@@ -142,7 +158,7 @@ def _solve_one(model: Model, i: int, response: _Response, k: float) -> float:
                 nxt = mc + 2.0 * (mc - mp)
                 if abs(nxt) > 2.0 * limit:
                     raise _no_response(model, i)
-        f = float(response([nxt])[0]) - target
+        f = f_of(nxt, f0)
         if abs(f) <= _RTOL * max(scale, k * abs(nxt)):
             return nxt
         if f > 0:
@@ -150,6 +166,13 @@ def _solve_one(model: Model, i: int, response: _Response, k: float) -> float:
         else:
             hi = nxt if hi is None or nxt < hi else hi
         prev, cur = cur, (nxt, f)
+        if failed and lo is not None and hi is not None and hi - lo <= 1e-12 * abs(hi):
+            break  # closed in on the edge of misfits the engine cannot solve
+    if failed:
+        raise ModelError("preload: the installed model has no unique equilibrium near the misfit "
+                         f"that would give this force ({failed[-1].message})",
+                         place=f"segments[{i + 1}] ('{model.segments[i].name}')",
+                         file=model.source, line=model.line_of(f"segments.{model.segments[i].name}"))
     raise ModelError("preload: the misfit that gives this force was not found within "
                      f"{_MAX_STEPS} solves", place=f"segments[{i + 1}] "
                      f"('{model.segments[i].name}')", file=model.source,

@@ -184,7 +184,9 @@ class Joint:
         if self.into is not None and self.length <= self.above_tapped:
             raise ModelError(f"length: a screw of {_mm(self.length)} does not reach the tapped "
                              f"part under {_mm(self.above_tapped)} of clamped parts", place="bolt")
-        if self.shank_in_grip > self.grip * (1 + 1e-12):
+        # the plain shank must end within the grip (nut) or above the tapped part (cap screw)
+        shank_limit = self.grip if self.into is None else self.above_tapped
+        if self.shank_in_grip > shank_limit * (1 + 1e-12):
             raise ModelError(f"thread_length: the thread starts {_mm(self.length - self.thread_len)}"
                              f" under the head, beyond the grip of {_mm(self.grip)}, so the nut "
                              "cannot be tightened onto it" if self.into is None else
@@ -422,7 +424,15 @@ def _checks(joint: Joint, states) -> CheckReport:
     cases = []
     for s in states:
         entries = []
-        if joint.proof_strength is None:
+        if s.bolt_force <= 0:
+            # a pressed-together joint that unloads the bolt entirely: the nut would lift off
+            # its face, which the joint model does not describe
+            entries.append(CheckEntry("bolt-proof", BOLT, s.name, None, None,
+                                      "the bolt is not in tension: the external load presses the "
+                                      "parts together beyond the preload, which this joint model "
+                                      "does not describe", "stress", s.bolt_stress,
+                                      joint.proof_strength))
+        elif joint.proof_strength is None:
             entries.append(CheckEntry("bolt-proof", BOLT, s.name, None, None,
                                       "no proof or yield strength is known for the bolt",
                                       "stress", s.bolt_stress, None))
