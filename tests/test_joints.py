@@ -177,6 +177,7 @@ def test_shigley_joint_load_example_bolt():
     # Shigley, 10th ed., Example 8-4 (from memory): 5/8-11 UNC SAE grade 5, grip 1.50 in,
     # L = 2.25 in: L_T = 2d + 1/4 = 1.50 in, l_d = l_t = 0.75 in, A_t = 0.226 in^2,
     # k_b = 5.21 Mlbf/in; S_p = 85 kpsi and the reusable preload F_i = 0.75*A_t*S_p = 14.4 kip
+    # (the stack of parts here is ours: only its grip enters k_b)
     text = US_JOINT.replace('size = "1/2-20 UNF"', 'size = "5/8-11 UNC"').replace(
         'length = "1.5 in"', 'length = "2.25 in"').replace('material = "bolt-steel"\n', 'grade = "SAE 5"\n')
     text = text.replace('thickness = "0.095 in"', 'thickness = "0.25 in"').replace(
@@ -508,3 +509,25 @@ def test_a_bolt_pressed_slack_is_undecided_not_passed():
     assert result.state("hot").bolt_force < 0
     assert (entry.ok, entry.utilization) == (None, None)
     assert entry.note.startswith("the bolt is not in tension")
+
+
+def test_a_model_command_on_a_joint_file_says_what_to_run():
+    result = runner.invoke(app, ["solve", str(EXAMPLE)])
+    assert result.exit_code == 2
+    assert result.stderr == (f"error: {EXAMPLE}:15: top level: this is a bolted-joint file (it has "
+                             "a [bolt] table): run 'axialfe joint' on it\n")
+
+
+def test_joint_plots_through_the_command_line(tmp_path):
+    png, svg = tmp_path / "diagram.png", tmp_path / "sweep.svg"
+    result = runner.invoke(app, ["joint", str(EXAMPLE), "--plot", str(png)])
+    assert result.exit_code == 1  # the checks' code, the figure written all the same
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    result = runner.invoke(app, ["joint", str(EXAMPLE), "--sweep", "-40 degC..300 degC",
+                                 "--state", "cold-start", "--part", "bolt", "--plot", str(svg)])
+    assert result.exit_code == 0, result.output
+    assert "<svg" in svg.read_text()
+    result = runner.invoke(app, ["joint", str(EXAMPLE), "--plot", str(tmp_path / "x.pdf")])
+    assert result.exit_code == 2
+    assert result.stderr == (f"error: {tmp_path / 'x.pdf'}: cannot write a figure as '.pdf'; "
+                             "expected one of: '.png', '.svg'\n")

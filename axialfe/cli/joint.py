@@ -28,7 +28,11 @@ def joint(path: JointPath,
               "others keep the state's temperatures.")] = None,
           steps: Annotated[int, typer.Option("--steps", help="Grid points of a sweep, both ends "
                                                              "included.")] = 21,
-          output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
+          output: Output = None,
+          plot: Annotated[Optional[Path], typer.Option(
+              "--plot", dir_okay=False, help="Also draw the joint diagram (with --sweep: the "
+              "forces against the temperature, events marked), .png or .svg.")] = None,
+          force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           stress_unit: StressUnit = None):
     """Solve a bolted joint: bolt and clamped-part stiffness, every state, the checks.
 
@@ -42,6 +46,10 @@ def joint(path: JointPath,
     from ..tracking.sweep import parse_range
 
     with user_errors():
+        if plot is not None:
+            from ..output.plot import _suffix
+
+            _suffix(plot)  # a wrong suffix is refused before any work
         j = read_joint(path)
         units = output_units(j, force_unit, length_unit, None, stress_unit)
         if sweep is None:
@@ -52,6 +60,11 @@ def joint(path: JointPath,
             emit(joint_json(result, units) if format is CheckFormat.json
                  else joint_table(result, units), output)
             code = result.checks.exit_code
+            if plot is not None:
+                from ..output.jointplot import plot_joint
+
+                plot_joint(result, plot, units)
+                typer.echo(f"wrote {plot}", err=True)
         else:
             try:
                 start, stop, unit = parse_range(sweep, "temperature")
@@ -62,6 +75,11 @@ def joint(path: JointPath,
                 raise
             emit(sweep_json(result, units) if format is CheckFormat.json
                  else sweep_table(result, units), output)
+            if plot is not None:
+                from ..output.jointplot import plot_joint_sweep
+
+                plot_joint_sweep(result, plot, units)
+                typer.echo(f"wrote {plot}", err=True)
             code = 0
     raise typer.Exit(code)
 

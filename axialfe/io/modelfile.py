@@ -316,6 +316,9 @@ class _Reader:
     def model(self) -> Model:
         data = self.data
         for key in data:
+            if key == "bolt" and isinstance(data[key], dict):  # axialfe.joints reads these
+                self.fail("this is a bolted-joint file (it has a [bolt] table): run 'axialfe "
+                          "joint' on it", "bolt", place="top level")
             if key not in _TOP_KEYS:
                 self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
                           else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))

@@ -73,7 +73,7 @@ def _tables(result, units):
         [f"shank area A_d [{L}^2]", number(b["shank_area"])],
         [f"length under the head [{L}]", number(b["length"])],
         [f"thread length L_T [{L}]", number(b["thread_length"])
-         + (" (standard rule)" if b["thread_length_default"] else "")],
+         + (" (the default rule)" if b["thread_length_default"] else "")],
         [f"shank l_d and thread l_t in the grip [{L}]",
          f"{number(b['shank_length_in_grip'])}, {number(b['thread_length_in_grip'])}"],
         [f"grip [{L}]", number(b["grip"])],

@@ -116,7 +116,7 @@ def joint_table(result, units: OutputUnits | None = None) -> str:
             f"  {b['size']}: d = {number(b['nominal_diameter'])} {L}, {pitch}, "
             f"A_t = {number(b['tensile_stress_area'])} {L}^2, A_d = {number(b['shank_area'])} {L}^2",
             f"  length {number(b['length'])} {L}, thread length {number(b['thread_length'])} {L}"
-            + (" (standard rule for hex bolts)" if b["thread_length_default"] else "")
+            + (" (the default rule)" if b["thread_length_default"] else "")
             + f"; in the grip: shank l_d = {number(b['shank_length_in_grip'])} {L}, thread "
             f"l_t = {number(b['thread_length_in_grip'])} {L}",
             f"  {b['material']}: E = {number(b['elastic_modulus'])} {S}, alpha = "
