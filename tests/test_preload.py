@@ -348,3 +348,14 @@ def test_a_spacer_held_only_by_two_contacts_is_clamped_by_a_moving_support():
     N = -200e9 * 1e-4 * 1e-4 / 0.06
     assert case.force("spacer")[0] == pytest.approx(N, rel=1e-9)
     assert case.force("sleeve")[0] == pytest.approx(N, rel=1e-9)
+
+
+def test_the_table_states_the_misfit_of_a_preload(tmp_path):
+    path = tmp_path / "bolt.toml"
+    path.write_text(EXAMPLE_TEXT, encoding="utf-8")
+    result = runner.invoke(app, ["solve", str(path)])
+    assert result.exit_code == 0, result.output
+    misfit = -10e3 * (0.05 / (200e9 * 1e-4) + 0.05 / (68.9e9 * 1e-4)) * 1e3
+    assert (f" preload: 'bolt' has the misfit {misfit:.6g} mm, found to give its preload when "
+            "installed"
+            in result.stdout.splitlines())
