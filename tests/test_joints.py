@@ -366,6 +366,23 @@ def test_sweep_events_are_exact():
      "('cover'): unknown material 'aluminum-alloy'; did you mean 'aluminium-alloy'?"),
     ('name = "cover"', 'name = "cover"\nthick = "1 mm"', "j.toml:27: clamped[2] ('cover'): "
      "unknown key 'thick'; did you mean 'thickness'?"),
+    ('preload = "25 kN"', 'preload = "25 kN"\ntorque = "50 N*m"', "j.toml:35: assembly: give "
+     "'preload' or 'torque' (with 'nut_factor'), one of them"),
+    ('preload = "25 kN"', 'preload = "25 kN"\nnut_factor = 0.2', "j.toml:37: assembly: "
+     "'nut_factor' belongs to a 'torque'"),
+    ('preload = "25 kN"', 'preload = "-25 kN"', "j.toml:36: assembly: preload must be positive "
+     "(a tension): got '-25 kN'"),
+    ('temperature = "20 degC"\n', '', "j.toml:35: assembly: 'temperature' is missing (the "
+     "assembly temperature, e.g. '20 degC')"),
+    ('name = "hot"', 'name = "assembly"', "j.toml:40: service[1] ('assembly'): 'assembly' names "
+     "the installed state; give the service state a name of its own"),
+    ('length = "50 mm"', 'length = "50 mm"\ninto = "flang"', "j.toml:19: bolt: into: unknown "
+     "part 'flang'; did you mean 'flange'?"),
+    ('size = "M10"', 'size = "M48"', "j.toml:17: bolt: property_class: ISO 898-1 gives property "
+     "class 8.8 a proof strength only up to 39 mm diameter: got 48 mm; give 'material' with a "
+     "proof_strength"),
+    ('size = "M10"', 'size = "M10 coarse"', "j.toml:16: bolt: size: cannot read the thread size "
+     "'M10 coarse': give e.g. 'M10', 'M10x1.25' or '3/8-16 UNC'"),
 ])
 def test_bad_joint_files_give_one_located_line(old, new, message):
     text = EXAMPLE.read_text()

@@ -194,6 +194,9 @@ class _JointReader(_Reader):
                 self.fail("'nut_factor' belongs to a 'torque'", "assembly", None, "nut_factor",
                           place="assembly")
             preload = q(asm, "preload", "force", "assembly")
+            if not preload > 0:
+                self.fail(f"preload must be positive (a tension): got '{asm['preload']}'",
+                          "assembly", None, "preload", place="assembly")
             preload_basis = "given"
         else:
             torque = self.torque(asm["torque"], "assembly", "torque")
@@ -224,8 +227,12 @@ class _JointReader(_Reader):
             self.keys(entry, _KEYS["service"], "service", i, place)
             name = self.text(self.need(entry, "name", "service", i, place), table="service",
                              index=i, key="name", place=place)
-            if name == ASSEMBLY or name in [s.name for s in services]:
-                self.fail(f"the state name '{name}' is taken", "service", i, "name", place=place)
+            if name == ASSEMBLY:
+                self.fail("'assembly' names the installed state; give the service state a name "
+                          "of its own", "service", i, "name", place=place)
+            if name in [s.name for s in services]:
+                self.fail(f"two service states are named '{name}'", "service", i, "name",
+                          place=place)
             temp = (q(entry, "temperature", "temperature", "service", i, place)
                     if "temperature" in entry else None)
             own = entry.get("temperatures", {})
