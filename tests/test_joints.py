@@ -548,3 +548,48 @@ def test_joint_plots_through_the_command_line(tmp_path):
     assert result.exit_code == 2
     assert result.stderr == (f"error: {tmp_path / 'x.pdf'}: cannot write a figure as '.pdf'; "
                              "expected one of: '.png', '.svg'\n")
+
+
+SPEC_JOINT = """
+title = "Cover bolted to a flange"
+[bolt]
+size = "M10"
+property_class = "8.8"
+length = "50 mm"
+[[clamped]]
+name = "cover"
+material = "aluminium-alloy"
+thickness = "12 mm"
+[[clamped]]
+name = "flange"
+material = "structural-steel"
+thickness = "16 mm"
+[assembly]
+preload = "25 kN"
+temperature = "20 degC"
+[[service]]
+name = "hot"
+temperature = "120 degC"
+temperatures = { bolt = "90 degC", cover = "130 degC" }
+external_load = "6 kN"
+"""
+
+
+def test_the_m10_geometry_of_a_cover_on_a_flange(tmp_path):
+    # M10 coarse: P = 1.5 mm (ISO 261), A_t = 57.99 mm^2 (ISO 898-1 formula), A_d = 78.54 mm^2;
+    # L_T = 2*10 + 6 = 26 mm for L = 50 mm, so l_d = 24 mm and l_t = 28 - 24 = 4 mm in the grip
+    path = tmp_path / "cover.toml"
+    path.write_text(SPEC_JOINT, encoding="utf-8")
+    result = runner.invoke(app, ["joint", str(path), "--format", "json"])
+    assert result.exit_code in (0, 1), result.output
+    data = json.loads(result.stdout)
+    b = data["bolt"]
+    assert (b["nominal_diameter"], b["pitch"], b["grip"]) == (10.0, 1.5, pytest.approx(28.0))
+    assert (round(b["tensile_stress_area"], 2), round(b["shank_area"], 2)) == (57.99, 78.54)
+    assert (b["shank_length_in_grip"], b["thread_length_in_grip"]) == pytest.approx((24.0, 4.0))
+    assembly, hot = data["states"]
+    assert (assembly["bolt_force"], assembly["clamp_force"]) == pytest.approx((25e3, 25e3))
+    assert round(assembly["bolt_stress"], 1) == 431.1
+    assert hot["temperature"] == pytest.approx(90.0)  # the bolt's
+    assert hot["temperatures"] == {"bolt": pytest.approx(90.0), "cover": pytest.approx(130.0),
+                                   "flange": pytest.approx(120.0)}
