@@ -128,6 +128,11 @@ def test_a_separated_contact_leaves_the_bolt_the_whole_load():
     assert case.gap("interface")["state"] == "open"
     assert case.force("sleeve")[0] == 0.0
     assert case.force("bolt-thread")[0] == pytest.approx(P, rel=1e-9)
+    # bonded, the sleeve would hold the opened joint in tension and the bolt look safer
+    bonded = axialfe.solve(bolt_and_sleeve(extra=load))["base"]
+    assert bonded.force("sleeve")[0] > 0
+    assert bonded.force("bolt-thread")[0] == pytest.approx(F + C * P, rel=1e-9)
+    assert bonded.force("bolt-thread")[0] < 0.7 * P  # 130 kN against the true 200 kN
     # below it, the joint diagram: F_b = F + C*P, F_m = F - (1 - C)*P
     load = '[[loads]]\nat = "nut"\nforce = "10 kN"'
     model = bolt_and_sleeve(gap=CONTACT.format(c="0 mm"), sleeve_to="sleeve-end", extra=load)
