@@ -46,7 +46,7 @@ def is_joint_file(path) -> bool:
 
 
 class _JointReader(_Reader):
-    """The model-file reader's helpers, applied to the tables of a joint file."""
+    """The model-file reader's methods, applied to the tables of a joint file."""
 
     def table(self, key, required=True):
         entry = self.data.get(key)
