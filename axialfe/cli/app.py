@@ -437,7 +437,16 @@ def report(model: ModelPath,
 
     with user_errors():
         fmt = report_format(output, format.value if format else None)
-        if is_fit_file(model):  # a press or shrink fit (axialfe fit) has its own report
+        from ..joints import is_joint_file
+
+        if is_joint_file(model):  # a bolted joint: its own report (axialfe.output.jointreport)
+            from ..joints import read_joint, solve_joint
+            from ..output.jointreport import write_joint_report
+
+            j = read_joint(model)
+            units = output_units(j, force_unit, length_unit, None, stress_unit)
+            write_joint_report(solve_joint(j), output, fmt, units)
+        elif is_fit_file(model):  # a press or shrink fit (axialfe fit) has its own report
             from ..output.fitreport import write_fit_report
 
             result, units = _solved_fit(model, force_unit, length_unit, stress_unit)

@@ -194,5 +194,8 @@ def solve(model: Model, method: str = "auto") -> Solution:
     >>> [round(case.reaction(s), 9) for s in ("A", "B")]  # -P*b/L, -P*a/L
     [-6000.0, -3000.0]
     """
+    from .preload import resolve_preloads  # it solves models itself
+
+    model = resolve_preloads(model)  # a preload is a force: find its misfit first
     system = System(model, method=method)
     return Solution(model, tuple(system.solve_state(s) for s in load_states(model)))

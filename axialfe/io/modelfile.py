@@ -35,7 +35,7 @@ _KEYS = {
                 "width", "height", "area", "second_moment"),
     "segment": ("name", "from", "to", "material", "section", "end_section", "temperature_change",
                 "temperature", "misfit", "distributed_load", "buckling_length",
-                "effective_length_factor"),
+                "effective_length_factor", "preload"),
     "support": ("at", "kind", "stiffness", "displacement"),
     "load": ("at", "force"),
     "gap": ("name", "between", "at", "side", "clearance", "kind"),
@@ -355,6 +355,9 @@ class _Reader:
     def model(self) -> Model:
         data = self.data
         for key in data:
+            if key == "bolt" and isinstance(data[key], dict):  # axialfe.joints reads these
+                self.fail("this is a bolted-joint file (it has a [bolt] table): run 'axialfe "
+                          "joint' on it", "bolt", place="top level")
             if key not in _TOP_KEYS:
                 self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
                           else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))
@@ -438,6 +441,14 @@ class _Reader:
                                 key="effective_length_factor", place=place)
                     if "effective_length_factor" in entry else None),
             }
+            if "preload" in entry:  # a force; the solver turns it into a misfit
+                if "misfit" in entry:
+                    self.fail("give 'misfit' or 'preload', not both", table, i, "preload",
+                              place=place)
+                if self.symbolic:
+                    self.fail("preload: the closed form takes a 'misfit', not a preload", table,
+                              i, "preload", place=place)
+                kwargs["preload"] = qs(entry["preload"], "force", key="preload")
             if not isinstance(kwargs["name"], str):
                 self.fail("name: expected a name in quotes", table, i, "name", place=place)
             if (gravity and materials[mat_name].density is None):
@@ -570,14 +581,18 @@ class _Reader:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
 
     def name_lines(self) -> dict:
-        """The lines of ``'stations.<name>'`` and ``'gaps.<name>'`` (for solver messages),
-        found in one pass over the stations table."""
+        """The lines of ``'stations.<name>'``, ``'gaps.<name>'`` and ``'segments.<name>'``
+        (for solver messages), found in one pass over each table."""
         if self.locator is None:
             return {}
         lines = {f"stations.{k}": v for k, v in self.locator.table_keys("stations").items()}
-        for i, entry in enumerate(self.data.get("gaps", []), 1):
-            if isinstance(entry, dict) and isinstance(entry.get("name"), str):
-                lines.setdefault(f"gaps.{entry['name']}", self.line("gaps", i))
+        for table in ("gaps", "segments"):
+            entries = self.data.get(table, [])
+            for i, entry in enumerate(entries if isinstance(entries, list) else [], 1):
+                if isinstance(entry, dict):
+                    name = entry.get("name", f"{entry.get('from')}-{entry.get('to')}")
+                    if isinstance(name, str):
+                        lines.setdefault(f"{table}.{name}", self.line(table, i))
         return lines
 
     def _line_of_place(self, place):

@@ -211,6 +211,9 @@ class Segment:
         Length made minus distance between the stations, in m.
     distributed_load : float
         Uniform axial load in N/m, positive toward +x.
+    preload : float, optional
+        Axial force (N, tension positive) the segment carries in the installed
+        state; the solver chooses ``misfit`` to give it (:mod:`axialfe.engine.preload`).
     """
 
     name: str
@@ -224,6 +227,7 @@ class Segment:
     distributed_load: float = 0.0
     buckling_length: float | None = None
     effective_length_factor: float | None = None
+    preload: float | None = None
 
     def __post_init__(self):
         _name(self.name, "a segment's name", "segments")
@@ -245,6 +249,7 @@ class Segment:
         _finite(self.misfit, "misfit", place)
         _finite(self.distributed_load, "distributed_load", place)
         _finite(self.temperature_change, "temperature_change", place)
+        _finite(self.preload, "preload", place)
         _positive(self.buckling_length, "buckling_length", place)
         _positive(self.effective_length_factor, "effective_length_factor", place)
 

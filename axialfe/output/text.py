@@ -117,6 +117,10 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
             out.append(f" INACCURATE: {case['message']}")
         for note in case.get("notes", []):
             out.append(f" note: {note}")
+        for seg in case["segments"]:  # --- preloads (axialfe.engine.preload) ---
+            if "preload_misfit" in seg:
+                out.append(f" preload: '{seg['name']}' has the misfit {_g(seg['preload_misfit'])} "
+                           f"{data['units']['length']}, found to give its preload when installed")
         out.append("")
         if checks is not None:  # --- design checks (axialfe.checks) ---
             out += _check_lines(checks.case(case["name"]), units)

@@ -439,6 +439,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     >>> cf.reaction("left")
     -P*b/(a + b)
     """
+    if any(seg.preload is not None for seg in model.segments):  # axialfe.engine.preload
+        raise ModelError("the closed form takes a 'misfit', not a preload", place="segments")
     real, syms, values = _symbols(model)
     repl = {real[n]: syms[n] for n in real}
     subs = {syms[n]: v for n, v in values.items() if v is not None}

@@ -378,6 +378,9 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     if steps < 2:
         raise ModelError(f"must be at least 2 (both ends of the range): got {steps}",
                          place="--steps")
+    from ..engine.preload import resolve_preloads
+
+    model = resolve_preloads(model)
     states = load_states(model)
     names = [s.name for s in states]
     if case is None:
