@@ -135,8 +135,11 @@ def solve(model: ModelPath,
     with user_errors():
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
-        emit(render(solution, format.value, units, review=stated_values(model, m, solution)),
-             output)
+        from ..checks import check_solution
+
+        checks = None if format is Format.csv else check_solution(solution, units)
+        emit(render(solution, format.value, units, checks=checks,
+                    review=stated_values(model, m, solution)), output)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
 
@@ -454,7 +457,10 @@ def report(model: ModelPath,
         else:
             m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
             solution = run(m)
-            write_report(solution, output, fmt, units, review=stated_values(model, m, solution))
+            from ..checks import check_solution
+
+            write_report(solution, output, fmt, units, checks=check_solution(solution, units),
+                         review=stated_values(model, m, solution))
         typer.echo(f"wrote {output}", err=True)
 
 

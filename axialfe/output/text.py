@@ -230,17 +230,13 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
            checks=None, review=None) -> str:
     """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
 
-    The table, JSON and Markdown forms carry the design checks: ``checks`` (a
-    :class:`~axialfe.checks.CheckReport`), computed here when not given, and the
-    review of the model's stated values (``review``, an :class:`axialfe.review.Review`)
-    when given.
+    The table, JSON and Markdown forms carry the design checks (``checks``, a
+    :class:`~axialfe.checks.CheckReport` made by the caller) and the review of
+    the model's stated values (``review``, an :class:`axialfe.review.Review`),
+    each when given: output computes nothing.
     """
     if fmt == "csv":
         return to_csv(solution, units, review=review)
-    if checks is None:
-        from ..checks import check_solution
-
-        checks = check_solution(solution, units)
     return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
         solution, units, checks=checks, review=review)
 
