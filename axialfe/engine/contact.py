@@ -10,17 +10,10 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import SolveError
+from ..formatting import names as names_text
 from . import pivoting
 
-__all__ = ["solve_gaps", "names_text"]
-
-
-def names_text(names, most=8):
-    """``'a', 'b' and 3 more``: a list of names for a message."""
-    names = [f"'{n}'" for n in names]
-    if len(names) > most:
-        return ", ".join(names[:most]) + f" and {len(names) - most} more"
-    return ", ".join(names)
+__all__ = ["solve_gaps"]
 
 
 def _not_unique(names, closed):

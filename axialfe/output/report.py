@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import ModelError
+from ..formatting import number
 from .text import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _governing_text
 from ..results import CaseResult, Solution
 from ..units import OutputUnits
@@ -59,14 +60,7 @@ def report_format(path, fmt: str | None = None) -> str:
 
 # --- numbers and words -------------------------------------------------------
 def _g(value, digits=4) -> str:
-    if value is None:
-        return "-"
-    if value == 0:
-        return "0"
-    text = f"{value:.{digits}g}"
-    if "e" in text and 1e-4 <= abs(value) < 1e7:     # plain digits read better in a sheet
-        text = f"{float(text):.10f}".rstrip("0").rstrip(".")
-    return text.replace("-", _MINUS)
+    return number(value, digits, minus=_MINUS)
 
 
 def station_words(u: float, unit: str, factor: float, scale: float = 0.0) -> str:

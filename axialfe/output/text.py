@@ -11,6 +11,7 @@ import csv
 import io
 import json
 
+from ..formatting import number
 from ..results import Solution
 from ..units import OutputUnits
 
@@ -30,9 +31,7 @@ CAUTIONS = (
 
 
 def _g(value, digits=6):
-    if value == 0:
-        return "0"
-    return f"{value:.{digits}g}"
+    return number(value, digits, plain=False)
 
 
 def _grid(headers, rows, indent="  "):
@@ -246,13 +245,11 @@ _CHECK_HEADERS = ("check", "name", "demand", "capacity", "utilization", "result"
 
 
 def _check_cells(entry, units: OutputUnits):
-    from ..formatting import number as _num
-
     key = entry.quantity
     unit = getattr(units, key)
 
     def value(v):
-        return "-" if v is None else f"{_num(v / units.factor(key))} {unit}"
+        return "-" if v is None else f"{number(v / units.factor(key))} {unit}"
 
     util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
     return [entry.kind, entry.name, value(entry.demand), value(entry.capacity), util,
