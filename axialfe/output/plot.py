@@ -47,7 +47,7 @@ SUPPORT_COLOUR = "#4d565e"
 _QUANTITY = {"force": ("axial force", "force"), "stress": ("stress", "stress"),
              "displacement": ("displacement", "displacement")}
 _LABEL_LIMIT = 30      # beyond this many segments only the extremes are labelled
-_SAMPLES = 41          # points along a segment whose curve is not a straight line
+_SAMPLES = 81          # points along a segment whose curve is not a straight line
 
 
 @dataclass(frozen=True)
@@ -318,6 +318,13 @@ def _label_values(ax, items, colour, label_all, seen):
         if fresh(right):
             ax.annotate(_fmt(right[1]), right, xytext=(-3, 4 if right[1] >= 0 else -10),
                         textcoords="offset points", ha="right", fontsize=7, color=colour)
+        # a peak inside the segment (a taper) beyond both end values is labelled too
+        inner = int(np.argmax(np.abs(c.y)))
+        if 0 < inner < len(c.y) - 1 and abs(c.y[inner]) > max(abs(c.y[0]), abs(c.y[-1])) * (1 + 1e-9):
+            peak = (c.x[inner], c.y[inner])
+            if fresh(peak):
+                ax.annotate(_fmt(peak[1]), peak, xytext=(0, 4 if peak[1] >= 0 else -10),
+                            textcoords="offset points", ha="center", fontsize=7, color=colour)
         prev = right
 
 
