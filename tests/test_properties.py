@@ -15,13 +15,15 @@ import numpy as np
 from hypothesis import Phase, given, settings
 from hypothesis import strategies as st
 
+from conftest import examples
+
 from axialfe.engine.assembly import assemble
 from axialfe.model import Load, Material, Model, Section, Segment, Station, Support
 from axialfe.engine.system import System, solve
 
 # No 'explain' phase: it imports libcst, whose deprecation warning the strict
 # warning filter would turn into an internal error while reporting a failure.
-PROPS = settings(max_examples=40, derandomize=True, deadline=None,
+PROPS = settings(max_examples=examples(40),
                  phases=(Phase.explicit, Phase.reuse, Phase.generate, Phase.shrink))
 
 
