@@ -113,7 +113,7 @@ def test_result_arrays_are_read_only_and_not_shared():
     case = solution["base"]
     for key in ("u", "axial_force", "stress", "length", "elongation", "reactions",
                 "temperature_change", "thermal_strain", "gap_force"):
-        with pytest.raises(ValueError):
+        with pytest.raises(ValueError, match="read-only"):
             getattr(case, key)[...] = 0
     from axialfe.engine import System
     from axialfe.model.cases import load_states
