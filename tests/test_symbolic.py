@@ -328,6 +328,25 @@ def small_models(draw):
     return Model(stations, segments, supports, loads, gaps, cases, combinations, gravity=gravity)
 
 
+def scales(model, case):
+    """Sizes of the displacements, forces and stresses of a case, for relative tolerances.
+
+    From the movements the parts make (not only the displacements, which rounding
+    alone makes of a station that a taut link holds in place) and the forces the
+    stiffest part would need to make them.
+    """
+    areas = [sec.area for seg in model.segments for sec in seg.sections]
+    lengths = case.length
+    scale_u = max(np.abs(case.u).max(), np.abs(case.elastic_elongation).max(),
+                  np.abs(case.thermal_elongation).max(), max(abs(s.misfit) for s in model.segments),
+                  max((g.clearance for g in model.gaps), default=0.0), 1e-300)
+    stiffest = max(seg.material.elastic_modulus * max(sec.area for sec in seg.sections) / L
+                   for seg, L in zip(model.segments, lengths))
+    scale_n = max(np.abs(case.axial_force).max(), np.abs(case.reactions).max(initial=0),
+                  np.abs(case.gap_force).max(initial=0), stiffest * scale_u)
+    return scale_u, scale_n, max(np.abs(case.stress).max(), scale_n / min(areas))
+
+
 @settings(max_examples=examples(25))
 @given(small_models())
 def test_closed_form_equals_the_numeric_solution(model):
@@ -338,9 +357,7 @@ def test_closed_form_equals_the_numeric_solution(model):
         case = solution[name]
         state = {g.name: bool(case.gap_closed[j]) for j, g in enumerate(model.gaps)}
         cf = solve_symbolic(model, case=name, state=state)
-        scale_u = max(np.abs(case.u).max(), 1e-300)
-        scale_n = max(np.abs(case.axial_force).max(), np.abs(case.reactions).max(initial=0), 1e-300)
-        scale_s = max(np.abs(case.stress).max(), 1e-300)
+        scale_u, scale_n, scale_s = scales(model, case)
         for i, stn in enumerate(model.stations):
             assert abs(cf.evaluate(cf.displacement(stn.name)) - case.u[i]) <= 1e-9 * scale_u, name
         for i, seg in enumerate(model.segments):
