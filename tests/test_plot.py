@@ -188,14 +188,13 @@ def test_plotted_data_equal_the_results(make):
     sol = solve(model)
     units = model.units
     fL, fF, fS, fD = (units.factor(k) for k in ("length", "force", "stress", "displacement"))
-    idx = model._station_index
     for case in sol.cases:
         fig = plot_case(case, "all")
         force, stress, disp = (_points(_lines(fig, f"{w}-lane-")) for w in
                                ("force", "stress", "displacement"))
         for i, seg in enumerate(model.segments):
-            xa = model.stations[idx[seg.start]].x / fL
-            xb = model.stations[idx[seg.end]].x / fL
+            xa = model.stations[model.station_index(seg.start)].x / fL
+            xb = model.stations[model.station_index(seg.end)].x / fL
             assert _has_point(force, xa, case.axial_force[i, 0] / fF)
             assert _has_point(force, xb, case.axial_force[i, 1] / fF)
             assert _has_point(stress, xa, case.stress[i, 0] / fS)
