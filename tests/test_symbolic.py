@@ -347,13 +347,12 @@ def scales(model, case):
     return scale_u, scale_n, max(np.abs(case.stress).max(), scale_n / min(areas))
 
 
-@settings(max_examples=examples(25))
+@settings(max_examples=examples(20))
 @given(small_models())
 def test_closed_form_equals_the_numeric_solution(model):
     solution = solve(model)
-    names = solution.names
-    # the combination and one case (or the single case): the combination rule on both sides
-    for name in (names[-1],) + ((names[len(model.gaps) % 3],) if model.cases else ()):
+    # the combination (or the single case): the combination rule on both sides
+    for name in solution.names[-1:]:
         case = solution[name]
         state = {g.name: bool(case.gap_closed[j]) for j, g in enumerate(model.gaps)}
         cf = solve_symbolic(model, case=name, state=state)
