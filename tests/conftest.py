@@ -13,7 +13,20 @@ from axialfe.model import Material, Section
 settings.register_profile("axialfe", max_examples=40, derandomize=True, deadline=None)
 # a longer, randomised search for local runs: AXIALFE_HYPOTHESIS=thorough python -m pytest
 settings.register_profile("thorough", max_examples=500, deadline=None)
-settings.load_profile(os.environ.get("AXIALFE_HYPOTHESIS", "axialfe"))
+PROFILE = os.environ.get("AXIALFE_HYPOTHESIS", "axialfe")
+settings.load_profile(PROFILE)
+THOROUGH_FACTOR = 10  # how many times more examples the thorough profile draws
+
+
+def examples(n: int) -> int:
+    """Return the number of examples for a test that needs fewer (or more) than the profile's.
+
+    ``n`` in the default profile, ``THOROUGH_FACTOR * n`` in the thorough one: a test
+    never fixes ``max_examples`` itself, so the thorough profile reaches every test.
+    Use it as ``@settings(max_examples=examples(12))``; the other settings
+    (derandomisation, deadline) come from the loaded profile.
+    """
+    return n * THOROUGH_FACTOR if PROFILE == "thorough" else n
 
 EXAMPLES = os.path.join(os.path.dirname(__file__), os.pardir, "examples")
 

@@ -502,11 +502,13 @@ def test_json_nulls_for_undecided_entries(tmp_path):
 
 def test_governing_line_names_a_failure_without_utilization():
     # the heavy case closes the stop, which must keep 0.05 mm: a failure with no utilization
-    from axialfe.output.text import _governing_lines
+    from axialfe.output.text import checks_table
 
     report = check_solution(solve(limits_model(allow="10 mm")))
     assert report.status == "fail"
-    line = _governing_lines(report, report_units())[0]
+    text = checks_table(report, report_units())
+    # the governing paragraph, its wrapped lines joined
+    line = text[text.index("governing check: "):text.index("\nchecks: ")].replace("\n  ", " ")
     assert line.endswith("; FAILING without a utilization: gap of 'stop' in case 'heavy'")
 
 

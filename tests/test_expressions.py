@@ -7,6 +7,8 @@ import sympy
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from conftest import examples
+
 from axialfe.errors import ModelError, UnitError
 from axialfe.symbolic.expressions import parse_expression, read_symbol
 from axialfe.io.modelfile import parse_model
@@ -125,7 +127,7 @@ def _trees():
     return st.recursive(leaf, combine, max_leaves=8)
 
 
-@settings(max_examples=60, derandomize=True, deadline=None)
+@settings(max_examples=examples(60))
 @given(_trees())
 def test_parser_matches_exact_arithmetic(tree):
     text, expected = tree

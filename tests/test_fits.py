@@ -591,15 +591,17 @@ def test_model_commands_point_a_fit_file_to_the_fit_command():
 
 
 FIT_EXAMPLES = sorted((ROOT / "examples" / "fits").glob("*.toml"))
+# the status and exit code of `axialfe fit` on each example (a new example must be added here)
+FIT_STATUS = {"bronze-bushing": ("pass", 0)}
 
 
 @pytest.mark.parametrize("path", FIT_EXAMPLES, ids=[p.stem for p in FIT_EXAMPLES])
 def test_every_fit_example_runs(path):
     assert path.read_text(encoding="utf-8").lstrip().startswith("#")  # commented
+    status, code = FIT_STATUS[path.stem]
     result = runner.invoke(app, ["fit", str(path), "--format", "json"])
-    assert result.exit_code in (0, 1, 3), result.output
-    data = json.loads(result.stdout)
-    assert data["status"] == {0: "pass", 1: "fail", 3: "undecided"}[result.exit_code]
+    assert result.exit_code == code, result.output
+    assert json.loads(result.stdout)["status"] == status
 
 
 def test_us_units_of_a_fit_file():

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 from hypothesis import given, strategies as st
 
-from axialfe import Gap, Load, Model, Segment, SolveError, Station, Support, solve
+from axialfe import Gap, Load, Model, ModelError, Segment, SolveError, Station, Support, solve
 from axialfe.io.modelfile import parse_model
 
 from conftest import area, assert_close, steel
@@ -158,11 +158,11 @@ clearance = "0.5 mm"
     assert case.gap("stop")["state"] == "closed"
     assert_close(case.gap("stop")["force"], -(30e3 - 0.5e-3 * 200e9 * 1e-4 / 1.0))
     bad = text.replace('side = "+x"', 'side = "up"')
-    with pytest.raises(Exception) as err:
+    with pytest.raises(ModelError) as err:
         parse_model(bad, "stop.toml")
     assert str(err.value) == "stop.toml:23: gaps[1] ('stop'): 'side' must be '+x' or '-x': got 'up'"
     bad = text.replace('clearance = "0.5 mm"', 'clearence = "0.5 mm"')
-    with pytest.raises(Exception) as err:
+    with pytest.raises(ModelError) as err:
         parse_model(bad, "stop.toml")
     assert str(err.value) == ("stop.toml:24: gaps[1] ('stop'): unknown key 'clearence'; "
                               "did you mean 'clearance'?")

@@ -15,13 +15,15 @@ import numpy as np
 from hypothesis import Phase, given, settings
 from hypothesis import strategies as st
 
+from conftest import examples
+
 from axialfe.engine.assembly import assemble
 from axialfe.model import Load, Material, Model, Section, Segment, Station, Support
 from axialfe.engine.system import System, solve
 
 # No 'explain' phase: it imports libcst, whose deprecation warning the strict
 # warning filter would turn into an internal error while reporting a failure.
-PROPS = settings(max_examples=40, derandomize=True, deadline=None,
+PROPS = settings(max_examples=examples(40),
                  phases=(Phase.explicit, Phase.reuse, Phase.generate, Phase.shrink))
 
 
@@ -91,7 +93,7 @@ def test_equilibrium_residual(m):
     case = solve(m)["base"]
     assert case.equilibrium_residual <= 1e-9
     # and directly: segment end forces, loads and reactions balance at every station
-    idx = m._station_index
+    idx = {st.name: m.station_index(st.name) for st in m.stations}
     bal = np.zeros(len(m.stations))
     np.add.at(bal, [idx[ld.at] for ld in m.loads], [ld.force for ld in m.loads])
     np.add.at(bal, [idx[s.at] for s in m.supports], case.reactions)
@@ -130,7 +132,7 @@ def test_reversing_x_mirrors_solution(m):
 def dense_solution(m: Model):
     """Displacements and end forces by a dense numpy solve of uniform bar elements."""
     n = len(m.stations)
-    idx = m._station_index
+    idx = {st.name: m.station_index(st.name) for st in m.stations}
     x = np.array([s.x for s in m.stations])
     K, F = np.zeros((n, n)), np.zeros(n)
     terms = []

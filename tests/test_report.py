@@ -202,17 +202,46 @@ def test_input_echo(page):
         assert word in body, word
 
 
-def test_calculation_sheet_sums_to_relative_displacement(solution):
+def test_calculation_sheet_shows_the_solved_elongations(solution):
+    # the rows carry the solver's elongations, and each row's relative displacement is the
+    # change of distance between its end stations
     for case in solution.cases:
         rows = calculation_rows(case, case.model.units)
-        scale = max(abs(r["relative"]) for r in rows)
         for i, (row, seg) in enumerate(zip(rows, case.model.segments)):
-            assert row["sum"] == pytest.approx(row["elastic"] + row["thermal"] + row["misfit"])
-            assert abs(row["closure"]) <= 1e-9 * scale
             assert row["elastic"] == pytest.approx(case.elastic_elongation[i] / 1e-3, rel=1e-9,
                                                    abs=1e-12)
             assert row["thermal"] == pytest.approx(case.thermal_elongation[i] / 1e-3, rel=1e-12,
                                                    abs=1e-15)
+            assert row["misfit"] == pytest.approx(seg.misfit / 1e-3, rel=1e-12)
+            start, end = (case.model.stations[case.model.station_index(n)].x for n in (seg.start, seg.end))
+            moved = case.displacement(seg.end) - case.displacement(seg.start)
+            assert row["relative"] == pytest.approx(math.copysign(1.0, end - start) * moved / 1e-3,
+                                                    rel=1e-9, abs=1e-12)
+
+
+def test_calculation_sheet_of_the_heated_bar_with_end_float():
+    # A bronze sleeve and a steel rod in series, fixed at the base, heated by dT = 60 K;
+    # the free expansion dT*(alpha_1*L_1 + alpha_2*L_2) = 0.3672 mm closes the end float
+    # c = 0.12 mm, and the cover then presses with R = (free expansion - c)/(L_1/(E_1*A_1) +
+    # L_2/(E_2*A_2)) (Gere and Goodno, Mechanics of Materials, thermal effects, bar with a
+    # gap; from memory).  Each part's elastic part is -R*L/(E*A), its thermal part
+    # alpha*dT*L, their sum the part's change of length, and the two sum to c (the tip
+    # rests on the cover).
+    model = read_model(ROOT / "examples" / "closed-form-heated-bar-gap.toml")
+    rows = calculation_rows(solve(model)["base"], model.units)
+    parts = [("sleeve", 110e9, 450e-6, 0.180, 18e-6), ("rod", 205e9, 300e-6, 0.240, 12e-6)]
+    R = (60 * sum(a * L for *_, L, a in parts) - 0.12e-3) / sum(L / (E * A) for _, E, A, L, _ in parts)
+    assert R == pytest.approx(32.79e3, rel=1e-4)
+    for row, (name, E, A, L, alpha) in zip(rows, parts):
+        assert row["segment"] == name
+        elastic, thermal = -R * L / (E * A), alpha * 60 * L
+        assert row["elastic"] == pytest.approx(elastic * 1e3, rel=1e-12)  # mm
+        assert row["thermal"] == pytest.approx(thermal * 1e3, rel=1e-12)
+        assert row["misfit"] == 0
+        assert row["sum"] == pytest.approx((elastic + thermal) * 1e3, rel=1e-12)
+        assert row["relative"] == pytest.approx((elastic + thermal) * 1e3, rel=1e-9)
+        assert abs(row["closure"]) <= 1e-9 * abs(row["relative"])
+    assert sum(row["relative"] for row in rows) == pytest.approx(0.12, rel=1e-9)
 
 
 def test_calculation_sheet_hand_values():
@@ -351,9 +380,9 @@ def test_cli_report(tmp_path):
 
 
 @pytest.mark.parametrize("path", EXAMPLES, ids=[p.name for p in EXAMPLES])
-def test_every_example_checks_plots_and_reports(tmp_path, path):
-    result = runner.invoke(app, ["check", str(path)])
-    assert result.exit_code in (0, 1, 3), result.output
+def test_every_example_reports(tmp_path, path):
+    # the status of `check` on each example is pinned in test_examples.py (CHECK_STATUS)
+    # and, for docs/clamped-spacer.toml, in test_buckling.py
     out = tmp_path / "r.html"
     result = runner.invoke(app, ["report", str(path), "-o", str(out)])
     assert result.exit_code == 0, result.output
