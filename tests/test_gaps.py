@@ -288,3 +288,44 @@ def test_residual_detects_an_unbalanced_solution():
     assert bad.message.startswith(f"the equilibrium residual {bad.equilibrium_residual:.1e} "
                                   "exceeds 1e-09: the result does not balance")
     assert bad.to_dict()["status"] == "inaccurate"
+
+
+def test_a_gap_over_closed_by_settlements_has_no_equilibrium():
+    # both ends of a link held by supports: their settlements fix its opening, and one
+    # that overlaps the clearance admits no equilibrium (it is not a question of uniqueness)
+    from axialfe import parse_model
+
+    text = """
+[materials.m]
+elastic_modulus = "200 GPa"
+[sections.s]
+shape = "area"
+area = "100 mm^2"
+[stations]
+a = "0 mm"
+b = "1000 mm"
+[[segments]]
+from = "a"
+to = "b"
+material = "m"
+section = "s"
+[[supports]]
+at = "a"
+[[supports]]
+at = "b"
+kind = "settlement"
+displacement = "{settle}"
+[[gaps]]
+name = "tie"
+between = ["a", "b"]
+clearance = "0.02 mm"
+kind = "slack"
+"""
+    with pytest.raises(SolveError) as err:
+        solve(parse_model(text.format(settle="0.1 mm"), "bar.toml"))
+    assert str(err.value) == (
+        "bar.toml:21: no equilibrium in case 'base': gap 'tie' joins stations that supports hold "
+        "in place, and their prescribed displacements close it by more than its clearance; check "
+        "the settlements or the clearance")
+    case = solve(parse_model(text.format(settle="0.01 mm")))["base"]
+    assert case.gap("tie") == {"state": "open", "opening": pytest.approx(1e-5), "force": 0.0}

@@ -43,6 +43,17 @@ def solve_gaps(M, H, o0, f, system, label="", with_state=False):
     names = [gp.name for gp in model.gaps]
     scale_q = max(np.abs(o0).max(initial=0), system.clearance.max(initial=0), 1e-300)
     where = f" in case '{label}'" if label else ""
+    # a gap between stations that supports hold in place moves with nothing: its
+    # opening is fixed by the supports, and a negative one has no equilibrium
+    diag = np.diag(M)
+    held = (diag <= 1e-14 * max(diag.max(initial=0.0), 1e-300)) & ~np.any(H != 0, axis=1)
+    over = held & (o0 < -1e-11 * scale_q)
+    if over.any():
+        j = int(np.flatnonzero(over)[0])
+        raise SolveError(f"no equilibrium{where}: gap '{names[j]}' joins stations that supports "
+                         "hold in place, and their prescribed displacements close it by more "
+                         "than its clearance; check the settlements or the clearance",
+                         file=model.source, line=model.line_of(f"gaps.{names[j]}"))
     if system.n_parts == 0:
         lam, closed, status = pivoting.block_principal_pivoting(M, o0, scale_q)
         if status == pivoting.SEMIDEFINITE:
