@@ -14,6 +14,9 @@ from axialfe.checks.columns import (CURVE_NAMES, IMPERFECTION, aisc360_stress, c
                                     johnson_tangency)
 from axialfe.cli import app
 from axialfe.model.parts import COLUMN_CURVES, CheckSettings
+from axialfe.units import OutputUnits
+
+SHOWN = OutputUnits()   # the default output units: notes show lengths in mm
 
 runner = CliRunner()
 
@@ -82,7 +85,7 @@ def test_a_split_strut_keeps_the_capacity_of_the_whole(parts, curve):
         assert e.capacity == pytest.approx(whole.capacity, rel=1e-12)
         assert e.buckling_length == pytest.approx(2.0, rel=1e-12)
         assert e.ok is True
-        assert e.note.startswith(f"run 's0'..'s{parts}' braced at both ends: L = 2000 mm, K = 1;")
+        assert e.note_in(SHOWN).startswith(f"run 's0'..'s{parts}' braced at both ends: L = 2000 mm, K = 1;")
 
 
 @pytest.mark.parametrize("curve", ["euler-only", "johnson"])
@@ -95,8 +98,8 @@ def test_bracing_at_mid_length_gives_four_times_the_capacity(curve):
     for e in halves:
         assert e.capacity == pytest.approx(4 * whole.capacity, rel=1e-12)
         assert e.buckling_length == pytest.approx(1.0, rel=1e-12)
-    assert halves[0].note.startswith("run 's0'..'s1' braced at both ends: L = 1000 mm")
-    assert halves[1].note.startswith("run 's1'..'s2' braced at both ends: L = 1000 mm")
+    assert halves[0].note_in(SHOWN).startswith("run 's0'..'s1' braced at both ends: L = 1000 mm")
+    assert halves[1].note_in(SHOWN).startswith("run 's1'..'s2' braced at both ends: L = 1000 mm")
 
 
 def test_a_free_end_takes_k_2_and_says_so():
@@ -106,7 +109,7 @@ def test_a_free_end_takes_k_2_and_says_so():
     for e in (e1, e2):
         assert e.k_factor == 2.0 and e.buckling_length == pytest.approx(2.0)
         assert e.capacity == pytest.approx(math.pi ** 2 * E * INERTIA / 4.0 ** 2, rel=1e-12)
-        assert e.note.startswith(
+        assert e.note_in(SHOWN).startswith(
             "run 's0'..'s2' braced at 's0' only (free end 's2'): L = 2000 mm, K = 2 for the free "
             "end (this assumes 's0' holds the member against rotation; set "
             "effective_length_factor otherwise);")
@@ -115,13 +118,13 @@ def test_a_free_end_takes_k_2_and_says_so():
     assert e.k_factor == 2.0
     e, = buckling(strut(end_braced=False, segment_extra="effective_length_factor = 2.1"))
     assert e.k_factor == 2.1
-    assert "K = 2.1 (the segment's effective_length_factor)" in e.note
+    assert "K = 2.1 (the segment's effective_length_factor)" in e.note_in(SHOWN)
 
 
 def test_buckling_length_overrides_the_run():
     e, = buckling(strut(end_braced=False, segment_extra='buckling_length = "500 mm"'))
     assert e.buckling_length == pytest.approx(0.5) and e.k_factor == 1.0
-    assert e.note.startswith("L = 500 mm (the segment's buckling_length), K = 1;")
+    assert e.note_in(SHOWN).startswith("L = 500 mm (the segment's buckling_length), K = 1;")
 
 
 RODS_AT_A_CONTACT = """
@@ -216,7 +219,7 @@ force = "-1 kN"
 """)
     e, = buckling(model)
     assert e.ok is None and e.utilization is None and e.capacity is None
-    assert e.note == ("run 'a'..'b' is braced at neither end: mark the stations that hold it "
+    assert e.note_in(SHOWN) == ("run 'a'..'b' is braced at neither end: mark the stations that hold it "
                       "laterally with braced = true, or give the segment buckling_length")
 
 
@@ -261,7 +264,7 @@ force = "-1 kN"
     assert (stem.start, stem.end, stem.fork, stem.braced_ends) == ("a", "r", "p", 1)
     e = buckling(model)[0]
     assert e.name == "stem" and e.ok is None and e.utilization is None
-    assert e.note == ("run 'a'..'r': the member forks beyond 'p' into ways that end at different "
+    assert e.note_in(SHOWN) == ("run 'a'..'r': the member forks beyond 'p' into ways that end at different "
                       "stations, so its braced run is not clear: give the segment buckling_length")
 
 
@@ -304,7 +307,7 @@ at = "head"
     assert parallel_segments(model) == (("sleeve",), ("bolt",), ())
     e, = buckling(model)
     assert e.name == "sleeve" and e.ok is True
-    assert e.note.endswith(
+    assert e.note_in(SHOWN).endswith(
         "; parallel to 'bolt': a part guided by another along its length (a sleeve on a bolt) "
         "is laterally supported there (common practice), which this check does not assume: set "
         "buckling_length or braced stations deliberately")
@@ -317,10 +320,10 @@ def test_a_stiffer_part_of_a_mixed_run_names_the_weaker_one():
     model = parse_model(resources.files("axialfe.cli").joinpath("starter.toml")
                         .read_text(encoding="utf-8"))
     thick, thin = buckling(model)
-    assert thick.note.endswith("; the run also holds the weaker segment 'thin-part': this "
+    assert thick.note_in(SHOWN).endswith("; the run also holds the weaker segment 'thin-part': this "
                                "capacity takes this segment's own section over the whole run, "
                                "which overstates a run of mixed sections")
-    assert "weaker" not in thin.note
+    assert "weaker" not in thin.note_in(SHOWN)
     assert thick.buckling_length == thin.buckling_length == pytest.approx(0.5)
 
 
@@ -420,7 +423,7 @@ def test_a_stocky_strut_is_decided_below_the_squash_load():
     assert e.capacity == pytest.approx(sigma * AREA, rel=1e-12)
     assert e.capacity < AREA * FY < math.pi ** 2 * E * INERTIA / 0.2 ** 2
     assert e.ok is True and e.curve == "johnson" and e.slenderness == pytest.approx(40)
-    assert e.note == ("run 's0'..'s1' braced at both ends: L = 200 mm, K = 1; johnson (parabola: "
+    assert e.note_in(SHOWN) == ("run 's0'..'s1' braced at both ends: L = 200 mm, K = 1; johnson (parabola: "
                       "K*L/r = 40 below the tangency 125.7): sigma_cr = 0.9493*f_y, "
                       "capacity 74560 N")
 
@@ -434,17 +437,17 @@ def test_en1993_entry_takes_the_safety_factor_as_gamma_m1(curve):
     assert e.relative_slenderness == pytest.approx(lam, rel=1e-12)
     assert e.capacity == pytest.approx(chi * AREA * FY, rel=1e-12)
     assert e.utilization == pytest.approx(20e3 * 1.1 / (chi * AREA * FY), rel=1e-12)
-    assert f"{curve} (alpha = {IMPERFECTION[curve]:g}, gamma_M1 = the safety factor)" in e.note
+    assert f"{curve} (alpha = {IMPERFECTION[curve]:g}, gamma_M1 = the safety factor)" in e.note_in(SHOWN)
 
 
 def test_aisc360_entry():
     e, = buckling(strut(length_mm=500.0, checks='[checks]\ncolumn_curve = "aisc360"'))
     fe = math.pi ** 2 * E / 100 ** 2
     assert e.capacity == pytest.approx(0.658 ** (FY / fe) * FY * AREA, rel=1e-12)
-    assert "aisc360 (eq. E3-2): K*L/r = 100" in e.note
+    assert "aisc360 (eq. E3-2): K*L/r = 100" in e.note_in(SHOWN)
     e, = buckling(strut(length_mm=2000.0, checks='[checks]\ncolumn_curve = "aisc360"'))
     assert e.capacity == pytest.approx(0.877 * math.pi ** 2 * E / 400 ** 2 * AREA, rel=1e-12)
-    assert "aisc360 (eq. E3-3)" in e.note
+    assert "aisc360 (eq. E3-3)" in e.note_in(SHOWN)
 
 
 @pytest.mark.parametrize("curve", COLUMN_CURVES)
@@ -472,7 +475,7 @@ force = "-1 kN"
 """)
     e, = buckling(model)
     assert e.ok is None and e.curve == curve
-    assert "no yield strength given for material 'grey-cast-iron'" in e.note
+    assert "no yield strength given for material 'grey-cast-iron'" in e.note_in(SHOWN)
 
 
 def test_json_of_a_buckling_entry(tmp_path):

@@ -11,6 +11,9 @@ from axialfe.checks import check_case, check_solution
 from axialfe.cli import app
 from axialfe.model import Limit
 from axialfe.io.modelfile import builtin_materials
+from axialfe.units import OutputUnits
+
+SHOWN = OutputUnits()   # the default output units: notes show lengths in mm
 
 runner = CliRunner()
 
@@ -62,7 +65,7 @@ def test_euler_pinned_pinned_load():
     assert e.k_factor == 1.0 and e.buckling_length == pytest.approx(1.0)
     assert e.ok is True
     assert e.curve == "johnson"      # slender: the Euler branch of the default curve
-    assert e.note == ("run 'a'..'b' braced at both ends: L = 1000 mm, K = 1; johnson (Euler "
+    assert e.note_in(SHOWN) == ("run 'a'..'b' braced at both ends: L = 1000 mm, K = 1; johnson (Euler "
                       "branch: K*L/r = 200 at or above the tangency 125.7): sigma_cr = "
                       "0.1974*f_y, capacity 15500 N")  # pi^2*E/200^2 = 49.35 MPa
 
@@ -121,7 +124,7 @@ def test_area_section_with_and_without_second_moment():
     model = strut(section='shape = "area"\narea = "314.16 mm^2"')
     e, = entries(model, "buckling")
     assert e.ok is None and e.utilization is None and e.capacity is None
-    assert e.note == ("second moment of area missing: section 's' gives only an area; "
+    assert e.note_in(SHOWN) == ("second moment of area missing: section 's' gives only an area; "
                       "add second_moment to check buckling")
 
 
@@ -154,8 +157,8 @@ def test_euler_only_leaves_stocky_struts_undecided():
     assert e.slenderness == pytest.approx(0.99 * limit, rel=1e-9)
     assert e.slenderness_limit == pytest.approx(88.857658763167, rel=1e-12)
     assert e.ok is None and e.utilization is not None and e.utilization < 1
-    assert "below the Euler limit pi*sqrt(E/f_y) = 88.86" in e.note
-    assert "inelastic column curve from the applicable code governs" in e.note
+    assert "below the Euler limit pi*sqrt(E/f_y) = 88.86" in e.note_in(SHOWN)
+    assert "inelastic column curve from the applicable code governs" in e.note_in(SHOWN)
     assert e.curve == "euler-only" and e.capacity > 250e6 * math.pi * 0.01 ** 2
     e, = entries(strut(length=f"{above} mm", force="-1 kN", checks=euler_only), "buckling")
     assert e.ok is True
@@ -174,7 +177,7 @@ def test_no_yield_strength_leaves_buckling_undecided_and_strength_unchecked():
     assert entries(model, "strength") == []
     assert b.ok is None and b.utilization is not None
     assert ("neither the column curve nor the slenderness limit pi*sqrt(E/f_y) of the Euler "
-            "formula is known") in b.note
+            "formula is known") in b.note_in(SHOWN)
     report = check_solution(solve(model))
     assert report.unchecked == (model.segments[0].name,)
     # a strength that cannot be checked is never a pass, even with nothing else to check
@@ -335,7 +338,7 @@ def test_displacement_limit():
     u = 5e3 * 1.0 / (200e9 * math.pi * 0.02 ** 2 / 4)
     d, = [e for e in entries(model, "displacement", "light")]
     assert d.utilization == pytest.approx(u / 0.1e-3, rel=1e-9)
-    assert d.ok is True and d.note is None
+    assert d.ok is True and d.note_in(SHOWN) is None
     d, = entries(limits_model(allow="0.05 mm"), "displacement", "light")
     assert d.ok is False and d.utilization > 1
 
@@ -350,7 +353,7 @@ def test_gap_limit_open_and_closed():
     assert g.ok is False and g.utilization > 1
     g, = entries(model, "gap", "heavy")       # 30 kN closes the 0.2 mm gap
     assert g.utilization is None and g.ok is False
-    assert g.note == "the gap is closed; it must keep an opening of at least 0.05 mm"
+    assert g.note_in(SHOWN) == "the gap is closed; it must keep an opening of at least 0.05 mm"
 
 
 def test_no_safety_factor_on_limits():

@@ -47,7 +47,6 @@ from __future__ import annotations
 
 from ..model import CheckSettings
 from ..results import CaseResult, Solution
-from ..units import OutputUnits
 from .buckling import buckling_checks
 from .entries import KINDS, CaseChecks, CheckEntry, CheckReport
 from .limits import limit_checks
@@ -60,8 +59,7 @@ __all__ = ["CheckEntry", "CaseChecks", "CheckReport", "check_case", "check_solut
 CHECKS = (strength_checks, buckling_checks, limit_checks)
 
 
-def check_case(result: CaseResult, settings: CheckSettings | None = None,
-               units: OutputUnits | None = None) -> tuple[CheckEntry, ...]:
+def check_case(result: CaseResult, settings: CheckSettings | None = None) -> tuple[CheckEntry, ...]:
     """Check one solved case.
 
     Parameters
@@ -69,8 +67,6 @@ def check_case(result: CaseResult, settings: CheckSettings | None = None,
     result : CaseResult
     settings : CheckSettings, optional
         Default: the model's ``checks``.
-    units : OutputUnits, optional
-        Units of the values quoted in notes (default: the model's).
 
     Returns
     -------
@@ -79,25 +75,22 @@ def check_case(result: CaseResult, settings: CheckSettings | None = None,
         compressed segments, then one entry per limit.
     """
     settings = settings or result.model.checks
-    units = units or result.model.units
-    return tuple(e for check in CHECKS for e in check(result, settings, units))
+    return tuple(e for check in CHECKS for e in check(result, settings))
 
 
-def check_solution(solution: Solution, units: OutputUnits | None = None) -> CheckReport:
+def check_solution(solution: Solution) -> CheckReport:
     """Check every case of a solution and find the governing entry.
 
     Parameters
     ----------
     solution : Solution
-    units : OutputUnits, optional
-        Units of the values quoted in notes (default: the model's).
 
     Returns
     -------
     CheckReport
     """
     settings = solution.model.checks
-    cases = tuple(CaseChecks(c.name, check_case(c, settings, units)) for c in solution.cases)
+    cases = tuple(CaseChecks(c.name, check_case(c, settings)) for c in solution.cases)
     governing = None
     for c in cases:
         for e in c.entries:

@@ -27,7 +27,6 @@ import numpy as np
 
 from ..model import CheckSettings
 from ..results import CaseResult
-from ..units import OutputUnits
 from .bracing import braced_runs, parallel_segments
 from .columns import IMPERFECTION, column_strength, johnson_tangency
 from .entries import CheckEntry, quantity_text
@@ -120,7 +119,7 @@ def _weaker_in_run(model, runs, parallel):
     return out
 
 
-def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
+def buckling_checks(result: CaseResult, settings: CheckSettings):
     """One buckling entry per segment in compression at either end."""
     model, case = result.model, result.name
     sf, curve = settings.safety_factor, settings.column_curve
@@ -128,10 +127,10 @@ def buckling_checks(result: CaseResult, settings: CheckSettings, units: OutputUn
     weaker = _weaker_in_run(model, runs, parallel)
 
     def length_text(value):
-        return quantity_text(value, units.length, units, "length")
+        return quantity_text(value, "length")
 
     def force_text(value):
-        return quantity_text(value, units.force, units, "force")
+        return quantity_text(value, "force")
 
     out = []
     for i, seg in enumerate(model.segments):

@@ -2,13 +2,14 @@
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 
 from ..formatting import number
 from ..model import CheckSettings
 from ..units import OutputUnits
 
-__all__ = ["CheckEntry", "CaseChecks", "CheckReport", "KINDS", "quantity_text"]
+__all__ = ["CheckEntry", "CaseChecks", "CheckReport", "KINDS", "quantity_text", "note_text"]
 
 KINDS = ("strength", "buckling", "displacement", "gap")
 
@@ -62,6 +63,10 @@ class CheckEntry:
     relative_slenderness: float | None = None
     at: float | None = None
 
+    def note_in(self, units: OutputUnits) -> str | None:
+        """The note with its quantities in ``units``."""
+        return note_text(self.note, units)
+
     @property
     def verdict(self) -> str:
         """``'pass'``, ``'FAIL'`` or ``'review'`` (undecided)."""
@@ -77,7 +82,7 @@ class CheckEntry:
         units = units or OutputUnits()
         out = {"kind": self.kind, "name": self.name,
                "utilization": None if self.utilization is None else float(self.utilization),
-               "ok": self.ok, "note": self.note}
+               "ok": self.ok, "note": self.note_in(units)}
         if self.kind == "strength":
             out["at"] = self.at / units.factor("length")
         if self.kind == "buckling":
@@ -191,6 +196,22 @@ _CURVE_BASIS = {
 }
 
 
-def quantity_text(value, unit, units: OutputUnits, key):
-    """``value`` (SI) in the output unit of quantity ``key``, with the unit."""
-    return f"{number(value / units.factor(key))} {unit}"
+_QUANTITY = re.compile(r"\u27e6(force|length|displacement|stress)=([-+0-9.eE]+|inf|nan)\u27e7")
+
+
+def quantity_text(value, key: str) -> str:
+    """A quantity in a note: its SI value and its kind, kept as data until the note is
+    shown in the output's units (:func:`note_text`)."""
+    return f"\u27e6{key}={float(value)!r}\u27e7"
+
+
+def note_text(note: str | None, units: OutputUnits) -> str | None:
+    """A note with its quantities written in ``units`` (four significant digits).
+
+    >>> note_text("capacity " + quantity_text(58400.0, "force"), OutputUnits(force="kN"))
+    'capacity 58.4 kN'
+    """
+    if note is None:
+        return None
+    return _QUANTITY.sub(lambda m: f"{number(float(m.group(2)) / units.factor(m.group(1)))} "
+                                   f"{getattr(units, m.group(1))}", note)

@@ -4,13 +4,12 @@ from __future__ import annotations
 
 from ..model import CheckSettings
 from ..results import CaseResult
-from ..units import OutputUnits
 from .entries import CheckEntry, quantity_text
 
 __all__ = ['limit_checks']
 
 
-def limit_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
+def limit_checks(result: CaseResult, settings: CheckSettings):
     """One entry per ``[[limits]]`` item: |u| / allowable, or min_opening / opening."""
     model, case = result.model, result.name
     out = []
@@ -24,7 +23,7 @@ def limit_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits
             continue
         j = gap_names.index(lim.gap)
         opening = float(result.gap_opening[j])
-        need = quantity_text(lim.min_opening, units.displacement, units, "displacement")
+        need = quantity_text(lim.min_opening, "displacement")
         if result.gap_closed[j]:
             out.append(CheckEntry("gap", lim.gap, case, None, False,
                                   f"the gap is closed; it must keep an opening of at least {need}",

@@ -4,13 +4,12 @@ from __future__ import annotations
 
 from ..model import CheckSettings
 from ..results import CaseResult
-from ..units import OutputUnits
 from .entries import CheckEntry
 
 __all__ = ['strength_checks']
 
 
-def strength_checks(result: CaseResult, settings: CheckSettings, units: OutputUnits):
+def strength_checks(result: CaseResult, settings: CheckSettings):
     """One strength entry per segment: max|sigma| * safety factor / yield strength.
 
     The largest |sigma| is taken over the whole segment, inside it included

@@ -137,7 +137,7 @@ def solve(model: ModelPath,
         solution = run(m)
         from ..checks import check_solution
 
-        checks = None if format is Format.csv else check_solution(solution, units)
+        checks = None if format is Format.csv else check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution)), output)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
@@ -383,7 +383,7 @@ def check(model: ModelPath,
     with user_errors():
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
-        report = check_solution(solution, units)
+        report = check_solution(solution)
         if format is CheckFormat.json:
             text = checks_json(report, units, title=m.title)
         else:
@@ -459,7 +459,7 @@ def report(model: ModelPath,
             solution = run(m)
             from ..checks import check_solution
 
-            write_report(solution, output, fmt, units, checks=check_solution(solution, units),
+            write_report(solution, output, fmt, units, checks=check_solution(solution),
                          review=stated_values(model, m, solution))
         typer.echo(f"wrote {output}", err=True)
 

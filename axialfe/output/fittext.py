@@ -108,7 +108,7 @@ def fit_check_cells(entry, units: FitUnits):
 
     util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
     return [entry.kind, entry.case, entry.name, value(entry.demand), value(entry.capacity), util,
-            entry.verdict, entry.note or ""]
+            entry.verdict, entry.note_in(units) or ""]
 
 
 def _temperature(kelvin):

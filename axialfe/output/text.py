@@ -253,7 +253,7 @@ def _check_cells(entry, units: OutputUnits):
 
     util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
     return [entry.kind, entry.name, value(entry.demand), value(entry.capacity), util,
-            entry.verdict, entry.note or ""]
+            entry.verdict, entry.note_in(units) or ""]
 
 
 # Lines of the check tables are kept within this width: long notes go under the table.
