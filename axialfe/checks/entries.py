@@ -144,11 +144,6 @@ class CheckReport:
             return "undecided"
         return "pass"
 
-    @property
-    def exit_code(self) -> int:
-        """0 all pass, 1 any fails, 3 none fails but some are undecided."""
-        return {"pass": 0, "fail": 1, "undecided": 3}[self.status]
-
     def case(self, name: str) -> CaseChecks:
         for c in self.cases:
             if c.case == name:

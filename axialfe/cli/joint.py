@@ -7,7 +7,7 @@ from typing import Annotated, Optional
 
 import typer
 
-from .app import (CheckFormat, ForceUnit, LengthUnit, Output, StressUnit, app, emit,
+from .app import (CheckFormat, ForceUnit, LengthUnit, Output, StressUnit, app, checks_exit, emit,
                   output_units, user_errors)
 
 __all__ = ["joint"]
@@ -59,7 +59,7 @@ def joint(path: JointPath,
             result = solve_joint(j)
             emit(joint_json(result, units) if format is CheckFormat.json
                  else joint_table(result, units), output)
-            code = result.checks.exit_code
+            code = checks_exit(result.checks)
             if plot is not None:
                 from ..output.jointplot import plot_joint
 

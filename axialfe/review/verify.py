@@ -101,11 +101,6 @@ class Review:
     def differ(self) -> int:
         return len(self.claims) - self.agree
 
-    @property
-    def exit_code(self) -> int:
-        """0 when every claim agrees, 1 when any differs."""
-        return 0 if self.differ == 0 else 1
-
     def to_dict(self, units: OutputUnits | None = None) -> dict:
         units = units or self.model.units
         return {"title": self.model.title, "units": units.as_dict(),
