@@ -24,7 +24,8 @@ from .assembly import Assembly, assemble, element_loads
 from ..errors import SolveError
 from ..model.cases import LoadState, load_states
 from ..model import Model
-from ..results import CaseResult, Solution, certify
+from ..results import CaseResult, Solution
+from .certificate import check_unique_gaps, compatibility, status_of
 
 __all__ = ["System", "solve"]
 
@@ -291,6 +292,10 @@ class System:
         if closed is None:
             closed = opening <= _gap_tol(self, u, delta0, F) if g else np.zeros(0, dtype=bool)
         closed = np.asarray(closed, dtype=bool)
+        # the rest of the certificate: compatibility, and gap forces that are unique
+        tol_gap = _gap_tol(self, u, delta0, F)
+        defect, defect_at = compatibility(self, u, du, n_from, terms, lam, closed, tol_gap)
+        check_unique_gaps(self, lam, closed, opening, tol_gap, state.name)
         # an overlap at the level of rounding shows as 0; a real one would stay visible
         tiny = (opening < 0) & (opening >= -_gap_tol(self, u, delta0, F)) if g else closed
         opening = np.where(closed | tiny, 0.0, opening)
@@ -309,7 +314,8 @@ class System:
             thermal_strain=asm.expansion * state.dT, temperature_change=state.dT,
             length=asm.length, reactions=reactions, applied=state.forces, gap_force=gap_force,
             gap_opening=opening, gap_closed=closed, equilibrium_residual=residual, fields=fields,
-            **dict(zip(("status", "message"), certify(residual))))
+            compatibility_defect=defect,
+            **dict(zip(("status", "message"), status_of(residual, defect, defect_at))))
 
 
 def _gap_tol(system, u, delta0=None, F=None):
