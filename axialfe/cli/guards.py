@@ -1,0 +1,45 @@
+"""Guards around a command's numerics: floating-point trouble is an error, never a warning.
+
+Inside :func:`numerics_guarded`, numpy raises on overflow, division by zero and
+invalid operations instead of warning and carrying on with inf or NaN, and
+Python's own arithmetic errors are caught as well.  Values within the model's
+physical ranges can still make the arithmetic fail (a segment of 1e-300 m, a
+misfit of 1e300 mm); the command then prints one located ``error:`` line and
+exits 2, and nothing else reaches stderr.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import warnings
+
+import numpy as np
+
+from ..errors import SolveError
+
+__all__ = ["numerics_guarded"]
+
+_ARITHMETIC = (FloatingPointError, ZeroDivisionError, OverflowError, RuntimeWarning)
+
+
+@contextlib.contextmanager
+def numerics_guarded(source=None):
+    """Run a block with floating-point trouble raised as one :class:`SolveError`.
+
+    Parameters
+    ----------
+    source : path, optional
+        The input file, named in the message.
+    """
+    try:
+        with np.errstate(all="raise"), warnings.catch_warnings():
+            warnings.simplefilter("error", RuntimeWarning)
+            yield
+    except _ARITHMETIC as exc:
+        what = str(exc).strip() or type(exc).__name__
+        raise SolveError(f"the arithmetic failed ({what}): some value is so large or so small "
+                         "that the numbers overflow; check the sizes of the inputs",
+                         file=None if source is None else str(source)) from None
+    except RecursionError:
+        raise SolveError("the input is nested too deeply to be read",
+                         file=None if source is None else str(source)) from None
