@@ -20,30 +20,21 @@ from ..errors import ModelError, suggest
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
+from . import limits, schema
+from .schema import check_range, check_types, keys_of
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
 
-_TOP_KEYS = ("title", "settings", "units", "materials", "sections", "stations", "segments",
-             "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols")
+# the keys each table allows come from the declarative schema (axialfe.io.schema)
+_TOP_KEYS = keys_of(schema.MODEL)
 _KEYS = {
-    "settings": ("reference_temperature", "temperature_change", "temperature", "gravity"),
-    "units": ("system", "force", "length", "displacement", "stress"),
-    "material": ("elastic_modulus", "thermal_expansion", "yield_strength", "density", "source",
-                 "description", "poissons_ratio"),
-    "section": ("shape", "diameter", "outer_diameter", "wall_thickness", "inner_diameter",
-                "width", "height", "area", "second_moment"),
-    "segment": ("name", "from", "to", "material", "section", "end_section", "temperature_change",
-                "temperature", "misfit", "distributed_load", "buckling_length",
-                "effective_length_factor"),
-    "support": ("at", "kind", "stiffness", "displacement"),
-    "load": ("at", "force"),
-    "gap": ("name", "between", "at", "side", "clearance", "kind"),
-    "case": ("name", "loads", "temperature_change", "temperature", "settlements"),
-    "settlement": ("at", "displacement"),
-    "combination": ("name", "factors"),
-    "checks": ("safety_factor", "effective_length_factor", "column_curve"),
-    "station": ("x", "braced"),
-    "limit": ("at", "displacement", "gap", "min_opening"),
+    "settings": keys_of(schema.SETTINGS), "units": keys_of(schema.UNITS),
+    "material": keys_of(schema.MATERIAL), "section": keys_of(schema.SECTION),
+    "segment": keys_of(schema.SEGMENT), "support": keys_of(schema.SUPPORT),
+    "load": keys_of(schema.LOAD), "gap": keys_of(schema.GAP), "case": keys_of(schema.CASE),
+    "settlement": keys_of(schema.SETTLEMENT), "combination": keys_of(schema.COMBINATION),
+    "checks": keys_of(schema.CHECKS), "station": keys_of(schema.STATION),
+    "limit": keys_of(schema.LIMIT),
 }
 _SECTION_KINDS = {"diameter": "length", "outer_diameter": "length", "wall_thickness": "length",
                   "inner_diameter": "length", "width": "length", "height": "length",
@@ -139,6 +130,9 @@ class _Reader:
         raise ModelError(message, place=place, file=self.source, line=self.line(table, index, key),
                          hint=hint, options=options)
 
+    def _schema_fail(self, message, table, index, key, place, hint=None, options=None):
+        self.fail(message, table, index, key, place=place, hint=hint, options=options)
+
     def line(self, table=None, index=None, key=None):
         return self.locator.find(table, index, key) if self.locator else None
 
@@ -154,12 +148,23 @@ class _Reader:
         """Convert one value to SI, locating any unit error at ``key``."""
         try:
             if self.symbolic or (isinstance(value, str) and self._is_expression(value)):
-                return self.expression(value, kind)
-            return parse_quantity(value, kind)
+                si = self.expression(value, kind)
+            else:
+                si = parse_quantity(value, kind)
         except ModelError as exc:
             raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
+        self.in_range(si, table, index, key, place, value)
+        return si
+
+    def in_range(self, si, table, index, key, place, raw=None):
+        """Refuse a value outside the physical range the schema gives its key."""
+        problem = check_range(si, table, key)
+        if problem is not None:
+            if isinstance(raw, str):
+                problem = problem.rsplit(": got ", 1)[0] + f": got '{raw}'"
+            self.fail(problem, table, index, key, place=place)
 
     # --- closed form: symbols and expressions ------------------------------
     _OPERATOR = re.compile(r"[-+*()]")
@@ -219,6 +224,7 @@ class _Reader:
     def number(self, value, *, table=None, index=None, key=None, place=None):
         if isinstance(value, bool) or not isinstance(value, (int, float)):
             self.fail(f"{key}: expected a plain number: got {value!r}", table, index, key, place=place)
+        self.in_range(float(value), table, index, key, place)
         return float(value)
 
     def text(self, value, *, table=None, index=None, key=None, place=None):
@@ -340,6 +346,7 @@ class _Reader:
     # --- the whole model ------------------------------------------------
     def model(self) -> Model:
         data = self.data
+        check_types(data, self._schema_fail)
         for key in data:
             if key not in _TOP_KEYS:
                 self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
@@ -660,13 +667,19 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
     ModelError
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
+    limits.check_text(text, source)
     try:
         with gc_paused():
             data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
+        end = "end of document" in str(exc)  # TOML's own count: the last line
         raise ModelError(f"not valid TOML: {exc}", file=source,
-                         line=int(m.group(1)) if m else None) from exc
+                         line=int(m.group(1)) if m else (text.count("\n") + 1 if end else None)
+                         ) from exc
+    except RecursionError:  # a backstop: the scan above refuses deep nesting first
+        raise ModelError(f"arrays and tables nest deeper than {limits.MAX_DEPTH} levels",
+                         file=source) from None
     with gc_paused():
         return _Reader(data, source, text, symbolic).model()
 
@@ -675,7 +688,7 @@ def read_model(path, symbolic: bool = False) -> Model:
     """Read a model file (TOML); see :func:`parse_model`."""
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        text = limits.read_input(path)
     except FileNotFoundError:
         raise ModelError("the model file does not exist", file=str(path)) from None
     except IsADirectoryError:
