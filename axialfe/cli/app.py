@@ -242,6 +242,9 @@ def sweep(model: ModelPath,
         parameter, text = given[0]
         start, stop, unit = parse_range(text, parameter)
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
+        from ..io.physical import check_sweep_range
+
+        check_sweep_range(m, parameter, start, stop, unit)
         result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case)
         long = steps * max(len(m.segments), 1) > 200_000 and format is not SweepFormat.table
         if format is SweepFormat.table:

@@ -21,6 +21,7 @@ from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Materia
                     Model, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
 from . import limits, schema
+from .physical import check_absolute_temperatures
 from .schema import check_range, check_types, keys_of
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
@@ -552,7 +553,7 @@ class _Reader:
             limits.append(self.build(Limit, kwargs, "limits", i, place))
 
         try:
-            return Model(stations=tuple(stations), segments=tuple(segments),
+            model = Model(stations=tuple(stations), segments=tuple(segments),
                          supports=tuple(supports), loads=loads, gaps=tuple(gaps),
                          cases=tuple(cases), combinations=tuple(combinations),
                          temperature_change=default_dt, gravity=gravity,
@@ -561,6 +562,8 @@ class _Reader:
                          symbols=tuple(self.symbols.values()), locate=self.locate_name)
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
+        check_absolute_temperatures(model, self._line_of_place)
+        return model
 
     def locate_name(self, key: str) -> int | None:
         """The line of ``'stations.<name>'`` or ``'gaps.<name>'`` (for solver messages)."""
