@@ -32,7 +32,7 @@ def numerics_guarded(source=None):
         The input file, named in the message.
     """
     try:
-        with np.errstate(all="raise"), warnings.catch_warnings():
+        with np.errstate(over="raise", divide="raise", invalid="raise", under="ignore"), warnings.catch_warnings():
             warnings.simplefilter("error", RuntimeWarning)
             yield
     except _ARITHMETIC as exc:

@@ -21,7 +21,7 @@ from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Materia
                     Model, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
 from . import limits, schema
-from .physical import check_absolute_temperatures
+from .physical import check_absolute_temperatures, check_segment_lengths
 from .schema import check_range, check_types, keys_of
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
@@ -78,6 +78,10 @@ class _Locator:
                 return line
             # an inline table stands on one line: the key is there, or the child is
             return self._key_line(line - 1, line, key) or line
+        if span is None and table:  # a sub-table of it, e.g. [material.m] for 'material'
+            for line, name, _ in self.headers:
+                if name.startswith(table + "."):
+                    return line + 1
         if span is None:
             top = table.split(".")[0] if table else None
             return self._key_line(0, len(self.lines), top) if top else None
@@ -368,7 +372,9 @@ class _Reader:
             units = OutputUnits.system(units_entry.get("system", "SI"),
                                        **{k: v for k, v in units_entry.items() if k != "system"})
         except ModelError as exc:
-            key = next((k for k, v in units_entry.items() if f"'{v}'" in exc.message), None)
+            key = next((k for k, v in units_entry.items() if k != "system"
+                        and not _unit_ok(units_entry.get("system", "SI"), k, v)),
+                       "system" if "system" in units_entry else None)
             raise type(exc)(f"{key}: {exc.message}" if key else exc.message, place="units",
                             file=self.source, line=self.line("units", None, key), hint=exc.hint,
                             options=exc.options) from exc
@@ -562,6 +568,7 @@ class _Reader:
                          symbols=tuple(self.symbols.values()), locate=self.locate_name)
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
+        check_segment_lengths(model, self._line_of_place)
         check_absolute_temperatures(model, self._line_of_place)
         return model
 
@@ -630,6 +637,15 @@ def _key_in(message: str, keys) -> str | None:
     return min(found)[1] if found else None
 
 
+def _unit_ok(system, key, value) -> bool:
+    """Whether one output unit of ``[units]`` is good on its own (to locate an error)."""
+    try:
+        OutputUnits.system(system if system in ("SI", "US") else "SI", **{key: value})
+    except ModelError:
+        return False
+    return True
+
+
 def _expr():
     """The expression parser, imported when a model needs it."""
     from ..symbolic import expressions
@@ -670,6 +686,7 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
     ModelError
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
+    text = text[1:] if text.startswith("\ufeff") else text  # a byte-order mark is no content
     limits.check_text(text, source)
     try:
         with gc_paused():

@@ -36,7 +36,8 @@ def check_absolute_temperatures(model, place_line=None):
             continue
         j = int(np.argmin(dT))
         if k < n_cases:
-            place = f"cases[{k + 1}] ('{state.name}')" if model.cases else "settings"
+            place = (f"cases[{k + 1}] ('{state.name}')" if model.cases
+                     else f"segments[{j + 1}] ('{model.segments[j].name}')")
         else:
             place = f"combinations[{k - n_cases + 1}] ('{state.name}')"
         raise ModelError(f"segment '{model.segments[j].name}' would stand at "
@@ -77,3 +78,24 @@ def check_sweep_range(model, parameter, start, stop, unit):
         if isinstance(ref, float) and ref + change <= 0:
             raise ModelError(f"a change of {v:g} {unit} from the reference {ref:.6g} K is at or "
                              "below absolute zero", place=where)
+
+
+MIN_SEGMENT_LENGTH = 1e-6   # m: a micrometre
+MAX_SEGMENT_LENGTH = 1e5    # m
+
+
+def check_segment_lengths(model, place_line=None):
+    """Refuse a segment shorter than a micrometre or longer than 100 km (stations' distance)."""
+    x = {st.name: st.x for st in model.stations}
+    for i, seg in enumerate(model.segments):
+        a, b = x[seg.start], x[seg.end]
+        if not (isinstance(a, float) and isinstance(b, float)):
+            continue
+        length = abs(b - a)
+        if MIN_SEGMENT_LENGTH <= length <= MAX_SEGMENT_LENGTH:
+            continue
+        place = f"segments[{i + 1}] ('{seg.name}')"
+        raise ModelError(f"a length of {length:g} m between '{seg.start}' and '{seg.end}' lies "
+                         f"outside {MIN_SEGMENT_LENGTH:g} m to {MAX_SEGMENT_LENGTH:g} m",
+                         place=place, file=model.source,
+                         line=place_line(place) if place_line else None)

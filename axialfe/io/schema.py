@@ -114,7 +114,7 @@ def _n(low=None, high=None, low_open=False, high_open=False, **kw):
 # Physical ranges (common practice: generous bounds that no real axial member comes near;
 # a value beyond them is a typing mistake, or a unit slip of many orders of magnitude).
 _LENGTH = dict(high=1e5, unit="m")            # 100 km
-_SIZE = dict(low=0, high=100, low_open=True, unit="m")
+_SIZE = dict(low=1e-6, high=100, unit="m")     # a micrometre to 100 m
 _TEMPERATURE = dict(low=0, high=1e5, low_open=True, unit="K")
 _CHANGE = dict(low=-1e5, high=1e5, unit="K")
 _FORCE = dict(low=-1e12, high=1e12, unit="N")
@@ -131,9 +131,9 @@ UNITS = Table({
     "stress": Key("name"),
 }, "units")
 MATERIAL = Table({
-    "elastic_modulus": _q("stress", low=0, high=1e13, low_open=True, unit="Pa", required=True),
+    "elastic_modulus": _q("stress", low=1e3, high=1e13, unit="Pa", required=True),
     "thermal_expansion": _q("thermal_expansion", low=-1e-3, high=1e-3, unit="1/K"),
-    "yield_strength": _q("stress", low=0, high=1e11, low_open=True, unit="Pa"),
+    "yield_strength": _q("stress", low=1e3, high=1e11, unit="Pa"),
     "density": _q("density", low=0, high=1e5, low_open=True, unit="kg/m^3"),
     "source": Key("text"), "description": Key("text"),
     "poissons_ratio": _n(low=0, high=0.5),
@@ -143,8 +143,8 @@ SECTION = Table({
     "diameter": _q("length", **_SIZE), "outer_diameter": _q("length", **_SIZE),
     "wall_thickness": _q("length", **_SIZE), "inner_diameter": _q("length", high=100, unit="m"),
     "width": _q("length", **_SIZE), "height": _q("length", **_SIZE),
-    "area": _q("area", low=0, high=1e4, low_open=True, unit="m^2"),
-    "second_moment": _q("second_moment", low=0, high=1e6, low_open=True, unit="m^4"),
+    "area": _q("area", low=1e-12, high=1e4, unit="m^2"),
+    "second_moment": _q("second_moment", low=1e-24, high=1e6, unit="m^4"),
 }, "section")
 STATION = Table({
     "x": _q("length", low=-1e5, **_LENGTH, required=True,
@@ -247,6 +247,8 @@ def range_of(table: str | None, key: str | None) -> Range | None:
         return None
     if top == "cases" and key == "settlements":
         return SETTLEMENT.keys["displacement"].range
+    if top in ("cases", "loads") and key == "force":
+        return LOAD.keys["force"].range
     entry = schema.keys.get(key)
     return entry.range if entry is not None else None
 
@@ -361,7 +363,7 @@ def _value(k, v, spec, fail, table, index, place, top):
             fail(f"'{k}' must be an array of tables ([[{k}]])", k, None, None, place)
         fail(f"{k}: expected {_expected(spec, k)}: got {_shown(v)}",
              k if top and isinstance(v, (dict, list)) else table, index, k,
-             k if top else place)
+             None if top else place)
     if spec.type in ("name", "text") and len(v) > MAX_NAME_LENGTH and spec.type == "name":
         fail(f"{k}: a name of {len(v)} characters is too long (at most {MAX_NAME_LENGTH})",
              table, index, k, place)
@@ -372,7 +374,8 @@ def _value(k, v, spec, fail, table, index, place, top):
         for i, item in enumerate(v, 1):
             if top:
                 where = f"{k}[{i}]" + (f" ('{item['name']}')" if isinstance(item, dict)
-                                       and isinstance(item.get("name"), str) else "")
+                                       and isinstance(item.get("name"), str)
+                                       and len(item["name"]) <= MAX_NAME_LENGTH else "")
                 t, idx = k, i
             else:
                 where, t, idx = f"{place} {k}[{i}]", table, index
