@@ -24,6 +24,7 @@ app = typer.Typer(add_completion=False, no_args_is_help=True,
 EXIT_INPUT = 2
 EXIT_INACCURATE = 4
 MAX_STEPS = 100_000   # grid points of a sweep
+CLOSED_FORM_SECONDS = 120   # the longest a closed form may take before it is refused
 
 
 def check_count(option, value, most):
@@ -332,7 +333,11 @@ def closed_form(model: ModelPath,
     from ..symbolic.closed_form import (closed_form_dict, closed_form_text, numeric_model, solve_symbolic,
                            used_symbols)
 
-    with user_errors(model):
+    from .guards import time_limit
+
+    with user_errors(model), time_limit(
+            CLOSED_FORM_SECONDS, f"the closed form takes longer than {CLOSED_FORM_SECONDS} s; "
+            "give more symbols a value, or fewer symbols", model):
         outputs([model], ("--output", output))
         m = read_model(model, symbolic=True)
         units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)

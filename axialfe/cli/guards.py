@@ -43,3 +43,35 @@ def numerics_guarded(source=None):
     except RecursionError:
         raise SolveError("the input is nested too deeply to be read",
                          file=None if source is None else str(source)) from None
+
+
+@contextlib.contextmanager
+def time_limit(seconds: float, message: str, source=None):
+    """Stop a block that runs longer than ``seconds`` with one :class:`SolveError`.
+
+    For work whose time cannot be bounded in advance (simplifying a closed form):
+    the tool refuses rather than computes for many minutes.  Works in the main
+    thread of a POSIX process; elsewhere the block runs unbounded.
+    """
+    import signal
+    import threading
+
+    if not hasattr(signal, "setitimer") or threading.current_thread() is not threading.main_thread():
+        yield
+        return
+
+    class _Late(BaseException):
+        pass
+
+    def ring(signum, frame):
+        raise _Late
+
+    old = signal.signal(signal.SIGALRM, ring)
+    signal.setitimer(signal.ITIMER_REAL, seconds)
+    try:
+        yield
+    except _Late:
+        raise SolveError(message, file=None if source is None else str(source)) from None
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        signal.signal(signal.SIGALRM, old)

@@ -75,7 +75,10 @@ def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap):
         if shut[j] > worst:
             state = "closed gap" if closed[j] else "open gap"
             worst, where = float(shut[j]), f"{state} '{gaps[j].name}' (opening)"
-        force_scale = max(np.abs(lam).max(initial=0.0), np.abs(n_from).max(initial=0.0), 1e-300)
+        # forces are measured against those the length scale would cause in the stiffest
+        # segment, so rounding of a force that is truly zero is no defect
+        force_scale = max(np.abs(lam).max(initial=0.0), np.abs(n_from).max(initial=0.0),
+                          float(k.max(initial=0.0)) * length_scale * 1e-10, 1e-300)
         bad_force = np.where(closed, np.maximum(-lam, 0.0), np.abs(lam)) / force_scale
         j = int(np.argmax(bad_force))
         if bad_force[j] > worst:

@@ -284,8 +284,12 @@ class System:
         station_noise = (np.bincount(asm.start, noise, minlength=asm.n)
                          + np.bincount(asm.end, noise, minlength=asm.n) + noise_R)
         balance = np.where(np.abs(balance) <= station_noise, 0.0, balance)
+        # the forces the free changes of length and the loads would cause if held count
+        # too: free thermal growth has no force of its own to measure rounding against
         scale = max(np.abs(state.forces).max(initial=0), np.abs(reactions).max(initial=0),
-                    np.abs(N).max(initial=0), np.abs(lam).max(initial=0))
+                    np.abs(N).max(initial=0), np.abs(lam).max(initial=0),
+                    np.abs(k * delta0).max(initial=0), np.abs(k * G).max(initial=0),
+                    np.abs(W).max(initial=0))
         residual = float(np.abs(balance).max() / scale) if scale > 0 else 0.0
 
         opening = self.clearance - self.B @ u if g else np.zeros(0)
