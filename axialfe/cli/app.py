@@ -45,7 +45,9 @@ def exit_if_inaccurate(items):
     if items:
         label, message = items[0]
         more = f" (and {len(items) - 1} more)" if len(items) > 1 else ""
-        typer.echo(f"inaccurate: {label}{more}: {message}", err=True)
+        from ..errors import one_line
+
+        typer.echo(one_line(f"inaccurate: {label}{more}: {message}"), err=True)
         raise typer.Exit(EXIT_INACCURATE)
 
 # The reader itself reports a missing or unreadable file, on one line like every input error.

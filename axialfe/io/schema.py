@@ -25,6 +25,7 @@ __all__ = ["Key", "Table", "Range", "MODEL", "check_types", "check_range", "keys
            "range_of", "MAX_NAME_LENGTH"]
 
 MAX_NAME_LENGTH = 200
+MIN_MAGNITUDE = 1e-100   # the smallest size of a non-zero value in SI (subnormals break rounding)
 
 
 @dataclass(frozen=True)
@@ -256,11 +257,15 @@ def range_of(table: str | None, key: str | None) -> Range | None:
 def check_range(value, table, key) -> str | None:
     """The message when the SI ``value`` of ``key`` lies outside its range, else None."""
     rng = range_of(table, key)
-    if rng is None or not isinstance(value, float) or rng.holds(value):
+    if rng is None or not isinstance(value, float):
+        return None
+    if rng.holds(value) and not 0 < abs(value) < MIN_MAGNITUDE:
         return None
     if not math.isfinite(value):
         return f"{key} must be a finite number: got {value}"
     got = f"got {value:g} {rng.unit}".rstrip()
+    if rng.holds(value):  # in range but subnormal: no physical value in SI is this small
+        return f"{key} must be 0 or at least {MIN_MAGNITUDE:g}{_u(rng)} in size: {got}"
     if rng.low is not None and value <= 0 and (rng.low > 0 or (rng.low == 0 and rng.low_open)):
         return f"{key} must be positive: {got}"
     if rng.low == 0 and not rng.low_open and value < 0:
@@ -390,6 +395,9 @@ def _value(k, v, spec, fail, table, index, place, top):
     elif spec.type == "map":
         item_spec = spec.item
         for name, sub in v.items():
+            if len(name) > MAX_NAME_LENGTH:
+                fail(f"a name of {len(name)} characters is too long (at most {MAX_NAME_LENGTH})",
+                     k if top else table, index, None, k if top else place)
             where = f"{k}.{name}" if top else place
             if item_spec.type == "table":
                 if not isinstance(sub, dict):

@@ -284,6 +284,7 @@ def hostile_cases():
     add("name:between-ints", _with(gaps__0__between=[1, 2]))
     add("name:between-three", _with(gaps__0__between=["c", "d", "e"]))
     add("name:huge", _with(segments__0__name="n" * 5000))
+    add("name:huge-station", dumps(_set(BASE, ("stations", "s" * 300), "1 mm")))
     add("name:unknown-station", _with(segments__0__to="zz"))
     add("name:misspelt-material", _with(segments__0__material="steel-b"))
     add("name:misspelt-section", _with(segments__1__section="bars"))
