@@ -91,3 +91,20 @@ def test_a_segment_whose_force_contradicts_its_elongation_is_caught():
     n[0] *= 1.01
     bad, where = compatibility(system, case.u, du, n, terms, lam, case.gap_closed, 1e-16)
     assert bad > 1e-3 and where == "segment 'left' (elongation)"
+
+
+def test_a_gap_at_a_fixed_station_does_not_hide_a_wrong_state():
+    # found by the fuzzer: a gap at the supported station (no motion, zero flexibility)
+    # once loosened the force tolerance of the contact search so much that a state with a
+    # pulling contact passed; the certificate flagged it.  Statics: the stop at 'b' takes
+    # the whole 1 kN, 'c' does not move, so the 1 mm clearance at 'c' stays open.
+    st = [Station("a", 0.0), Station("b", 1e-3), Station("c", 2e-3)]
+    rod = area("rod", 7.853981633974483e-07)
+    segs = [Segment("ab", "a", "b", steel(E=1e9), rod), Segment("bc", "b", "c", steel(E=1e9), rod)]
+    gaps = [Gap("g0", ("a",), 1e-3, side="+x"), Gap("g1", ("b",), 0.0, side="+x"),
+            Gap("g2", ("c",), 1e-3, side="+x")]
+    case = solve(Model(st, segs, [Support("a")], [Load("b", 1e3)], gaps=gaps))["base"]
+    assert case.status == "ok"
+    assert [case.gap(g)["state"] for g in ("g0", "g1", "g2")] == ["open", "closed", "open"]
+    assert case.gap("g1")["force"] == pytest.approx(-1e3, rel=1e-12)
+    assert case.gap("g2")["opening"] == pytest.approx(1e-3, rel=1e-12)
