@@ -39,6 +39,15 @@ class AxialfeError(Exception):
     """Root of every error that axialfe raises on purpose."""
 
 
+# characters that would break a message's one line (TOML text may carry any of them)
+_LINE_BREAKS = {ord(c): repr(c)[1:-1] for c in "\n\r\x0b\x0c\x1c\x1d\x1e\x85\u2028\u2029"}
+
+
+def one_line(text: str) -> str:
+    """``text`` with line breaks shown as escapes, so a message stays on one line."""
+    return text.translate(_LINE_BREAKS)
+
+
 class ModelError(AxialfeError, ValueError):
     """A model (file or code) that is malformed, inconsistent or out of range.
 
@@ -89,7 +98,7 @@ class ModelError(AxialfeError, ValueError):
             body += f"; did you mean '{self.hint}'?"
         elif self.options:
             body += "; expected one of: " + ", ".join(f"'{o}'" for o in self.options)
-        return head + body
+        return one_line(head + body)
 
 
 class UnitError(ModelError):
@@ -117,5 +126,6 @@ class SolveError(AxialfeError, RuntimeError):
 
     def __str__(self) -> str:
         if self.file is None:
-            return self.message
-        return f"{self.file}:{self.line}: {self.message}" if self.line else f"{self.file}: {self.message}"
+            return one_line(self.message)
+        return one_line(f"{self.file}:{self.line}: {self.message}" if self.line
+                        else f"{self.file}: {self.message}")

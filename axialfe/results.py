@@ -64,6 +64,12 @@ class CaseResult:
         residual) exceeds :data:`RESIDUAL_BOUND`; never only printed.
     message : str or None
         What is wrong and what to do, when the status is not ok.
+    compatibility_defect : float
+        The worst disagreement of the displacements with the reported state
+        (segment elongations, closed gaps' openings, open gaps' forces, contact
+        force signs), relative to the numbers it comes from
+        (:mod:`axialfe.engine.certificate`); above :data:`RESIDUAL_BOUND` the
+        status is ``'inaccurate'``.
 
     Every array is the result's own copy and read-only.
     """
@@ -90,6 +96,7 @@ class CaseResult:
     fields: Fields | None = None
     status: str = "ok"
     message: str | None = None
+    compatibility_defect: float = 0.0
 
     def __post_init__(self):
         for key in _ARRAYS:
@@ -154,6 +161,7 @@ class CaseResult:
         return {"name": self.name, "stations": stations, "segments": segments,
                 "reactions": reactions, "gaps": gaps,
                 "equilibrium_residual": float(self.equilibrium_residual),
+                "compatibility_defect": float(self.compatibility_defect),
                 "status": self.status, "message": self.message,
                 "notes": list(self.notes)}
 

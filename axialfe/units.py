@@ -19,7 +19,8 @@ from .errors import UnitError
 
 __all__ = ["KINDS", "OutputUnits", "parse_quantity", "unit_factor", "to_unit", "describe",
            "temperature_to_kelvin", "kelvin_to_temperature", "split_quantity",
-           "unit_base", "kind_dimensions", "number_and_unit"]
+           "unit_base", "kind_dimensions", "number_and_unit", "check_unit_text",
+           "MAX_UNIT_LENGTH", "MAX_UNIT_EXPONENT"]
 
 # Each kind of value, the reference unit that fixes its dimension, and an example
 # shown when a unit is missing or wrong.
@@ -62,11 +63,62 @@ def _dimensionality(kind: str):
     return _registry().parse_units(KINDS[kind][0]).dimensionality
 
 
+# Limits on a unit's text, checked before pint sees it: pint evaluates exponents, so a
+# power tower ('mm^9^9^9') would run for hours.
+MAX_UNIT_LENGTH = 100
+MAX_UNIT_EXPONENT = 12
+_POWER = re.compile(r"\^|\*\*")
+_EXPONENT = re.compile(r"\s*\(?\s*([+-]?\s*(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*\)?")
+
+
+def check_unit_text(unit: str) -> None:
+    """Refuse a unit text that is too long, or whose exponents are not small plain numbers.
+
+    Every exponent must be a number of magnitude at most :data:`MAX_UNIT_EXPONENT`,
+    and nothing raised to a power may be raised again (no ``a^2^3``, no
+    ``(a^2)^3``): the size of the result is then bounded before it is computed.
+    """
+    if len(unit) > MAX_UNIT_LENGTH:
+        raise UnitError(f"unit '{unit[:20]}...' is longer than {MAX_UNIT_LENGTH} characters")
+    depth_power = [False]  # per parenthesis level: does it contain a power already?
+    i, n = 0, len(unit)
+    last_powered = False   # the operand just before is itself a power
+    while i < n:
+        ch = unit[i]
+        m = _POWER.match(unit, i)
+        if m:
+            e = _EXPONENT.match(unit, m.end())
+            if not e:
+                raise UnitError(f"unit '{unit}': an exponent must be a plain number")
+            value = float(e.group(1).replace(" ", ""))
+            if abs(value) > MAX_UNIT_EXPONENT:
+                raise UnitError(f"unit '{unit}': exponent {e.group(1).strip()} is out of range "
+                                f"(at most {MAX_UNIT_EXPONENT} in size)")
+            if last_powered:
+                raise UnitError(f"unit '{unit}': a power of a power is not accepted; write "
+                                "one exponent")
+            depth_power[-1] = True
+            last_powered = True
+            i = e.end()
+            continue
+        if ch == "(":
+            depth_power.append(False)
+        elif ch == ")":
+            inner = depth_power.pop() if len(depth_power) > 1 else False
+            last_powered = inner
+            i += 1
+            continue
+        if not ch.isspace():
+            last_powered = False
+        i += 1
+
+
 @functools.lru_cache(maxsize=4096)
 def _parse_unit(unit: str):
     """Return (scale, offset, dimensionality) taking ``unit`` to SI base units."""
     import pint
 
+    check_unit_text(unit)
     ureg = _registry()
     text = unit.strip()
     if text.startswith("/"):

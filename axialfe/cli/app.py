@@ -33,6 +33,18 @@ def checks_exit(checks) -> int:
     return EXIT_STATUS[checks.status]
 
 
+MAX_STEPS = 100_000   # grid points of a sweep
+CLOSED_FORM_SECONDS = 120   # the longest a closed form may take before it is refused
+
+
+def check_count(option, value, most):
+    """A count from the command line within its stated bounds."""
+    if value > most:
+        from ..errors import ModelError
+
+        raise ModelError(f"must be at most {most}: got {value}", place=option)
+
+
 def exit_if_inaccurate(items):
     """Exit with code 4 after the output when any result is inaccurate.
 
@@ -43,7 +55,9 @@ def exit_if_inaccurate(items):
     if items:
         label, message = items[0]
         more = f" (and {len(items) - 1} more)" if len(items) > 1 else ""
-        typer.echo(f"inaccurate: {label}{more}: {message}", err=True)
+        from ..errors import one_line
+
+        typer.echo(one_line(f"inaccurate: {label}{more}: {message}"), err=True)
         raise typer.Exit(EXIT_INACCURATE)
 
 # The reader itself reports a missing or unreadable file, on one line like every input error.
@@ -66,13 +80,32 @@ Output = Annotated[Optional[Path], typer.Option("--output", "-o", dir_okay=False
 
 
 @contextlib.contextmanager
-def user_errors():
-    """Turn the project's errors into one line on stderr and exit code 2."""
+def user_errors(source=None):
+    """Turn the project's errors into one line on stderr and exit code 2.
+
+    The numerics run with floating-point trouble raised, not warned: nothing but
+    the one error line reaches stderr (see :mod:`axialfe.cli.guards`).
+    """
+    from .guards import numerics_guarded
+
     try:
-        yield
+        with numerics_guarded(source):
+            yield
     except AxialfeError as exc:
         typer.echo(f"error: {exc}", err=True)
         raise typer.Exit(EXIT_INPUT) from None
+
+
+def outputs(inputs, *named):
+    """Check every output path a command was given before anything is read or written.
+
+    ``named`` are ``(option, path)``; a path of None is not given.
+    """
+    from ..io.files import check_output
+
+    given = [(o, p) for o, p in named if p is not None]
+    for i, (option, path) in enumerate(given):
+        check_output(path, [p for p in inputs if p is not None], option, others=given[:i])
 
 
 def output_units(model, force=None, length=None, displacement=None, stress=None):
@@ -122,8 +155,10 @@ def emit(text: str, output: Path | None):
     if output is None:
         typer.echo(text, nl=False)
     else:
+        from ..io.files import write_text
+
         try:
-            output.write_text(text, encoding="utf-8")
+            write_text(output, text)  # atomic: a failing write leaves the folder as it was
         except OSError as exc:
             from ..errors import ModelError
 
@@ -140,7 +175,8 @@ def solve(model: ModelPath,
     from ..output.text import render
     from ..engine.system import solve as run
 
-    with user_errors():
+    with user_errors(model):
+        outputs([model], ("--output", output))
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         from ..checks import check_solution
@@ -157,13 +193,16 @@ def init(path: Annotated[Path, typer.Argument(dir_okay=False, help="Where to wri
     """Write a commented starter model that solves as it is."""
     from importlib import resources
 
+    from ..io.files import write_text
+
     with user_errors():
+        outputs([], ("PATH", path))
         if path.exists() and not force:
             from ..errors import ModelError
 
             raise ModelError("the file exists already; use --force to overwrite it", file=str(path))
         text = resources.files("axialfe.cli").joinpath("starter.toml").read_text(encoding="utf-8")
-        path.write_text(text, encoding="utf-8")
+        write_text(path, text)
         typer.echo(f"wrote {path}; solve it with: axialfe solve {path}")
 
 
@@ -213,7 +252,13 @@ def sweep(model: ModelPath,
     from ..tracking.sweep import parse_range, sweep as run
     from ..output.sweeptext import sweep_csv, sweep_json, sweep_summary
 
-    with user_errors():
+    with user_errors(model):
+        outputs([model], ("--output", output), ("--plot", plot))
+        if plot is not None:
+            from ..output.plot import _suffix
+
+            _suffix(plot)  # a figure's format is checked before any output is written
+        check_count("--steps", steps, MAX_STEPS)
         given = [(p, v) for p, v in (("temperature_change", temperature_change),
                                      ("temperature", temperature), ("load_factor", load_factor))
                  if v is not None]
@@ -223,6 +268,9 @@ def sweep(model: ModelPath,
         parameter, text = given[0]
         start, stop, unit = parse_range(text, parameter)
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
+        from ..io.physical import check_sweep_range
+
+        check_sweep_range(m, parameter, start, stop, unit)
         result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case)
         long = steps * max(len(m.segments), 1) > 200_000 and format is not SweepFormat.table
         if format is SweepFormat.table:
@@ -310,7 +358,12 @@ def closed_form(model: ModelPath,
     from ..symbolic.closed_form import (closed_form_dict, closed_form_text, numeric_model, solve_symbolic,
                            used_symbols)
 
-    with user_errors():
+    from .guards import time_limit
+
+    with user_errors(model), time_limit(
+            CLOSED_FORM_SECONDS, f"the closed form takes longer than {CLOSED_FORM_SECONDS} s; "
+            "give more symbols a value, or fewer symbols", model):
+        outputs([model], ("--output", output))
         m = read_model(model, symbolic=True)
         units = output_units(m, force_unit, length_unit, displacement_unit, stress_unit)
         assumed = _parse_assume(assume, [g.name for g in m.gaps])
@@ -388,7 +441,8 @@ def check(model: ModelPath,
     from ..output.text import checks_json, checks_table
     from ..engine.system import solve as run
 
-    with user_errors():
+    with user_errors(model):
+        outputs([model], ("--output", output))
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         report = check_solution(solution)
@@ -414,7 +468,8 @@ def plot(model: ModelPath,
     from ..output.plot import WHAT, _suffix, plot_case
     from ..engine.system import solve as run
 
-    with user_errors():
+    with user_errors(model):
+        outputs([model], ("--output", output))
         if what not in WHAT:
             raise ModelError(f"--what: unknown diagram '{what}'", hint=suggest(what, WHAT),
                              options=WHAT)
@@ -446,7 +501,8 @@ def report(model: ModelPath,
 
     from ..fits.reader import is_fit_file
 
-    with user_errors():
+    with user_errors(model):
+        outputs([model], ("--output", output))
         fmt = report_format(output, format.value if format else None)
         from ..joints import is_joint_file
 
@@ -485,7 +541,8 @@ def fit(fit: Annotated[Path, typer.Argument(help="The fit file (TOML).")],
     """
     from ..output.fittext import fit_json, fit_table
 
-    with user_errors():
+    with user_errors(fit):
+        outputs([fit], ("--output", output))
         result, units = _solved_fit(fit, force_unit, length_unit, stress_unit, torque_unit)
         render = fit_json if format is CheckFormat.json else fit_table
         emit(render(result, units), output)

@@ -40,9 +40,11 @@ def block_principal_pivoting(M, q, scale_q):
     from scipy.linalg import cho_factor, cho_solve
 
     n = len(q)
-    diag = np.maximum(np.diag(M), 1e-300)
+    diag = np.diag(M)
     tol_w = 1e-11 * scale_q
-    tol_z = 1e-11 * np.max(scale_q / diag) if n else 0.0
+    # a gap between stations that cannot move has a zero diagonal: it sets no force scale
+    movable = diag > 0
+    tol_z = 1e-11 * np.max(scale_q / diag[movable]) if movable.any() else 0.0
     closed = q < -tol_w
     best, budget = n + 1, 3
     for _ in range(50 * n + 100):

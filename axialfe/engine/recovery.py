@@ -13,7 +13,8 @@ import numpy as np
 
 from ..mechanics import Fields, end_forces
 from ..model.cases import LoadState
-from ..results import CaseResult, certify
+from ..results import CaseResult
+from .certificate import check_unique_gaps, compatibility, status_of
 
 __all__ = ["recover", "gap_tolerance"]
 
@@ -76,14 +77,22 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     station_noise = (np.bincount(asm.start, noise, minlength=asm.n)
                      + np.bincount(asm.end, noise, minlength=asm.n) + noise_R)
     balance = np.where(np.abs(balance) <= station_noise, 0.0, balance)
+    # the forces the free changes of length and the loads would cause if held count
+    # too: free thermal growth has no force of its own to measure rounding against
     scale = max(np.abs(state.forces).max(initial=0), np.abs(reactions).max(initial=0),
-                np.abs(N).max(initial=0), np.abs(lam).max(initial=0))
+                np.abs(N).max(initial=0), np.abs(lam).max(initial=0),
+                np.abs(k * delta0).max(initial=0), np.abs(k * G).max(initial=0),
+                np.abs(W).max(initial=0))
     residual = float(np.abs(balance).max() / scale) if scale > 0 else 0.0
 
     opening = system.clearance - system.B @ u if g else np.zeros(0)
     if closed is None:
         closed = opening <= gap_tolerance(system, u, delta0, F) if g else np.zeros(0, dtype=bool)
     closed = np.asarray(closed, dtype=bool)
+    # the rest of the certificate: compatibility, and gap forces that are unique
+    tol_gap = gap_tolerance(system, u, delta0, F)
+    defect, defect_at = compatibility(system, u, du, n_from, terms, lam, closed, tol_gap)
+    check_unique_gaps(system, lam, closed, opening, tol_gap, state.name)
     # an overlap at the level of rounding shows as 0; a real one would stay visible
     tiny = (opening < 0) & (opening >= -gap_tolerance(system, u, delta0, F)) if g else closed
     opening = np.where(closed | tiny, 0.0, opening)
@@ -101,7 +110,8 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
         thermal_strain=asm.expansion * state.dT, temperature_change=state.dT,
         length=asm.length, reactions=reactions, applied=state.forces, gap_force=gap_force,
         gap_opening=opening, gap_closed=closed, equilibrium_residual=residual, fields=fields,
-        **dict(zip(("status", "message"), certify(residual))))
+        compatibility_defect=defect,
+        **dict(zip(("status", "message"), status_of(residual, defect, defect_at))))
 
 
 def gap_tolerance(system, u, delta0=None, F=None):

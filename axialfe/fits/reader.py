@@ -50,10 +50,13 @@ _FIT_LINE = re.compile(r"^[ \t]*(?:\[[ \t]*fit[ \t]*\]|fit[ \t]*=)", re.MULTILIN
 
 def is_fit_file(path) -> bool:
     """True when ``path`` is a readable TOML file that describes a fit."""
+    from ..io.limits import check_text, read_input
+
     try:
-        text = Path(path).read_text(encoding="utf-8")
+        text = read_input(path)  # a regular file within the size limit, or not a fit
+        check_text(text)
         return bool(_FIT_LINE.search(text)) and is_fit_data(tomllib.loads(text))
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError, ModelError, RecursionError):
         return False  # the model reader reports it
 
 
@@ -283,9 +286,12 @@ def parse_fit(text: str, source: str | None = None) -> PressFit:
 
 def read_fit(path) -> PressFit:
     """Read a fit file (TOML); see :func:`parse_fit`."""
+    from ..io.limits import check_text, read_input
+
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        text = read_input(path)
+        check_text(text, str(path))
     except FileNotFoundError:
         raise ModelError("the fit file does not exist", file=str(path)) from None
     except IsADirectoryError:

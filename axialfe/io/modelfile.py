@@ -20,31 +20,22 @@ from ..errors import ModelError, suggest
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
+from . import limits, schema
+from .physical import check_absolute_temperatures, check_segment_lengths
+from .schema import check_range, check_types, keys_of
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
 
-_TOP_KEYS = ("title", "settings", "units", "materials", "sections", "stations", "segments",
-             "supports", "loads", "gaps", "cases", "combinations", "checks", "limits", "symbols",
-             "claims", "claims_file")  # the last two: stated values, read by io.claims
+# the keys each table allows come from the declarative schema (axialfe.io.schema)
+_TOP_KEYS = keys_of(schema.MODEL)
 _KEYS = {
-    "settings": ("reference_temperature", "temperature_change", "temperature", "gravity"),
-    "units": ("system", "force", "length", "displacement", "stress"),
-    "material": ("elastic_modulus", "thermal_expansion", "yield_strength", "density", "source",
-                 "description", "poissons_ratio"),
-    "section": ("shape", "diameter", "outer_diameter", "wall_thickness", "inner_diameter",
-                "width", "height", "area", "second_moment"),
-    "segment": ("name", "from", "to", "material", "section", "end_section", "temperature_change",
-                "temperature", "misfit", "distributed_load", "buckling_length",
-                "effective_length_factor", "preload"),
-    "support": ("at", "kind", "stiffness", "displacement"),
-    "load": ("at", "force"),
-    "gap": ("name", "between", "at", "side", "clearance", "kind"),
-    "case": ("name", "loads", "temperature_change", "temperature", "settlements"),
-    "settlement": ("at", "displacement"),
-    "combination": ("name", "factors"),
-    "checks": ("safety_factor", "effective_length_factor", "column_curve"),
-    "station": ("x", "braced"),
-    "limit": ("at", "displacement", "gap", "min_opening"),
+    "settings": keys_of(schema.SETTINGS), "units": keys_of(schema.UNITS),
+    "material": keys_of(schema.MATERIAL), "section": keys_of(schema.SECTION),
+    "segment": keys_of(schema.SEGMENT), "support": keys_of(schema.SUPPORT),
+    "load": keys_of(schema.LOAD), "gap": keys_of(schema.GAP), "case": keys_of(schema.CASE),
+    "settlement": keys_of(schema.SETTLEMENT), "combination": keys_of(schema.COMBINATION),
+    "checks": keys_of(schema.CHECKS), "station": keys_of(schema.STATION),
+    "limit": keys_of(schema.LIMIT),
 }
 _SECTION_KINDS = {"diameter": "length", "outer_diameter": "length", "wall_thickness": "length",
                   "inner_diameter": "length", "width": "length", "height": "length",
@@ -87,6 +78,10 @@ class _Locator:
                 return line
             # an inline table stands on one line: the key is there, or the child is
             return self._key_line(line - 1, line, key) or line
+        if span is None and table:  # a sub-table of it, e.g. [material.m] for 'material'
+            for line, name, _ in self.headers:
+                if name.startswith(table + "."):
+                    return line + 1
         if span is None:
             top = table.split(".")[0] if table else None
             return self._key_line(0, len(self.lines), top) if top else None
@@ -153,6 +148,9 @@ class _Reader:
         raise ModelError(message, place=place, file=self.source, line=self.line(table, index, key),
                          hint=hint, options=options)
 
+    def _schema_fail(self, message, table, index, key, place, hint=None, options=None):
+        self.fail(message, table, index, key, place=place, hint=hint, options=options)
+
     def line(self, table=None, index=None, key=None):
         return self.locator.find(table, index, key) if self.locator else None
 
@@ -168,12 +166,23 @@ class _Reader:
         """Convert one value to SI, locating any unit error at ``key``."""
         try:
             if self.symbolic or (isinstance(value, str) and self._is_expression(value)):
-                return self.expression(value, kind)
-            return parse_quantity(value, kind)
+                si = self.expression(value, kind)
+            else:
+                si = parse_quantity(value, kind)
         except ModelError as exc:
             raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source,
                              line=self.line(table, index, key), hint=exc.hint,
                              options=exc.options) from exc
+        self.in_range(si, table, index, key, place, value)
+        return si
+
+    def in_range(self, si, table, index, key, place, raw=None):
+        """Refuse a value outside the physical range the schema gives its key."""
+        problem = check_range(si, table, key)
+        if problem is not None:
+            if isinstance(raw, str):
+                problem = problem.rsplit(": got ", 1)[0] + f": got '{raw}'"
+            self.fail(problem, table, index, key, place=place)
 
     # --- closed form: symbols and expressions ------------------------------
     _OPERATOR = re.compile(r"[-+*()]")
@@ -233,6 +242,7 @@ class _Reader:
     def number(self, value, *, table=None, index=None, key=None, place=None):
         if isinstance(value, bool) or not isinstance(value, (int, float)):
             self.fail(f"{key}: expected a plain number: got {value!r}", table, index, key, place=place)
+        self.in_range(float(value), table, index, key, place)
         return float(value)
 
     def text(self, value, *, table=None, index=None, key=None, place=None):
@@ -354,10 +364,11 @@ class _Reader:
     # --- the whole model ------------------------------------------------
     def model(self) -> Model:
         data = self.data
+        if isinstance(data.get("bolt"), dict):  # axialfe.joints reads these
+            self.fail("this is a bolted-joint file (it has a [bolt] table): run 'axialfe "
+                      "joint' on it", "bolt", place="top level")
+        check_types(data, self._schema_fail)
         for key in data:
-            if key == "bolt" and isinstance(data[key], dict):  # axialfe.joints reads these
-                self.fail("this is a bolted-joint file (it has a [bolt] table): run 'axialfe "
-                          "joint' on it", "bolt", place="top level")
             if key not in _TOP_KEYS:
                 self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
                           else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))
@@ -377,7 +388,9 @@ class _Reader:
             units = OutputUnits.system(units_entry.get("system", "SI"),
                                        **{k: v for k, v in units_entry.items() if k != "system"})
         except ModelError as exc:
-            key = next((k for k, v in units_entry.items() if f"'{v}'" in exc.message), None)
+            key = next((k for k, v in units_entry.items() if k != "system"
+                        and not _unit_ok(units_entry.get("system", "SI"), k, v)),
+                       "system" if "system" in units_entry else None)
             raise type(exc)(f"{key}: {exc.message}" if key else exc.message, place="units",
                             file=self.source, line=self.line("units", None, key), hint=exc.hint,
                             options=exc.options) from exc
@@ -570,7 +583,7 @@ class _Reader:
             limits.append(self.build(Limit, kwargs, "limits", i, place))
 
         try:
-            return Model(stations=tuple(stations), segments=tuple(segments),
+            model = Model(stations=tuple(stations), segments=tuple(segments),
                          supports=tuple(supports), loads=loads, gaps=tuple(gaps),
                          cases=tuple(cases), combinations=tuple(combinations),
                          temperature_change=default_dt, gravity=gravity,
@@ -579,6 +592,9 @@ class _Reader:
                          symbols=tuple(self.symbols.values()), lines=self.name_lines())
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
+        check_segment_lengths(model, self._line_of_place)
+        check_absolute_temperatures(model, self._line_of_place)
+        return model
 
     def name_lines(self) -> dict:
         """The lines of ``'stations.<name>'``, ``'gaps.<name>'`` and ``'segments.<name>'``
@@ -649,6 +665,15 @@ def _key_in(message: str, keys) -> str | None:
     return min(found)[1] if found else None
 
 
+def _unit_ok(system, key, value) -> bool:
+    """Whether one output unit of ``[units]`` is good on its own (to locate an error)."""
+    try:
+        OutputUnits.system(system if system in ("SI", "US") else "SI", **{key: value})
+    except ModelError:
+        return False
+    return True
+
+
 def _expr():
     """The expression parser, imported when a model needs it."""
     from ..symbolic import expressions
@@ -689,13 +714,20 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
     ModelError
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
+    text = text[1:] if text.startswith("\ufeff") else text  # a byte-order mark is no content
+    limits.check_text(text, source)
     try:
         with gc_paused():
             data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
+        end = "end of document" in str(exc)  # TOML's own count: the last line
         raise ModelError(f"not valid TOML: {exc}", file=source,
-                         line=int(m.group(1)) if m else None) from exc
+                         line=int(m.group(1)) if m else (text.count("\n") + 1 if end else None)
+                         ) from exc
+    except RecursionError:  # a backstop: the scan above refuses deep nesting first
+        raise ModelError(f"arrays and tables nest deeper than {limits.MAX_DEPTH} levels",
+                         file=source) from None
     with gc_paused():
         return _Reader(data, source, text, symbolic).model()
 
@@ -704,7 +736,7 @@ def read_model(path, symbolic: bool = False) -> Model:
     """Read a model file (TOML); see :func:`parse_model`."""
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        text = limits.read_input(path)
     except FileNotFoundError:
         raise ModelError("the model file does not exist", file=str(path)) from None
     except IsADirectoryError:

@@ -580,10 +580,14 @@ class Model:
         if self.cases and self.loads:
             raise ModelError("top-level loads are not allowed when the model has cases; "
                              "move them into a case", place="loads")
-        for comb in self.combinations:
-            place = f"combinations ('{comb.name}')"
+        comb_names = set()
+        for i, comb in enumerate(self.combinations):
+            place = f"combinations[{i + 1}] ('{comb.name}')"
             if comb.name in case_names:
                 raise ModelError(f"the name '{comb.name}' is already a case", place=place)
+            if comb.name in comb_names:
+                raise ModelError(f"two combinations are named '{comb.name}'", place=place)
+            comb_names.add(comb.name)
             for case_name, _ in comb.factors:
                 if case_name not in case_names:
                     raise ModelError(f"unknown case '{case_name}'", place=place,

@@ -147,8 +147,10 @@ def write_fit_report(result: FitResult, path, fmt: str | None = None,
     fmt = report_format(path, fmt)
     build = build_fit_html if fmt == "html" else build_fit_markdown
     text = build(result, units, date)
+    from ..io.files import write_text
+
     try:
-        path.write_text(text, encoding="utf-8")
+        write_text(path, text)  # atomic: a failing write leaves no partial report
     except OSError as exc:
         raise ModelError(f"cannot write the report: {exc}", file=str(path)) from exc
     return path

@@ -481,8 +481,11 @@ def save_figure(fig, path, dpi: int = DPI):
     FigureCanvasAgg(fig)
     fmt = suffix[1:]
     meta = {"Date": None} if fmt == "svg" else {}
+    from ..io.files import atomic_path
+
     try:
-        fig.savefig(path, format=fmt, dpi=max(dpi, DPI), metadata=meta)
+        with atomic_path(path) as tmp:  # a failing write leaves no partial figure
+            fig.savefig(tmp, format=fmt, dpi=max(dpi, DPI), metadata=meta)
     except OSError as exc:
         raise ModelError(f"cannot write the figure: {exc}", file=str(path)) from exc
 

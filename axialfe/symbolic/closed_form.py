@@ -21,6 +21,7 @@ assumed positive, unless its value says otherwise.
 from __future__ import annotations
 
 import dataclasses
+import math
 from dataclasses import dataclass, field
 from fractions import Fraction
 
@@ -653,27 +654,46 @@ def numeric_model(model: Model) -> Model:
     subs = {k: v for k, v in values.items() if v is not None}
     memo = {}
 
-    def conv(obj):
+    def conv(obj, where=""):
         if isinstance(obj, sympy.Basic):
             v = obj.xreplace(subs)
             if v.free_symbols:
                 names = ", ".join(sorted(f"'{s.name}'" for s in v.free_symbols))
                 raise ModelError(f"symbol(s) {names} have no value, so the model cannot be solved "
                                  "numerically", file=model.source)
-            return float(v)
+            return _finite_real(obj, v, where, subs, model.source)
         if dataclasses.is_dataclass(obj) and not isinstance(obj, type):
             if id(obj) in memo:
                 return memo[id(obj)]
-            changes = {f.name: conv(getattr(obj, f.name)) for f in dataclasses.fields(obj)
+            label = type(obj).__name__.lower()
+            own = f"{label} '{obj.name}'" if isinstance(getattr(obj, "name", None), str) else label
+            changes = {f.name: conv(getattr(obj, f.name), f"{own} {f.name}")
+                       for f in dataclasses.fields(obj)
                        if f.name not in ("symbols", "units", "source", "title")}
             new = dataclasses.replace(obj, **changes)
             memo[id(obj)] = new
             return new
         if isinstance(obj, tuple):
-            return tuple(conv(o) for o in obj)
+            return tuple(conv(o, where) for o in obj)
         return obj
 
     return conv(model)
+
+
+def _finite_real(expr, value, where, subs, source) -> float:
+    """``value`` as a float, or one error naming the place and the symbol values."""
+    try:
+        z = complex(value.evalf(30))
+    except (TypeError, ValueError, OverflowError):
+        z = complex("nan")
+    if z.imag == 0 and math.isfinite(z.real):
+        return float(z.real)
+    used = sorted(expr.free_symbols, key=lambda s: s.name)
+    shown = ", ".join(f"{s.name} = {float(subs[s]):g}" for s in used if s in subs)
+    what = ("not a real number" if math.isfinite(z.imag) and z.imag != 0 and math.isfinite(z.real)
+            else "not a finite number")
+    raise ModelError(f"{where}: '{expr}' is {what} for the symbol values"
+                     + (f" {shown} (SI)" if shown else ""), file=source)
 
 
 # --- reports -------------------------------------------------------------------------

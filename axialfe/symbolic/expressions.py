@@ -186,6 +186,23 @@ class Expression:
         return ev(self.tree)
 
 
+def _power_of(node) -> Fraction:
+    """The largest total exponent a subtree raises its leaves to (1 for none)."""
+    best, stack = Fraction(1), [(node, Fraction(1))]
+    while stack:
+        item, factor = stack.pop()
+        op = item[0]
+        if op == "pow":
+            factor = factor * abs(item[2])
+            best = max(best, factor)
+            stack.append((item[1], factor))
+        elif op in ("neg",):
+            stack.append((item[1], factor))
+        elif op in ("add", "mul", "div"):
+            stack.extend(((item[1], factor), (item[2], factor)))
+    return best
+
+
 class _Parser:
     """Recursive descent over the tokens of one value."""
 
@@ -297,6 +314,11 @@ class _Parser:
             exp = sign * exp
             if abs(exp) > _MAX_POWER or exp.denominator > _MAX_POWER:
                 self.fail(f"an exponent of {exp} is out of range (at most {_MAX_POWER})")
+            # the bound holds for the nesting too: ((a^16)^16) is a^256
+            total = _power_of(base[0]) * abs(exp)
+            if total > _MAX_POWER:
+                self.fail(f"powers of powers raise to {total} in total, out of range (at most "
+                          f"{_MAX_POWER})")
             dims = _dims({k: v * exp for k, v in base[1]})
             return ("pow", base[0], exp), dims
         return base
