@@ -26,7 +26,7 @@ from .assembly import Assembly, assemble, element_loads
 from .constraints import unilateral
 from .contact import solve_gaps
 from .dofs import degrees_of_freedom
-from .factor import factorise
+from .factor import band_of, factorise
 from .recovery import recover
 
 __all__ = ["System", "solve"]
@@ -61,14 +61,73 @@ class System:
         self.x = np.array([st.x for st in model.stations], dtype=float)
         self.cons = cons = unilateral(model, n)
         self.dofs = dofs = degrees_of_freedom(model, asm.start, asm.end, cons)
-        self.K = asm.K + sp.diags(np.bincount(dofs.spring_at, dofs.spring_k, minlength=n)
-                                  .astype(float), format="csr")
-        self.abs_K = abs(self.K)
-        Kc = self.K.tocsc()
-        self.K_fr = Kc[dofs.free][:, dofs.restrained].tocsr()
-        self.factor = (factorise(Kc[dofs.free][:, dofs.free], method, model.source)
-                       if len(dofs.free) else None)
+        self.spring_diagonal = np.bincount(dofs.spring_at, dofs.spring_k,
+                                           minlength=n).astype(float)
+        free = dofs.free
+        nf = len(free)
+        # the stations' places among the unknowns, and the segments that tie a free
+        # station to a restrained one (their -k moves prescribed values to the loads)
+        self._free_index = fidx = np.full(n, -1)
+        fidx[free] = np.arange(nf)
+        fs, fe = fidx[asm.start], fidx[asm.end]
+        tie_s, tie_e = (fs >= 0) & (fe < 0), (fe >= 0) & (fs < 0)
+        ridx = np.full(n, -1)
+        ridx[dofs.restrained] = np.arange(len(dofs.restrained))
+        self.K_fr = sp.csr_matrix(
+            (-np.concatenate([asm.stiffness[tie_s], asm.stiffness[tie_e]]),
+             (np.concatenate([fs[tie_s], fe[tie_e]]),
+              np.concatenate([ridx[asm.end[tie_s]], ridx[asm.start[tie_e]]]))),
+            shape=(nf, len(dofs.restrained)))
+        self._K = self._abs_K = None
+        self.factor = (factorise(self._K_ff, method, model.source, band=self._band)
+                       if nf else None)
         self._M = None
+
+    def _band(self):
+        """The free-free stiffness as a band over the free stations numbered by x."""
+        free, asm = self.free, self.asm
+        xf = self.x[free]
+        if len(xf) < 2 or np.all(xf[1:] >= xf[:-1]):
+            order, pos = None, self._free_index
+        else:
+            order = np.argsort(xf, kind="stable")
+            pos = np.full(asm.n, -1)
+            pos[free[order]] = np.arange(len(free))
+        band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness, self.spring_diagonal)
+        band.order = order
+        return band
+
+    def _K_ff(self):
+        free = self.free
+        return self.K.tocsc()[free][:, free]
+
+    @property
+    def K(self):
+        """The global stiffness, springs included (scipy.sparse, built on first use)."""
+        if self._K is None:
+            import scipy.sparse as sp
+
+            self._K = self.asm.K + sp.diags(self.spring_diagonal, format="csr")
+        return self._K
+
+    @property
+    def abs_K(self):
+        """|K| entrywise (built on first use)."""
+        if self._abs_K is None:
+            self._abs_K = abs(self.K)
+        return self._abs_K
+
+    def stiffness_times(self, u, magnitude=False):
+        """``K @ u`` (or ``|K| @ u`` with ``magnitude``) from the segment arrays, for u (n,)."""
+        asm = self.asm
+        k = asm.stiffness
+        if magnitude:
+            t = k * (u[asm.start] + u[asm.end])
+            return (np.bincount(asm.start, t, minlength=asm.n)
+                    + np.bincount(asm.end, t, minlength=asm.n) + self.spring_diagonal * u)
+        t = k * (u[asm.end] - u[asm.start])
+        return (np.bincount(asm.end, t, minlength=asm.n)
+                - np.bincount(asm.start, t, minlength=asm.n) + self.spring_diagonal * u)
 
     # the parts of the system that recovery, contact and sweeps read
     clearance = property(lambda self: self.cons.clearance)
@@ -177,8 +236,10 @@ def solve(model: Model, method: str = "auto") -> Solution:
     Parameters
     ----------
     model : Model
-    method : {'auto', 'sparse-lu'}
-        The factorisation of the stiffness (one for all cases).
+    method : {'auto', 'banded', 'sparse-lu'}
+        The factorisation of the stiffness (one for all cases): the banded
+        Cholesky of the unknowns numbered by x, the sparse LU, or ``'auto'``
+        (the band where it is narrow).
 
     Examples
     --------
