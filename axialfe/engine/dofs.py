@@ -81,17 +81,21 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
     seg = sp.coo_matrix((np.ones(len(start)), (start, end)), shape=(n, n))
     n_seg, seg_label = connected_components(seg, directed=False)
     two = cons.b >= 0
-    gap_edges = sp.coo_matrix((np.ones(int(two.sum())), (cons.a[two], cons.b[two])), shape=(n, n))
-    n_all, all_label = connected_components(seg + gap_edges, directed=False)
+    if two.any():
+        gap_edges = sp.coo_matrix((np.ones(int(two.sum())), (cons.a[two], cons.b[two])),
+                                  shape=(n, n))
+        n_all, all_label = connected_components(seg + gap_edges, directed=False)
+    else:  # no gap joins two stations: the parts are the segments' own
+        n_all, all_label = n_seg, seg_label
     grounded = held.copy()
     grounded[cons.a[~two]] = True
     comp_grounded = np.bincount(all_label, grounded, minlength=n_all) > 0
-    names = [st.name for st in model.stations]
     used = np.zeros(n, dtype=bool)
     used[start] = used[end] = True
     used[cons.a] = True
     used[cons.b[two]] = True
     for c in np.flatnonzero(~comp_grounded):
+        names = [st.name for st in model.stations]
         members = [names[i] for i in np.flatnonzero(all_label == c)]
         line = model.line_of(f"stations.{members[0]}")
         if len(members) == 1 and not used[all_label == c].any():

@@ -16,17 +16,21 @@ with ``M = B K^-1 B^T`` built from the one factorisation.
 
 from __future__ import annotations
 
+import operator
+
 import numpy as np
 
 from ..errors import SolveError
 from ..model import Model
 from ..model.cases import LoadState, load_states
 from ..results import CaseResult, Solution
+from .active_set import active_set, ground_gaps
 from .assembly import Assembly, assemble, element_loads
 from .constraints import unilateral
 from .contact import solve_gaps
 from .dofs import degrees_of_freedom
 from .factor import band_of, factorise
+from .pivoting import SOLVED
 from .recovery import recover
 
 __all__ = ["System", "solve"]
@@ -58,7 +62,8 @@ class System:
         self.model = model
         self.asm = asm = asm if asm is not None else assemble(model)
         n = asm.n
-        self.x = np.array([st.x for st in model.stations], dtype=float)
+        self.x = np.fromiter(map(operator.attrgetter("x"), model.stations), dtype=float,
+                             count=n)
         self.cons = cons = unilateral(model, n)
         self.dofs = dofs = degrees_of_freedom(model, asm.start, asm.end, cons)
         self.spring_diagonal = np.bincount(dofs.spring_at, dofs.spring_k,
@@ -79,6 +84,8 @@ class System:
               np.concatenate([ridx[asm.end[tie_s]], ridx[asm.start[tie_e]]]))),
             shape=(nf, len(dofs.restrained)))
         self._K = self._abs_K = None
+        self.band = self._ground = None
+        self.last_contact = None   # ('active-set' or 'exact', factorisations) of the last search
         self.factor = (factorise(self._K_ff, method, model.source, band=self._band)
                        if nf else None)
         self._M = None
@@ -87,14 +94,24 @@ class System:
         """The free-free stiffness as a band over the free stations numbered by x."""
         free, asm = self.free, self.asm
         xf = self.x[free]
-        if len(xf) < 2 or np.all(xf[1:] >= xf[:-1]):
+        ascending = len(xf) < 2 or bool(np.all(xf[1:] >= xf[:-1]))
+        # Eliminate from the end away from the supports: back substitution then ends
+        # at the supported end, whose small displacements are not computed from the
+        # large ones of the far end (an unloaded segment there keeps an exact zero force).
+        x_held = self.x[self.restrained]
+        lower = np.count_nonzero(x_held < 0.5 * (self.x.min() + self.x.max())) if len(xf) else 0
+        reverse = 2 * lower > len(x_held)
+        if ascending and not reverse:
             order, pos = None, self._free_index
         else:
-            order = np.argsort(xf, kind="stable")
+            order = np.arange(len(xf)) if ascending else np.argsort(xf, kind="stable")
+            if reverse:
+                order = order[::-1].copy()
             pos = np.full(asm.n, -1)
             pos[free[order]] = np.arange(len(free))
         band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness, self.spring_diagonal)
         band.order = order
+        self.band = band
         return band
 
     def _K_ff(self):
@@ -220,8 +237,44 @@ class System:
             none = (np.zeros(0), np.zeros(self.n_parts))
             return none + (np.zeros(0, dtype=bool),) if with_state else none
         o0, f = self.gap_problem(F, u_presc)
+        at = self._ground_gaps()
+        if at is not None:
+            found = self._active_set(at, F, u_presc, o0)
+            if found is not None:
+                return found if with_state else found[:2]
         M, H = self.gap_matrix
+        self.last_contact = ("exact", 0)
         return solve_gaps(M, H, o0, f, self, label, with_state=with_state)
+
+    def _ground_gaps(self):
+        """Band positions of the gaps, where the banded active-set search applies (else None)."""
+        if self._ground is None:
+            at = None
+            if (self.band is not None and getattr(self.factor, "method", None) == "banded"
+                    and self.n_parts == 0):
+                order = self.band.order
+                inverse = None
+                if order is not None:
+                    inverse = np.empty_like(order)
+                    inverse[order] = np.arange(len(order))
+                at = ground_gaps(self.cons, self._free_index, inverse)
+            self._ground = (at,)
+        return self._ground[0]
+
+    def _active_set(self, at, F, u_presc, o0):
+        """(forces, shifts, closed) by the banded active-set search, or None where it cycles."""
+        u = np.zeros(self.asm.n)
+        u[self.presc] = u_presc
+        b = F[self.free] - self.K_fr @ u[self.restrained]
+        if self.band.order is not None:
+            b = b[self.band.order]
+        scale_q = max(np.abs(o0).max(initial=0), self.clearance.max(initial=0), 1e-300)
+        lam, closed, status, its = active_set(self.band, at, self.cons.s1, self.clearance, b,
+                                              o0 < -1e-11 * scale_q, scale_q)
+        self.last_contact = ("active-set" if status == SOLVED else "exact", its)
+        if status != SOLVED:
+            return None
+        return lam, np.zeros(0), closed
 
     # --- recovery ----------------------------------------------------------
     def recover(self, state: LoadState, u, F, lam, terms, closed=None,
