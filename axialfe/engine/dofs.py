@@ -17,7 +17,41 @@ from ..errors import SolveError
 from ..model import Model
 from .contact import names_text
 
-__all__ = ["Dofs", "degrees_of_freedom"]
+__all__ = ["Dofs", "degrees_of_freedom", "connected_components"]
+
+_SMALL = 2000   # up to this many stations, parts are found without scipy's graph module
+
+
+def connected_components(n, a, b):
+    """The connected parts of the graph of ``n`` stations with edges ``a[i]-b[i]``.
+
+    Returns ``(count, labels)`` with parts labelled in the order of their least
+    station, as ``scipy.sparse.csgraph.connected_components`` labels them.  Small
+    graphs are joined by a union-find here, which spares loading scipy's graph
+    and linear algebra modules when a small model starts.
+    """
+    if n > _SMALL:
+        import scipy.sparse as sp
+        from scipy.sparse.csgraph import connected_components as components
+
+        graph = sp.coo_matrix((np.ones(len(a)), (a, b)), shape=(n, n))
+        return components(graph, directed=False)
+    parent = list(range(n))
+
+    def root(i):
+        while parent[i] != i:
+            parent[i] = parent[parent[i]]
+            i = parent[i]
+        return i
+
+    for i, j in zip(a.tolist(), b.tolist()):
+        ri, rj = root(i), root(j)
+        if ri != rj:
+            parent[max(ri, rj)] = min(ri, rj)
+    roots = np.array([root(i) for i in range(n)], dtype=int)
+    # the least station of a part is its root (unions keep the smaller root)
+    uniq, labels = np.unique(roots, return_inverse=True)
+    return len(uniq), labels.reshape(-1)
 
 
 @dataclass(frozen=True)
@@ -64,7 +98,6 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
         When some stations are held by no support, spring or gap (a mechanism).
     """
     import scipy.sparse as sp
-    from scipy.sparse.csgraph import connected_components
 
     n = len(model.stations)
     index = model._station_index
@@ -78,13 +111,11 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
     held = np.zeros(n, dtype=bool)
     held[presc] = True
     held[spring_at] = True
-    seg = sp.coo_matrix((np.ones(len(start)), (start, end)), shape=(n, n))
-    n_seg, seg_label = connected_components(seg, directed=False)
+    n_seg, seg_label = connected_components(n, start, end)
     two = cons.b >= 0
     if two.any():
-        gap_edges = sp.coo_matrix((np.ones(int(two.sum())), (cons.a[two], cons.b[two])),
-                                  shape=(n, n))
-        n_all, all_label = connected_components(seg + gap_edges, directed=False)
+        n_all, all_label = connected_components(n, np.concatenate([start, cons.a[two]]),
+                                                np.concatenate([end, cons.b[two]]))
     else:  # no gap joins two stations: the parts are the segments' own
         n_all, all_label = n_seg, seg_label
     grounded = held.copy()

@@ -12,7 +12,8 @@ name in :func:`factorise`:
     model numbered by x is banded: its bandwidth is the widest span, in
     stations, of any segment, so a chain has bandwidth 1 and parallel parts or
     short spans a few.  A band of width one (a chain) is factorised by LAPACK's
-    tridiagonal ``dpttrf``, the same factor several times quicker.
+    tridiagonal ``dpttrf``, the same factor several times quicker, and a band
+    of a few unknowns whole, by numpy's Cholesky.
 ``"sparse-lu"``
     SuperLU of the sparse matrix, for wide bands.
 ``"auto"``
@@ -36,6 +37,7 @@ __all__ = ["METHODS", "BAND_LIMIT", "Band", "BandedCholesky", "SparseLU", "band_
 METHODS = ("auto", "banded", "sparse-lu")
 BAND_LIMIT = 64             # "auto" takes the band up to this half-bandwidth ...
 _BAND_WHOLE = 1 << 20       # ... or at any width while the band holds at most this many numbers
+_WHOLE = 16                 # a band of at most this many unknowns is factorised whole
 _MADE = [0]
 
 
@@ -62,6 +64,15 @@ class Band:
 
     width = property(lambda self: self.ab.shape[0] - 1)
     size = property(lambda self: self.ab.shape[1])
+
+    def dense(self):
+        """The whole symmetric matrix (for small bands)."""
+        n, w = self.size, self.width
+        out = np.diag(self.ab[0])
+        for d in range(1, w + 1):
+            i = np.arange(n - d)
+            out[i + d, i] = out[i, i + d] = self.ab[d, :n - d]
+        return out
 
     def matvec(self, v):
         """``A @ v`` in the band numbering, for v of shape (n,) or (n, k)."""
@@ -124,31 +135,39 @@ class BandedCholesky:
     method = "banded"
 
     def __init__(self, band: Band, source=None):
-        from scipy.linalg import cholesky_banded
-        from scipy.linalg.lapack import dpttrf
-
         self.order = band.order
         self.width = band.width
-        self._cb = self._tri = None
+        self._cb = self._tri = self._whole = None
         try:
-            if band.width == 1:
+            if band.size <= _WHOLE:
+                # a few unknowns: the band is the whole matrix, factorised by numpy's
+                # Cholesky (the same factor; it spares loading scipy's linear algebra)
+                self._whole = np.linalg.cholesky(band.dense())
+            elif band.width == 1:
                 # a tridiagonal band (a chain): LAPACK's own L*D*L^T of it, several times
                 # quicker than the general banded Cholesky for the same factor
+                from scipy.linalg.lapack import dpttrf
+
                 d, e, info = dpttrf(band.ab[0], band.ab[1, :-1])
                 if info:
-                    raise np.linalg.LinAlgError(f"{info}-th leading minor not positive definite")
+                    raise np.linalg.LinAlgError("not positive definite")
                 self._tri = (d, e)
             else:
+                from scipy.linalg import cholesky_banded
+
                 self._cb = cholesky_banded(band.ab, lower=True, check_finite=False)
         except np.linalg.LinAlgError as exc:
-            err = SolveError("the stiffness matrix is not positive definite "
-                             f"({exc}); check for segments of vanishing stiffness, or use "
-                             "method 'sparse-lu'", file=source)
-            err.reason = str(exc)
+            err = SolveError("the stiffness matrix is not positive definite; check for "
+                             "segments of vanishing stiffness, or use method 'sparse-lu'",
+                             file=source)
+            err.reason = "not positive definite"
             raise err from exc
         _MADE[0] += 1
 
     def _solve(self, rhs):
+        if self._whole is not None:
+            L = self._whole
+            return np.linalg.solve(L.T, np.linalg.solve(L, rhs))
         if self._tri is not None:
             from scipy.linalg.lapack import dpttrs
 
@@ -232,7 +251,7 @@ def factorise(K_ff, method: str = "auto", source=None, band=None):
             except SolveError as exc:
                 if method == "banded":
                     raise
-                fallback = f"the band is not positive definite ({exc.reason})"
+                fallback = f"the band is {exc.reason}"
         else:
             fallback = f"the band is wide ({band.width} > {BAND_LIMIT})"
     elif method == "banded":
