@@ -15,6 +15,7 @@ The package is laid out by stage; a floor imports only the floors below it
 - ``symbolic/``: the whitelist expression parser and the closed-form solve;
 - ``checks/``: design checks of solved cases;
 - ``fits/``: press and shrink fits (ISO 286 limits, Lamé's cylinders, ``axialfe fit``);
+- ``joints/``: one bolted joint built into an axial model, its states, checks and sweep;
 - ``io/``: the model-file reader;
 - ``output/``: terminal tables, JSON, CSV, diagrams and the report;
 - ``cli/``: the typer command line.

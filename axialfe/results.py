@@ -141,7 +141,9 @@ class CaseResult:
                      "elongation": float(self.elongation[i] / fD),
                      "temperature_change": float(self.temperature_change[i]),
                      "thermal_strain": float(self.thermal_strain[i]),
-                     "mechanical_strain": self.mechanical_strain[i].tolist()}
+                     "mechanical_strain": self.mechanical_strain[i].tolist(),
+                     # a preload's misfit, as the solver found it (axialfe.engine.preload)
+                     **({"preload_misfit": s.misfit / fL} if s.preload is not None else {})}
                     for i, s in enumerate(m.segments)]
         reactions = [{"at": s.at, "kind": s.kind, "force": float(self.reactions[j] / fF)}
                      for j, s in enumerate(m.supports)]

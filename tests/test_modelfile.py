@@ -396,3 +396,13 @@ def test_a_key_of_an_inline_table_is_located():
     text = '[materials]\nbrass = { elastic_modulus = "100 GPa" }\nzinc = { elastic_modulus = "-1 GPa" }\n'
     assert _Locator(text).find("materials.zinc", key="elastic_modulus") == 3
     assert _Locator(text).find("materials.zinc") == 3
+
+
+def test_a_read_model_pickles_and_keeps_its_lines():
+    # plain data only (no callback into the reader): a model can go to worker processes
+    import pickle
+
+    model = parse_model(BASE, "bar.toml")
+    again = pickle.loads(pickle.dumps(model))
+    assert again == model and again.line_of("stations.right") == L_RIGHT
+    assert solve(again)["base"].reaction("left") == pytest.approx(12e3)

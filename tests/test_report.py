@@ -8,6 +8,8 @@ from html.parser import HTMLParser
 from pathlib import Path
 
 import pytest
+
+from axialfe.checks import check_solution
 from typer.testing import CliRunner
 
 from axialfe import ModelError, parse_model, read_model, solve
@@ -110,7 +112,7 @@ def solution():
 
 @pytest.fixture(scope="module")
 def page(solution):
-    return build_html(solution, date="2024-05-17")
+    return build_html(solution, date="2024-05-17", checks=check_solution(solution))
 
 
 class Collector(HTMLParser):
@@ -274,7 +276,7 @@ def test_checks_and_governing_in_report(solution, page):
 
 
 def test_markdown_report(solution):
-    text = build_markdown(solution, date="2024-05-17")
+    text = build_markdown(solution, date="2024-05-17", checks=check_solution(solution))
     for title in ("## The job", "## Assumptions", "## Input", "## Results", "## Calculation sheet",
                   "## Design checks", "## Diagrams", "## Cautions"):
         assert title in text
@@ -321,7 +323,9 @@ force = "4 kN"
 
 
 def test_write_report_utf8(tmp_path):
-    path = write_report(solve(parse_model(SMALL)), tmp_path / "r.html", date="2024-05-17")
+    solution = solve(parse_model(SMALL))
+    path = write_report(solution, tmp_path / "r.html", date="2024-05-17",
+                        checks=check_solution(solution))
     raw = path.read_bytes()
     assert "small \u00e9t\u00e9 &lt;rod&gt;" in raw.decode("utf-8")
     assert b'<meta charset="utf-8">' in raw

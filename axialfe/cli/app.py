@@ -135,8 +135,11 @@ def solve(model: ModelPath,
     with user_errors():
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
-        emit(render(solution, format.value, units, review=stated_values(model, m, solution)),
-             output)
+        from ..checks import check_solution
+
+        checks = None if format is Format.csv else check_solution(solution, units)
+        emit(render(solution, format.value, units, checks=checks,
+                    review=stated_values(model, m, solution)), output)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
 
@@ -437,7 +440,16 @@ def report(model: ModelPath,
 
     with user_errors():
         fmt = report_format(output, format.value if format else None)
-        if is_fit_file(model):  # a press or shrink fit (axialfe fit) has its own report
+        from ..joints import is_joint_file
+
+        if is_joint_file(model):  # a bolted joint: its own report (axialfe.output.jointreport)
+            from ..joints import read_joint, solve_joint
+            from ..output.jointreport import write_joint_report
+
+            j = read_joint(model)
+            units = output_units(j, force_unit, length_unit, None, stress_unit)
+            write_joint_report(solve_joint(j), output, fmt, units)
+        elif is_fit_file(model):  # a press or shrink fit (axialfe fit) has its own report
             from ..output.fitreport import write_fit_report
 
             result, units = _solved_fit(model, force_unit, length_unit, stress_unit)
@@ -445,7 +457,10 @@ def report(model: ModelPath,
         else:
             m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
             solution = run(m)
-            write_report(solution, output, fmt, units, review=stated_values(model, m, solution))
+            from ..checks import check_solution
+
+            write_report(solution, output, fmt, units, checks=check_solution(solution, units),
+                         review=stated_values(model, m, solution))
         typer.echo(f"wrote {output}", err=True)
 
 

@@ -8,14 +8,11 @@ assembles the global stiffness.  No Python loop runs per element.
 
 from __future__ import annotations
 
-import operator
 from dataclasses import dataclass
 
 import numpy as np
 
-from .._gcpause import gc_paused
 from ..mechanics import NUMERIC, element_terms, load_terms, nodal_loads
-from ..errors import ModelError
 from ..model import Model
 
 __all__ = ["Assembly", "assemble", "element_loads"]
@@ -72,41 +69,6 @@ class Assembly:
     K: object
 
 
-_FIELDS = operator.attrgetter("section", "end_section", "material", "start", "end", "misfit",
-                              "distributed_load")
-
-
-def _by_object(objects, values, width):
-    """Rows of ``values(obj)`` per item, computed once per distinct object.
-
-    Segments share a few materials and sections, so the per-segment work is an
-    ``id`` and one vectorised ``np.unique``; the rows come by fancy indexing.
-    """
-    ids = np.fromiter(map(id, objects), dtype=np.int64, count=len(objects))
-    uniq, first, codes = np.unique(ids, return_index=True, return_inverse=True)
-    table = np.array([values(objects[i]) for i in first], dtype=float).reshape(len(uniq), width)
-    return table[codes].T
-
-
-def _segment_arrays(model: Model):
-    """Gather per-segment inputs into arrays (one C-level pass over the segments)."""
-    m = len(model.segments)
-    sec, end_sec, mat, start, end, misfit, q = zip(*map(_FIELDS, model.segments))
-    end_sec = [e if e is not None else s for s, e in zip(sec, end_sec)]
-    index = model._station_index
-    out = {
-        "start": np.fromiter(map(index.__getitem__, start), dtype=np.int64, count=m),
-        "end": np.fromiter(map(index.__getitem__, end), dtype=np.int64, count=m),
-        "misfit": np.asarray(misfit, dtype=float),
-        "q": np.asarray(q, dtype=float),
-    }
-    out["c"], out["p1"], out["q1"] = _by_object(sec, lambda s: s.factors, 3)
-    _, out["p2"], out["q2"] = _by_object(end_sec, lambda s: s.factors, 3)
-    out["E"], out["alpha"], out["rho"] = _by_object(
-        mat, lambda t: (t.elastic_modulus, t.thermal_expansion, t.density or 0.0), 3)
-    return out
-
-
 def assemble(model: Model) -> Assembly:
     """Assemble the gap-free global stiffness and the per-segment load terms.
 
@@ -125,19 +87,13 @@ def assemble(model: Model) -> Assembly:
     import scipy.sparse as sp
 
     n = len(model.stations)
-    try:
-        with gc_paused():
-            arr = _segment_arrays(model)
-        x = np.fromiter(map(operator.attrgetter("x"), model.stations), dtype=float, count=n)
-    except TypeError:  # a sympy symbol cannot become a float
-        raise ModelError("the model holds symbolic values; give every symbol a value, or ask "
-                         "for the closed form (axialfe closed-form)", file=model.source) from None
-    start, end = arr["start"], arr["end"]
+    arr = model.arrays
+    start, end, x = arr.start, arr.end, arr.x
     dx = x[end] - x[start]
     direction = np.sign(dx)
     length = np.abs(dx)
-    c, p1, q1, p2, q2 = (arr[k] for k in ("c", "p1", "q1", "p2", "q2"))
-    E, alpha, rho = arr["E"], arr["alpha"], arr["rho"]
+    c, p1, q1, p2, q2 = arr.c, arr.p1, arr.q1, arr.p2, arr.q2
+    E, alpha, rho = arr.elastic_modulus, arr.thermal_expansion, arr.density
     rho_g = rho * model.gravity * direction
     terms = element_terms(c, p1, q1, p2, q2, length, E, rho_g, NUMERIC)
     k = terms.stiffness
@@ -149,7 +105,7 @@ def assemble(model: Model) -> Assembly:
     cols = np.concatenate([lo, hi, lo, hi])
     data = np.concatenate([k, -k, -k, k])
     K = sp.csr_matrix((data, (rows, cols)), shape=(n, n))
-    misfit, q = arr["misfit"], arr["q"]
+    misfit, q = arr.misfit, arr.distributed_load
     return Assembly(n=n, start=start, end=end, direction=direction, length=length, stiffness=k,
                     area=np.column_stack([terms.area_from, terms.area_to]), modulus=E,
                     expansion=alpha, misfit=misfit, q=q, g_unit_q=terms.g_unit_q,

@@ -10,17 +10,10 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import SolveError
+from ..formatting import names as names_text
 from . import pivoting
 
-__all__ = ["solve_gaps", "names_text"]
-
-
-def names_text(names, most=8):
-    """``'a', 'b' and 3 more``: a list of names for a message."""
-    names = [f"'{n}'" for n in names]
-    if len(names) > most:
-        return ", ".join(names[:most]) + f" and {len(names) - most} more"
-    return ", ".join(names)
+__all__ = ["solve_gaps"]
 
 
 def _not_unique(names, closed):
@@ -65,6 +58,10 @@ def solve_gaps(M, H, o0, f, system, label="", with_state=False):
     g, p = H.shape
     Mb = np.block([[M, -H, H], [H.T, np.zeros((p, 2 * p))], [-H.T, np.zeros((p, 2 * p))]])
     qb = np.concatenate([o0, -f, f])
+    # openings (m) against forces (N): scale the opening rows to one size for the pivot tests
+    # of Lemke's method (a positive row scale leaves the complementarity problem unchanged)
+    big = float(np.max(np.diag(M), initial=0.0))
+    Mb[:g], qb[:g] = (Mb[:g] / big, qb[:g] / big) if big > 0 else (Mb[:g], qb[:g])
     z, basic, status = pivoting.lemke(Mb, qb, 100 * (g + 2 * p) + 100)
     stations = [st.name for st in model.stations]
     if status == pivoting.NO_SETTLE:

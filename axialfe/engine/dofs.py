@@ -14,8 +14,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import SolveError
+from ..formatting import names as names_text
 from ..model import Model
-from .contact import names_text
 
 __all__ = ["Dofs", "degrees_of_freedom", "connected_components"]
 

@@ -16,8 +16,6 @@ with ``M = B K^-1 B^T`` built from the one factorisation.
 
 from __future__ import annotations
 
-import operator
-
 import numpy as np
 
 from ..errors import SolveError
@@ -62,8 +60,7 @@ class System:
         self.model = model
         self.asm = asm = asm if asm is not None else assemble(model)
         n = asm.n
-        self.x = np.fromiter(map(operator.attrgetter("x"), model.stations), dtype=float,
-                             count=n)
+        self.x = model.arrays.x
         self.cons = cons = unilateral(model, n)
         self.dofs = dofs = degrees_of_freedom(model, asm.start, asm.end, cons)
         self.spring_diagonal = np.bincount(dofs.spring_at, dofs.spring_k,
@@ -308,5 +305,8 @@ def solve(model: Model, method: str = "auto") -> Solution:
     >>> [round(case.reaction(s), 9) for s in ("A", "B")]  # -P*b/L, -P*a/L
     [-6000.0, -3000.0]
     """
+    from .preload import resolve_preloads  # it solves models itself
+
+    model = resolve_preloads(model)  # a preload is a force: find its misfit first
     system = System(model, method=method)
     return Solution(model, tuple(system.solve_state(s) for s in load_states(model)))

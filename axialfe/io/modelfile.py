@@ -35,7 +35,7 @@ _KEYS = {
                 "width", "height", "area", "second_moment"),
     "segment": ("name", "from", "to", "material", "section", "end_section", "temperature_change",
                 "temperature", "misfit", "distributed_load", "buckling_length",
-                "effective_length_factor"),
+                "effective_length_factor", "preload"),
     "support": ("at", "kind", "stiffness", "displacement"),
     "load": ("at", "force"),
     "gap": ("name", "between", "at", "side", "clearance", "kind"),
@@ -96,6 +96,19 @@ class _Locator:
             if found:
                 return found
         return start + 1
+
+    def table_keys(self, table) -> dict:
+        """The 1-based line of every key of table ``table``, in one pass."""
+        span = self._span(table, None)
+        if span is None:
+            return {}
+        pattern = re.compile(r"^\s*[\"']?([^\"'=]+?)[\"']?\s*=")
+        out = {}
+        for i in range(span[0] + 1, span[1]):
+            m = pattern.match(self.lines[i])
+            if m:
+                out.setdefault(m.group(1).strip(), i + 1)
+        return out
 
     def _key_line(self, start, stop, key):
         pattern = re.compile(r"^\s*[\"']?" + re.escape(str(key)) + r"[\"']?\s*=")
@@ -342,6 +355,9 @@ class _Reader:
     def model(self) -> Model:
         data = self.data
         for key in data:
+            if key == "bolt" and isinstance(data[key], dict):  # axialfe.joints reads these
+                self.fail("this is a bolted-joint file (it has a [bolt] table): run 'axialfe "
+                          "joint' on it", "bolt", place="top level")
             if key not in _TOP_KEYS:
                 self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
                           else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))
@@ -425,6 +441,14 @@ class _Reader:
                                 key="effective_length_factor", place=place)
                     if "effective_length_factor" in entry else None),
             }
+            if "preload" in entry:  # a force; the solver turns it into a misfit
+                if "misfit" in entry:
+                    self.fail("give 'misfit' or 'preload', not both", table, i, "preload",
+                              place=place)
+                if self.symbolic:
+                    self.fail("preload: the closed form takes a 'misfit', not a preload", table,
+                              i, "preload", place=place)
+                kwargs["preload"] = qs(entry["preload"], "force", key="preload")
             if not isinstance(kwargs["name"], str):
                 self.fail("name: expected a name in quotes", table, i, "name", place=place)
             if (gravity and materials[mat_name].density is None):
@@ -552,20 +576,24 @@ class _Reader:
                          temperature_change=default_dt, gravity=gravity,
                          reference_temperature=reference, units=units, title=str(title),
                          source=self.source, checks=checks, limits=tuple(limits),
-                         symbols=tuple(self.symbols.values()), locate=self.locate_name)
+                         symbols=tuple(self.symbols.values()), lines=self.name_lines())
         except ModelError as exc:
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
 
-    def locate_name(self, key: str) -> int | None:
-        """The line of ``'stations.<name>'`` or ``'gaps.<name>'`` (for solver messages)."""
-        table, _, name = key.partition(".")
-        if table == "stations":
-            return self.line("stations", None, name)
-        if table == "gaps":
-            for i, entry in enumerate(self.data.get("gaps", []), 1):
-                if isinstance(entry, dict) and entry.get("name") == name:
-                    return self.line("gaps", i)
-        return None
+    def name_lines(self) -> dict:
+        """The lines of ``'stations.<name>'``, ``'gaps.<name>'`` and ``'segments.<name>'``
+        (for solver messages), found in one pass over each table."""
+        if self.locator is None:
+            return {}
+        lines = {f"stations.{k}": v for k, v in self.locator.table_keys("stations").items()}
+        for table in ("gaps", "segments"):
+            entries = self.data.get(table, [])
+            for i, entry in enumerate(entries if isinstance(entries, list) else [], 1):
+                if isinstance(entry, dict):
+                    name = entry.get("name", f"{entry.get('from')}-{entry.get('to')}")
+                    if isinstance(name, str):
+                        lines.setdefault(f"{table}.{name}", self.line(table, i))
+        return lines
 
     def _line_of_place(self, place):
         if not place:

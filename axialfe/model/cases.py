@@ -14,7 +14,7 @@ import numpy as np
 
 from .parts import Case, Model
 
-__all__ = ["LoadState", "case_state", "load_states"]
+__all__ = ["LoadState", "loading", "case_state", "load_states"]
 
 
 @dataclass(frozen=True)
@@ -49,75 +49,82 @@ class LoadState:
                          self.q_factor * factor)
 
 
-def _own_temperatures(model: Model) -> np.ndarray:
-    default = model.temperature_change or 0.0
-    return np.fromiter((default if s.temperature_change is None else s.temperature_change
-                        for s in model.segments), dtype=float, count=len(model.segments))
+def _own_temperatures(model: Model, num) -> np.ndarray:
+    if num is float:
+        return np.array(model.arrays.temperature_change)
+    default = num(model.temperature_change) if model.temperature_change is not None else num(0)
+    return np.array([default if s.temperature_change is None else num(s.temperature_change)
+                     for s in model.segments] or np.zeros(0), dtype=object)
 
 
-def _case_overrides(model: Model, case: Case):
-    """Return (values, mask): the case's temperature for each segment it sets."""
+def _case_parts(model: Model, case: Case, num, dtype):
+    """What one case sets: point forces, and its temperatures and settlements with masks."""
+    forces = np.zeros(len(model.stations), dtype=dtype)
+    for load in case.loads:
+        forces[model.station_index(load.at)] += num(load.force)
     m = len(model.segments)
-    values, mask = np.zeros(m), np.zeros(m, dtype=bool)
+    t_val, t_set = np.zeros(m, dtype=dtype), np.zeros(m, dtype=bool)
     table = dict(case.temperature_change)
     if "all" in table:
-        values[:], mask[:] = table["all"], True
+        t_val[:], t_set[:] = num(table["all"]), True
     for name, dt in table.items():
         if name != "all":
             i = model.segment_index(name)
-            values[i], mask[i] = dt, True
-    return values, mask
-
-
-def _case_settlements(model: Model, case: Case):
-    values = np.array([s.displacement for s in model.supports], dtype=float)
-    mask = np.zeros(len(model.supports), dtype=bool)
+            t_val[i], t_set[i] = num(dt), True
+    s_val = np.zeros(len(model.supports), dtype=dtype)
+    s_set = np.zeros(len(model.supports), dtype=bool)
     moved = dict(case.settlements)
     for j, s in enumerate(model.supports):
         if s.kind == "settlement" and s.at in moved:
-            values[j], mask[j] = moved[s.at], True
-    return values, mask
+            s_val[j], s_set[j] = num(moved[s.at]), True
+    return forces, t_val, t_set, s_val, s_set
 
 
-def _case_forces(model: Model, case: Case):
-    forces = np.zeros(len(model.stations))
-    for load in case.loads:
-        forces[model.station_index(load.at)] += load.force
-    return forces
+def loading(model: Model, name: str, num=float):
+    """The point forces, temperature changes and settlements of case or combination ``name``.
+
+    The one rule of cases and combinations, for the numeric and the exact solver
+    alike (``num`` converts a model value: ``float`` gives float arrays, any other
+    converter object arrays of its numbers).  A case is complete in itself; what
+    it does not set keeps the model's own value (a segment's temperature, a
+    support's settlement).  A combination is the factored sum of its cases'
+    forces, temperatures and settlements; a segment's own temperature (and a
+    support's own settlement) counts once, unfactored, where no combined case
+    sets it.
+
+    Returns
+    -------
+    forces : ndarray, shape (n_stations,)
+    dT : ndarray, shape (n_segments,)
+    settlement : ndarray, shape (n_supports,)
+    """
+    dtype = float if num is float else object
+    cases = {c.name: c for c in model.all_cases}
+    combos = {c.name: c for c in model.combinations}
+    own_t = _own_temperatures(model, num)
+    own_s = np.array([num(s.displacement) for s in model.supports] or np.zeros(0), dtype=dtype)
+    if name in cases:
+        forces, t_val, t_set, s_val, s_set = _case_parts(model, cases[name], num, dtype)
+        return forces, np.where(t_set, t_val, own_t), np.where(s_set, s_val, own_s)
+    forces = np.zeros(len(model.stations), dtype=dtype)
+    t_sum, t_any = np.zeros(len(own_t), dtype=dtype), np.zeros(len(own_t), dtype=bool)
+    s_sum, s_any = np.zeros(len(own_s), dtype=dtype), np.zeros(len(own_s), dtype=bool)
+    for case_name, factor in combos[name].factors:
+        f, t_val, t_set, s_val, s_set = _case_parts(model, cases[case_name], num, dtype)
+        k = num(factor)
+        forces = forces + k * f
+        t_sum, t_any = t_sum + np.where(t_set, k * t_val, 0), t_any | t_set
+        s_sum, s_any = s_sum + np.where(s_set, k * s_val, 0), s_any | s_set
+    return forces, np.where(t_any, t_sum, own_t), np.where(s_any, s_sum, own_s)
 
 
 def case_state(model: Model, case: Case) -> LoadState:
     """Return the load state of one case."""
-    own = _own_temperatures(model)
-    values, mask = _case_overrides(model, case)
-    settle, _ = _case_settlements(model, case)
-    return LoadState(case.name, _case_forces(model, case), np.where(mask, values, own), settle)
+    return LoadState(case.name, *loading(model, case.name))
 
 
 def load_states(model: Model) -> list[LoadState]:
-    """Return the load states of every case, in file order, then every combination.
-
-    A combination's loads, temperature changes and settlements are the factored
-    sums of what its cases give; a segment's own temperature (and a support's
-    own settlement) counts once, unfactored, where no combined case sets it.
-    """
-    cases = {c.name: c for c in model.all_cases}
-    states = [case_state(model, c) for c in model.all_cases]
-    own_t = _own_temperatures(model)
-    own_s = np.array([s.displacement for s in model.supports], dtype=float)
-    for comb in model.combinations:
-        forces = np.zeros(len(model.stations))
-        t_sum, t_set = np.zeros(len(model.segments)), np.zeros(len(model.segments), bool)
-        s_sum, s_set = np.zeros(len(model.supports)), np.zeros(len(model.supports), bool)
-        for name, factor in comb.factors:
-            case = cases[name]
-            forces += factor * _case_forces(model, case)
-            values, mask = _case_overrides(model, case)
-            t_sum += factor * np.where(mask, values, 0.0)
-            t_set |= mask
-            values, mask = _case_settlements(model, case)
-            s_sum += factor * np.where(mask, values, 0.0)
-            s_set |= mask
-        states.append(LoadState(comb.name, forces, np.where(t_set, t_sum, own_t),
-                                np.where(s_set, s_sum, own_s)))
-    return states
+    """Return the load states of every case, in file order, then every combination
+    (see :func:`loading` for the rule)."""
+    names = [c.name for c in model.all_cases] + [c.name for c in model.combinations]
+    return [LoadState(name, *loading(model, name)) for name in names]

@@ -9,6 +9,7 @@ refers to something.
 
 from __future__ import annotations
 
+import functools
 import math
 import numbers
 from dataclasses import dataclass, field
@@ -210,6 +211,9 @@ class Segment:
         Length made minus distance between the stations, in m.
     distributed_load : float
         Uniform axial load in N/m, positive toward +x.
+    preload : float, optional
+        Axial force (N, tension positive) the segment carries in the installed
+        state; the solver chooses ``misfit`` to give it (:mod:`axialfe.engine.preload`).
     """
 
     name: str
@@ -223,6 +227,7 @@ class Segment:
     distributed_load: float = 0.0
     buckling_length: float | None = None
     effective_length_factor: float | None = None
+    preload: float | None = None
 
     def __post_init__(self):
         _name(self.name, "a segment's name", "segments")
@@ -244,6 +249,7 @@ class Segment:
         _finite(self.misfit, "misfit", place)
         _finite(self.distributed_load, "distributed_load", place)
         _finite(self.temperature_change, "temperature_change", place)
+        _finite(self.preload, "preload", place)
         _positive(self.buckling_length, "buckling_length", place)
         _positive(self.effective_length_factor, "effective_length_factor", place)
 
@@ -473,8 +479,9 @@ class Model:
     title : str
     source : str, optional
         The model file's name, for messages.
-    locate : callable, optional
-        Maps ``'stations.<name>'`` or ``'gaps.<name>'`` to its file line (set by the reader).
+    lines : dict, optional
+        The file line of ``'stations.<name>'`` and ``'gaps.<name>'`` (set by the
+        reader): plain data, so a model can be pickled and sent to workers.
     symbols : tuple of SymbolDef
         The symbols declared in the file's ``[symbols]`` (closed form).  A
         model read with ``symbolic=True`` holds sympy expressions of them in
@@ -502,7 +509,7 @@ class Model:
     source: str | None = None
     checks: CheckSettings = field(default_factory=CheckSettings)
     limits: tuple[Limit, ...] = ()
-    locate: object = field(default=None, compare=False, repr=False)
+    lines: dict = field(default_factory=dict, compare=False, repr=False)
     # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
     symbols: tuple = ()
 
@@ -594,10 +601,61 @@ class Model:
             raise ModelError(f"unknown station '{name}'", place=place,
                              hint=suggest(name, self._station_index))
 
+    @classmethod
+    def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0,
+                    temperature_change=0.0, fixed=(), load_at=(), load_force=(), **more):
+        """A model straight from arrays, in SI units, with no object per segment.
+
+        Parameters
+        ----------
+        x : array of float
+            Station positions (m); stations are named ``s0, s1, ...``.
+        start, end : array of int
+            Each segment's end stations, as indices into ``x``; segments are
+            named ``e0, e1, ...`` (each with a material and a plain-area
+            section of its own name).
+        elastic_modulus, area, thermal_expansion, temperature_change : float or array
+            Per segment (Pa, m^2, 1/K, K); a scalar applies to every segment.
+        fixed : array of int
+            Stations held fixed.
+        load_at, load_force : arrays
+            Point loads (N, + toward +x) of the one case ``base``.
+        **more
+            ``yield_strength``, ``second_moment``, ``density`` (arrays or scalars,
+            SI) with ``gravity`` (m/s^2 along +x); springs ``spring_at`` with
+            ``spring_stiffness`` (N/m); gaps against ground ``gap_at``, ``gap_side``
+            ('+x' or '-x') and ``gap_clearance`` (m), named ``g0, g1, ...``;
+            ``title``.
+
+        The arrays are copied.
+
+        Examples
+        --------
+        A chain of three bars fixed at x = 0 and pulled with 1 kN at its end:
+
+        >>> import numpy as np
+        >>> from axialfe import solve
+        >>> m = Model.from_arrays(np.array([0.0, 1.0, 2.0, 3.0]), [0, 1, 2], [1, 2, 3],
+        ...                       200e9, 1e-4, fixed=[0], load_at=[3], load_force=[1e3])
+        >>> round(solve(m)["base"].displacement("s3") / (3 * 1e3 / (200e9 * 1e-4)), 12)  # should be 1
+        1.0
+        """
+        from .arrays import from_arrays
+
+        return from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion,
+                           temperature_change, fixed, load_at, load_force, **more)
+
+    @functools.cached_property
+    def arrays(self):
+        """The model as one struct of arrays (:class:`~axialfe.model.arrays.ModelArrays`)."""
+        from .arrays import gather
+
+        return gather(self)
+
     # --- look-ups -------------------------------------------------------
     def line_of(self, key: str) -> int | None:
         """The file line of ``'stations.<name>'`` or ``'gaps.<name>'``, when read from a file."""
-        return self.locate(key) if callable(self.locate) else None
+        return self.lines.get(key)
 
     def station_index(self, name: str) -> int:
         """Return the position of station ``name`` in :attr:`stations`."""

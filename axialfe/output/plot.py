@@ -23,6 +23,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import ModelError
+from ..formatting import number
 from ..results import CaseResult
 from ..units import OutputUnits
 
@@ -228,9 +229,7 @@ def _style_axes(ax):
 
 
 def _fmt(value):
-    if value == 0 or abs(value) < 1e-300:
-        return "0"
-    return f"{value:.4g}"
+    return number(value, plain=False)
 
 
 def _lane_label(items, parallel):

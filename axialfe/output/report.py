@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import ModelError
+from ..formatting import number
 from .text import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _governing_text
 from ..results import CaseResult, Solution
 from ..units import OutputUnits
@@ -59,14 +60,7 @@ def report_format(path, fmt: str | None = None) -> str:
 
 # --- numbers and words -------------------------------------------------------
 def _g(value, digits=4) -> str:
-    if value is None:
-        return "-"
-    if value == 0:
-        return "0"
-    text = f"{value:.{digits}g}"
-    if "e" in text and 1e-4 <= abs(value) < 1e7:     # plain digits read better in a sheet
-        text = f"{float(text):.10f}".rstrip("0").rstrip(".")
-    return text.replace("-", _MINUS)
+    return number(value, digits, minus=_MINUS)
 
 
 def station_words(u: float, unit: str, factor: float, scale: float = 0.0) -> str:
@@ -384,11 +378,12 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
         The review of the model's stated values (:mod:`axialfe.review`): a
         section of its own after the checks, when given.
     """
-    from ..checks import check_solution
 
     model = solution.model
     units = units or model.units
-    checks = checks or check_solution(solution, units)
+    if checks is None:
+        raise TypeError("the report needs the checks of the solution "
+                        "(axialfe.checks.check_solution): output computes nothing")
     date = date or datetime.date.today().isoformat()
     data = solution.to_dict(units)
     out = ["<!DOCTYPE html>", '<html lang="en">', "<head>", '<meta charset="utf-8">',
@@ -476,11 +471,12 @@ def _md_table(headers, rows) -> list[str]:
 def build_markdown(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
                    checks=None, review=None) -> str:
     """The report as one Markdown document (diagrams as embedded base64 PNG)."""
-    from ..checks import check_solution
 
     model = solution.model
     units = units or model.units
-    checks = checks or check_solution(solution, units)
+    if checks is None:
+        raise TypeError("the report needs the checks of the solution "
+                        "(axialfe.checks.check_solution): output computes nothing")
     date = date or datetime.date.today().isoformat()
     data = solution.to_dict(units)
     out = [f"# {_md(model.title)}", "",
@@ -528,13 +524,14 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
 
 def write_report(solution: Solution, path, fmt: str | None = None,
                  units: OutputUnits | None = None, date: str | None = None,
-                 review=None) -> Path:
+                 checks=None, review=None) -> Path:
     """Write the report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None), with the
-    review of the stated values when ``review`` is given."""
+    design checks ``checks`` (required) and the review of the stated values when
+    ``review`` is given."""
     path = Path(path)
     fmt = report_format(path, fmt)
     build = build_html if fmt == "html" else build_markdown
-    text = build(solution, units, date, review=review)
+    text = build(solution, units, date, checks=checks, review=review)
     try:
         path.write_text(text, encoding="utf-8")
     except OSError as exc:

@@ -11,6 +11,7 @@ import csv
 import io
 import json
 
+from ..formatting import number
 from ..results import Solution
 from ..units import OutputUnits
 
@@ -30,9 +31,7 @@ CAUTIONS = (
 
 
 def _g(value, digits=6):
-    if value == 0:
-        return "0"
-    return f"{value:.{digits}g}"
+    return number(value, digits, plain=False)
 
 
 def _grid(headers, rows, indent="  "):
@@ -117,6 +116,10 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
             out.append(f" INACCURATE: {case['message']}")
         for note in case.get("notes", []):
             out.append(f" note: {note}")
+        for seg in case["segments"]:  # --- preloads (axialfe.engine.preload) ---
+            if "preload_misfit" in seg:
+                out.append(f" preload: '{seg['name']}' has the misfit {_g(seg['preload_misfit'])} "
+                           f"{data['units']['length']}, found to give its preload when installed")
         out.append("")
         if checks is not None:  # --- design checks (axialfe.checks) ---
             out += _check_lines(checks.case(case["name"]), units)
@@ -226,17 +229,13 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
            checks=None, review=None) -> str:
     """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
 
-    The table, JSON and Markdown forms carry the design checks: ``checks`` (a
-    :class:`~axialfe.checks.CheckReport`), computed here when not given, and the
-    review of the model's stated values (``review``, an :class:`axialfe.review.Review`)
-    when given.
+    The table, JSON and Markdown forms carry the design checks (``checks``, a
+    :class:`~axialfe.checks.CheckReport` made by the caller) and the review of
+    the model's stated values (``review``, an :class:`axialfe.review.Review`),
+    each when given: output computes nothing.
     """
     if fmt == "csv":
         return to_csv(solution, units, review=review)
-    if checks is None:
-        from ..checks import check_solution
-
-        checks = check_solution(solution, units)
     return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
         solution, units, checks=checks, review=review)
 
@@ -246,13 +245,11 @@ _CHECK_HEADERS = ("check", "name", "demand", "capacity", "utilization", "result"
 
 
 def _check_cells(entry, units: OutputUnits):
-    from ..formatting import number as _num
-
     key = entry.quantity
     unit = getattr(units, key)
 
     def value(v):
-        return "-" if v is None else f"{_num(v / units.factor(key))} {unit}"
+        return "-" if v is None else f"{number(v / units.factor(key))} {unit}"
 
     util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
     return [entry.kind, entry.name, value(entry.demand), value(entry.capacity), util,

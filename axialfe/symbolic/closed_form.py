@@ -30,6 +30,7 @@ from ..errors import ModelError, SolveError, suggest
 from ..mechanics import backends, sections
 from ..mechanics.element import element_terms, end_forces, load_terms, nodal_loads
 from ..model import Model
+from ..model.cases import loading
 
 __all__ = ["ClosedForm", "solve_symbolic", "numeric_model", "closed_form_dict",
            "closed_form_text", "QUANTITIES", "TOLERANCE"]
@@ -186,7 +187,8 @@ def _element(seg, length, g_local, exact):
 
 
 def _state(model: Model, case: str | None, exact):
-    """Return (name, forces by station, dT by segment, settlement by support, q factor)."""
+    """Return (name, forces by station, dT by segment, settlement by support), exactly,
+    by the one rule of cases and combinations (:func:`axialfe.model.cases.loading`)."""
     cases = {c.name: c for c in model.all_cases}
     combos = {c.name: c for c in model.combinations}
     name = case if case is not None else model.all_cases[0].name
@@ -194,43 +196,8 @@ def _state(model: Model, case: str | None, exact):
         options = [*cases, *combos]
         raise ModelError(f"unknown case '{name}'", place="cases", hint=suggest(name, options),
                          options=options)
-    default = exact(model.temperature_change) if model.temperature_change is not None else 0
-    own_t = [exact(s.temperature_change) if s.temperature_change is not None else default
-             for s in model.segments]
-    own_s = [exact(s.displacement) for s in model.supports]
-    seg_index = {s.name: i for i, s in enumerate(model.segments)}
-
-    def one(c, factor):
-        forces = {}
-        for load in c.loads:
-            forces[load.at] = forces.get(load.at, 0) + factor * exact(load.force)
-        t_set = {}
-        table = dict(c.temperature_change)
-        if "all" in table:
-            t_set = {i: factor * exact(table["all"]) for i in range(len(model.segments))}
-        for seg, dt in table.items():
-            if seg != "all":
-                t_set[seg_index[seg]] = factor * exact(dt)
-        moved = dict(c.settlements)
-        s_set = {j: factor * exact(moved[s.at]) for j, s in enumerate(model.supports)
-                 if s.kind == "settlement" and s.at in moved}
-        return forces, t_set, s_set
-
-    if name in cases:
-        forces, t_set, s_set = one(cases[name], 1)
-    else:
-        forces, t_set, s_set = {}, {}, {}
-        for case_name, factor in combos[name].factors:
-            f, t, st = one(cases[case_name], _rat(factor))
-            for k, v in f.items():
-                forces[k] = forces.get(k, 0) + v
-            for k, v in t.items():
-                t_set[k] = t_set.get(k, 0) + v
-            for k, v in st.items():
-                s_set[k] = s_set.get(k, 0) + v
-    dT = [t_set.get(i, own_t[i]) for i in range(len(model.segments))]
-    settle = [s_set.get(j, own_s[j]) for j in range(len(model.supports))]
-    return name, forces, dT, settle
+    forces, dT, settle = loading(model, name, exact)
+    return name, list(forces), list(dT), list(settle)
 
 
 def _hide_logs(expr, hidden):
@@ -345,7 +312,7 @@ def used_symbols(model: Model) -> set:
             used |= {s.name for s in obj.free_symbols}
         elif dataclasses.is_dataclass(obj) and not isinstance(obj, type):
             stack.extend(getattr(obj, f.name) for f in dataclasses.fields(obj)
-                         if f.name not in ("symbols", "locate"))
+                         if f.name not in ("symbols", "lines"))
         elif isinstance(obj, tuple):
             stack.extend(obj)
     return used
@@ -472,6 +439,8 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     >>> cf.reaction("left")
     -P*b/(a + b)
     """
+    if any(seg.preload is not None for seg in model.segments):  # axialfe.engine.preload
+        raise ModelError("the closed form takes a 'misfit', not a preload", place="segments")
     real, syms, values = _symbols(model)
     repl = {real[n]: syms[n] for n in real}
     subs = {syms[n]: v for n, v in values.items() if v is not None}
@@ -488,7 +457,7 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     index = {st.name: i for i, st in enumerate(model.stations)}
     n = len(xs)
     gravity = exact(model.gravity)
-    causes = [*forces.values(), *dT, *settle, gravity]
+    causes = [*forces, *dT, *settle, gravity]
     causes += [exact(v) for s in model.segments for v in (s.misfit, s.distributed_load)]
     causes += [exact(g.clearance) for g in model.gaps]
     driving = set().union(*(v.free_symbols for v in causes if isinstance(v, sympy.Basic)))
@@ -500,9 +469,7 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     def add(i, j, v):
         K[(i, j)] = K.get((i, j), 0) + v
 
-    F = [sympy.Integer(0)] * n
-    for st, f in forces.items():
-        F[index[st]] += f
+    F = [sympy.Integer(0) + f for f in forces]
     elems = []
     for m, seg in enumerate(model.segments):
         i, j = index[seg.start], index[seg.end]

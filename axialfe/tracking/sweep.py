@@ -21,6 +21,7 @@ from ..model.cases import LoadState, load_states
 from ..model import Model
 from ..results import CaseResult
 from ..engine.contact import solve_gaps
+from .events import affine_roots, yield_excess, yield_roots
 from ..engine.system import System
 from ..units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
@@ -194,45 +195,9 @@ def _singular(A, p) -> bool:
     return bool(np.linalg.cond(A) > 1e12)
 
 
-def yield_excess(f0, f1, s, yield_strength):
-    """max over each segment of |sigma| at parameter ``s``, less the yield strength.
-
-    ``f0`` and ``f1`` are the fields at s = 0 and 1 of a state affine in s; ``s``
-    is one value or one per segment.  The result is convex in s (a largest
-    magnitude of affine functions), which :func:`yield_roots` relies on.
-    """
-    peak, _ = f0.interpolate(f1, s).stress_peak()
-    return np.abs(peak) - yield_strength
-
-
-def yield_roots(f0, f1, s_from, s_to, yield_strength, watch):
-    """The first parameter in (s_from, s_to] where each watched segment reaches yield.
-
-    Where the stress peak moves along a segment as the parameter changes (a
-    taper), the peak is not affine in the parameter, but it is convex: below
-    yield at ``s_from`` and at or above it at ``s_to`` means one root between,
-    found by bisection to rounding; below at both ends means none.  NaN where
-    there is no root.
-    """
-    out = np.full(len(yield_strength), np.nan)
-    fy = yield_strength
-    rows = np.flatnonzero(watch & np.isfinite(fy))
-    if not len(rows):
-        return out
-    f0, f1, fy = f0.take(rows), f1.take(rows), fy[rows]
-    below = yield_excess(f0, f1, s_from, fy) < 0
-    above = yield_excess(f0, f1, s_to, fy) >= 0
-    pick = below & above
-    rows, f0, f1, fy = rows[pick], f0.take(pick), f1.take(pick), fy[pick]
-    lo, hi = np.full(len(rows), float(s_from)), np.full(len(rows), float(s_to))
-    for _ in range(200):
-        mid = 0.5 * (lo + hi)
-        if np.all((mid == lo) | (mid == hi)):
-            break
-        up = yield_excess(f0, f1, mid, fy) >= 0
-        hi, lo = np.where(up, mid, hi), np.where(up, lo, mid)
-    out[rows] = hi
-    return out
+def _at(pair, s):
+    """``a + s*b`` of an affine pair (value at s = 0, slope)."""
+    return pair[0] + s * pair[1]
 
 
 class _Tracker:
@@ -263,8 +228,11 @@ class _Tracker:
             return self.base.scaled_loads(s)
         return self.base.with_temperature(s)
 
-    def _at(self, pair, s):
-        return pair[0] + s * pair[1]
+    def gap_measures(self, closed, lam, shift):
+        """Each gap's event measure, affine in s, as (value at s = 0, slope): the force of
+        a closed gap, the opening of an open one (an event where it reaches zero)."""
+        o = [_at(self.o0, t) + self.M @ _at(lam, t) - self.H @ _at(shift, t) for t in (0.0, 1.0)]
+        return np.where(closed, lam[0], o[0]), np.where(closed, lam[1], o[1] - o[0])
 
     def gap_state(self, s):
         """Exact gap search at s; returns the closed set."""
@@ -272,7 +240,7 @@ class _Tracker:
         g = len(system.model.gaps)
         if g == 0:
             return np.zeros(0, dtype=bool)
-        return solve_gaps(self.M, self.H, self._at(self.o0, s), self._at(self.f, s), system,
+        return solve_gaps(self.M, self.H, _at(self.o0, s), _at(self.f, s), system,
                           with_state=True)[2]
 
     def violations(self, closed, s):
@@ -285,8 +253,8 @@ class _Tracker:
             lam, shift = self.affine_forces(closed)
         except SolveError:
             return None
-        force = self._at(lam, s)
-        opening = self._at(self.o0, s) + self.M @ force - self.H @ self._at(shift, s)
+        force = _at(lam, s)
+        opening = _at(self.o0, s) + self.M @ force - self.H @ _at(shift, s)
         tol_f = 1e-12 * max(np.abs(force).max(initial=0), 1e-300)
         tol_o = 1e-12 * max(np.abs(opening).max(initial=0),
                             self.system.clearance.max(initial=0), 1e-300)
@@ -325,7 +293,7 @@ class _Tracker:
                              "redundant gap")
         out = []
         for s in (0.0, 1.0):
-            rhs = np.concatenate([-self._at(self.o0, s)[C], self._at(self.f, s)])
+            rhs = np.concatenate([-_at(self.o0, s)[C], _at(self.f, s)])
             try:
                 x = np.linalg.solve(A, rhs) if len(rhs) else rhs
             except np.linalg.LinAlgError:
@@ -339,25 +307,26 @@ class _Tracker:
     def result_at(self, s_user: float) -> CaseResult:
         s = self.from_user(s_user)
         iv = self.interval_of(s)
-        return self._result(iv, s)
+        return self.result(iv, s)
 
     def interval(self, s_from, s_to, closed, lam, shift) -> _Interval:
         """The interval of one gap state; u is affine in s, so two solves serve all its steps."""
         def u_at(s):
             return self.system.displacements(
-                self._at(self.F, s), self._at(self.up, s),
-                self._at(lam, s) if lam[0].size else None,
-                self._at(shift, s) if shift[0].size else None)
+                _at(self.F, s), _at(self.up, s),
+                _at(lam, s) if lam[0].size else None,
+                _at(shift, s) if shift[0].size else None)
 
         u0 = u_at(0.0)
         return _Interval(s_from, s_to, closed, lam, shift, (u0, u_at(1.0) - u0))
 
-    def _result(self, iv: _Interval, s: float) -> CaseResult:
+    def result(self, iv: _Interval, s: float) -> CaseResult:
+        """The result at s on interval ``iv`` (everything affine there)."""
         system = self.system
-        F = self._at(self.F, s)
-        lam = self._at(iv.lam, s) if iv.lam[0].size else np.zeros(0)
-        u = self._at(iv.u, s)
-        terms = tuple(self._at(t, s) for t in self.terms)
+        F = _at(self.F, s)
+        lam = _at(iv.lam, s) if iv.lam[0].size else np.zeros(0)
+        u = _at(iv.u, s)
+        terms = tuple(_at(t, s) for t in self.terms)
 
         def size(pair):  # a bound on |a + s*b| before any cancellation
             return np.abs(pair[0]) + abs(s) * np.abs(pair[1])
@@ -409,6 +378,9 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     if steps < 2:
         raise ModelError(f"must be at least 2 (both ends of the range): got {steps}",
                          place="--steps")
+    from ..engine.preload import resolve_preloads
+
+    model = resolve_preloads(model)
     states = load_states(model)
     names = [s.name for s in states]
     if case is None:
@@ -476,25 +448,19 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
             raise lost(exc, s) from None
         iv_probe = tracker.interval(s, s_stop, closed, lam, shift)
         # gap events: a closed gap's force, or an open gap's opening, reaching zero
-        candidates = []
-        if g:
-            o = [tracker._at(tracker.o0, t) + tracker.M @ tracker._at(lam, t)
-                 - tracker.H @ tracker._at(shift, t) for t in (0.0, 1.0)]
-            value = np.where(closed, lam[0], o[0])
-            slope = np.where(closed, lam[1], o[1] - o[0])
-            with np.errstate(divide="ignore", invalid="ignore"):
-                root = np.where(slope != 0, -value / slope, np.inf)
-            ahead = (root - s) * direction > 2 * delta
-            if ahead.any():
-                candidates.append(root[ahead][np.argmin((root[ahead] - s) * direction)])
         s_next = s_stop
-        if candidates and (candidates[0] - s_stop) * direction < 0:
-            s_next = float(candidates[0])
-            hitting = ahead & (np.abs(root - s_next) <= 1e-9 * max(span, 1e-12))
+        if g:
+            root, ahead = affine_roots(*tracker.gap_measures(closed, lam, shift), s, direction,
+                                       2 * delta)
+            if ahead.any():
+                first_root = root[ahead][np.argmin((root[ahead] - s) * direction)]
+                if (first_root - s_stop) * direction < 0:
+                    s_next = float(first_root)
+                    hitting = ahead & (np.abs(root - s_next) <= 1e-9 * max(span, 1e-12))
         # yield events inside [s, s_next]: the peak of |sigma| along each segment
         if np.isfinite(yield_strength).any():
-            f0 = tracker._result(iv_probe, 0.0).fields
-            f1 = tracker._result(iv_probe, 1.0).fields
+            f0 = tracker.result(iv_probe, 0.0).fields
+            f1 = tracker.result(iv_probe, 1.0).fields
             if first:
                 already = yield_excess(f0, f1, s, yield_strength) >= -1e-12 * yield_strength
                 for j in np.flatnonzero(already & ~yielded):
