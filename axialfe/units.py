@@ -55,12 +55,105 @@ _AS_DIFFERENCE = {
 def _registry():
     import pint
 
+    folder = _cache_folder()
+    if folder is not None:  # pint keeps its parsed definitions there (its own cache)
+        try:
+            return pint.UnitRegistry(autoconvert_offset_to_baseunit=True,
+                                     cache_folder=str(folder / "pint"))
+        except Exception:  # pragma: no cover - an unusable cache folder: parse afresh
+            pass
     return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+
+
+# --- the unit table kept between runs ---------------------------------------
+# Each unit text pint has read, with its SI scale, offset and base dimensions, is
+# kept as JSON in the user's cache folder (AXIALFE_CACHE_DIR, else
+# $XDG_CACHE_HOME/axialfe or ~/.cache/axialfe; an empty AXIALFE_CACHE_DIR turns it
+# off), under the version of pint that read it.  A model whose units are all in
+# the table is read without starting pint.  The table is data only (numbers and
+# names, checked when read); anything unreadable in it is ignored.
+_TABLE: dict | None = None
+
+
+def _cache_folder():
+    import os
+    from pathlib import Path
+
+    folder = os.environ.get("AXIALFE_CACHE_DIR")
+    if folder is None:
+        base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
+        folder = os.path.join(base, "axialfe")
+    return Path(folder) if folder else None
+
+
+def _table_file():
+    folder = _cache_folder()
+    if folder is None:
+        return None
+    try:
+        from importlib.metadata import version
+
+        return folder / f"units-pint-{version('pint')}.json"
+    except Exception:  # pragma: no cover - pint's metadata missing
+        return None
+
+
+def _dims(items):
+    """Base dimensions as a sorted tuple of (name, exponent): hashable and comparable."""
+    return tuple(sorted((str(k), int(v) if float(v).is_integer() else float(v))
+                        for k, v in dict(items).items()))
+
+
+def _table() -> dict:
+    global _TABLE
+    if _TABLE is None:
+        _TABLE = {"units": {}, "kinds": {}}
+        path = _table_file()
+        try:
+            import json
+
+            data = json.loads(path.read_text(encoding="utf-8"))
+            units = {str(u): (float(a), float(b), _dims(d))
+                     for u, (a, b, d) in data["units"].items()}
+            kinds = {str(k): _dims(d) for k, d in data["kinds"].items()}
+            if set(kinds) == set(KINDS):
+                _TABLE = {"units": units, "kinds": kinds}
+        except Exception:  # no table yet, or one that cannot be read: start afresh
+            pass
+    return _TABLE
+
+
+def _remember(unit: str, entry) -> None:
+    table = _table()
+    table["units"][unit] = entry
+    if not table["kinds"]:
+        table["kinds"] = {k: _dims(_registry().parse_units(ref).dimensionality)
+                          for k, (ref, _) in KINDS.items()}
+    path = _table_file()
+    if path is None:
+        return
+    try:
+        import json
+        import os
+        import tempfile
+
+        path.parent.mkdir(parents=True, exist_ok=True)
+        text = json.dumps({"units": {u: [a, b, dict(d)] for u, (a, b, d) in table["units"].items()},
+                           "kinds": {k: dict(d) for k, d in table["kinds"].items()}})
+        fd, tmp = tempfile.mkstemp(dir=path.parent, suffix=".tmp")
+        with os.fdopen(fd, "w", encoding="utf-8") as out:
+            out.write(text)
+        os.replace(tmp, path)
+    except OSError:  # a read-only home: the table stays in memory
+        pass
 
 
 @functools.lru_cache(maxsize=None)
 def _dimensionality(kind: str):
-    return _registry().parse_units(KINDS[kind][0]).dimensionality
+    kinds = _table()["kinds"]
+    if kind in kinds:
+        return kinds[kind]
+    return _dims(_registry().parse_units(KINDS[kind][0]).dimensionality)
 
 
 # Limits on a unit's text, checked before pint sees it: pint evaluates exponents, so a
@@ -115,7 +208,10 @@ def check_unit_text(unit: str) -> None:
 
 @functools.lru_cache(maxsize=4096)
 def _parse_unit(unit: str):
-    """Return (scale, offset, dimensionality) taking ``unit`` to SI base units."""
+    """Return (scale, offset, dimensions) taking ``unit`` to SI base units."""
+    known = _table()["units"].get(unit)
+    if known is not None:
+        return known
     import pint
 
     check_unit_text(unit)
@@ -132,7 +228,10 @@ def _parse_unit(unit: str):
         raise UnitError(f"cannot read unit '{unit}'") from exc
     zero = ureg.Quantity(0.0, parsed).to_base_units()
     one = ureg.Quantity(1.0, parsed).to_base_units()
-    return one.magnitude - zero.magnitude, zero.magnitude, parsed.dimensionality
+    entry = (float(one.magnitude - zero.magnitude), float(zero.magnitude),
+             _dims(parsed.dimensionality))
+    _remember(unit, entry)
+    return entry
 
 
 def _kind_of(dim) -> str | None:

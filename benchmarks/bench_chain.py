@@ -1,10 +1,18 @@
-"""Benchmark: a generated chain of 200,000 segments, built in code, assembled and solved.
+"""Benchmark (banded factorisation): a chain of 10^6 segments against the arithmetic floor.
 
-A long stepped bar between two walls (random sections from a small catalogue, a
-few materials, a temperature change on every segment, point loads at every tenth
-station, a spring every thousandth) is built as a Model, then each stage of the
-engine is timed on its own.  Target: assembly plus solve in a few seconds on two
-cores.  Run from the project root:
+A long stepped bar between two walls (random lengths, moduli and areas, a
+temperature change on every segment, a load at every tenth station, a spring
+every thousandth; invented data) is built with ``Model.from_arrays`` and solved
+by ``axialfe.solve``.  Its anchors, in the same run:
+
+- the floor: one ``scipy.linalg.solve_banded`` of the same tridiagonal system
+  (springs, thermal loads and point loads included) plus a numpy recovery of
+  the segment forces; the answer must agree to 1e-9 relative;
+- at 10^5 segments, a plain Python script: a loop filling a
+  ``scipy.sparse.lil_matrix``, then ``spsolve``.
+
+Goal: at most 3 times the floor, peak memory (traced) under 1 GB.  Run from the
+project root:
 
     python benchmarks/bench_chain.py [n_segments] [--profile]
 """
@@ -15,69 +23,141 @@ import cProfile
 import pstats
 import sys
 import time
-
+import tracemalloc
 from pathlib import Path
 
 import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))  # this checkout's axialfe
 
-from axialfe.engine.assembly import assemble
-from axialfe.model.cases import load_states
-from axialfe.model import Load, Material, Model, Section, Segment, Station, Support
-from axialfe.engine.system import System
+from axialfe import solve  # noqa: E402
+from axialfe.model import Model  # noqa: E402
 
 
-def build(n: int, seed: int = 1) -> Model:
+def data(n: int, seed: int = 1):
     rng = np.random.default_rng(seed)
-    mats = [Material("steel", 200e9, 12e-6, density=7850.0),
-            Material("alu", 70e9, 23e-6, density=2700.0),
-            Material("brass", 105e9, 19e-6, density=8500.0)]
-    secs = [Section(f"d{d}", "round", (("diameter", d * 1e-3),)) for d in (16, 20, 25, 32, 40)]
-    x = np.concatenate([[0.0], np.cumsum(rng.uniform(0.005, 0.02, n))])
-    stations = tuple(Station(f"s{i}", float(v)) for i, v in enumerate(x))
-    mi, si = rng.integers(0, len(mats), n), rng.integers(0, len(secs), n)
-    dT = rng.uniform(-20.0, 60.0, n)
-    segments = tuple(Segment(f"e{i}", f"s{i}", f"s{i + 1}", mats[mi[i]], secs[si[i]],
-                             temperature_change=float(dT[i])) for i in range(n))
-    supports = (Support("s0"), Support(f"s{n}"),
-                *(Support(f"s{i}", "spring", stiffness=5e7) for i in range(1000, n, 1000)))
-    loads = tuple(Load(f"s{i}", float(f)) for i, f in zip(range(10, n, 10),
-                                                          rng.uniform(-5e3, 5e3, n // 10)))
-    return Model(stations, segments, supports, loads)
+    L = rng.uniform(0.005, 0.02, n)
+    return dict(x=np.concatenate([[0.0], np.cumsum(L)]), E=rng.choice([200e9, 70e9, 105e9], n),
+                A=rng.choice([2.0e-4, 3.1e-4, 4.9e-4, 8.0e-4, 1.26e-3], n),
+                alpha=rng.choice([12e-6, 23e-6, 19e-6], n), dT=rng.uniform(-20.0, 60.0, n),
+                load_at=np.arange(10, n, 10), load=rng.uniform(-5e3, 5e3, len(range(10, n, 10))),
+                spring_at=np.arange(1000, n, 1000), spring_k=5e7)
 
 
-def timed(label, fn, *args):
-    t0 = time.perf_counter()
-    out = fn(*args)
-    dt = time.perf_counter() - t0
-    print(f"  {label:<34s} {dt:8.3f} s")
-    return out, dt
+def build(n: int, d) -> Model:
+    idx = np.arange(n)
+    return Model.from_arrays(d["x"], idx, idx + 1, d["E"], d["A"], d["alpha"], d["dT"],
+                             fixed=[0, n], load_at=d["load_at"], load_force=d["load"],
+                             spring_at=d["spring_at"],
+                             spring_stiffness=np.full(len(d["spring_at"]), d["spring_k"]))
 
 
-def run(n: int):
-    print(f"axial chain of {n:,} segments")
-    model, t_build = timed("build the Model (input objects)", build, n)
-    asm, t_asm = timed("assembly (element terms, sparse K)", assemble, model)
-    system, t_fact = timed("connectivity + factorisation", System, model, asm)
+def floor(n: int, d):
+    """One solve_banded of the tridiagonal system and a numpy recovery of the forces."""
+    from scipy.linalg import solve_banded
+
+    k = d["E"] * d["A"] / np.diff(d["x"])
+    delta0 = d["alpha"] * d["dT"] * np.diff(d["x"])
+    F = np.zeros(n + 1)
+    F[d["load_at"]] += d["load"]
+    F[:-1] -= k * delta0           # thermal loads: -k*delta0 at the from end, +k*delta0 at the to end
+    F[1:] += k * delta0
+    diag = np.zeros(n + 1)
+    diag[:-1] += k
+    diag[1:] += k
+    diag[d["spring_at"]] += d["spring_k"]
+    ab = np.zeros((3, n - 1))
+    ab[0, 1:] = -k[1:-1]
+    ab[1] = diag[1:-1]
+    ab[2, :-1] = -k[1:-1]
+    u = np.zeros(n + 1)
+    u[1:-1] = solve_banded((1, 1), ab, F[1:-1], check_finite=False)
+    return k * (np.diff(u) - delta0)
+
+
+def plain_python(n: int, d):
+    """The same chain by a loop filling a lil_matrix, then spsolve."""
+    import scipy.sparse as sp
+    from scipy.sparse.linalg import spsolve
+
+    x, E, A, alpha, dT = d["x"], d["E"], d["A"], d["alpha"], d["dT"]
+    K = sp.lil_matrix((n + 1, n + 1))
+    F = np.zeros(n + 1)
+    for i in range(n):
+        L = x[i + 1] - x[i]
+        k = E[i] * A[i] / L
+        K[i, i] += k
+        K[i + 1, i + 1] += k
+        K[i, i + 1] -= k
+        K[i + 1, i] -= k
+        F[i] -= k * alpha[i] * dT[i] * L
+        F[i + 1] += k * alpha[i] * dT[i] * L
+    for i, f in zip(d["load_at"], d["load"]):
+        F[i] += f
+    for i in d["spring_at"]:
+        K[i, i] += d["spring_k"]
+    free = np.arange(1, n)
+    Kf = K.tocsr()[free][:, free]
+    u = np.zeros(n + 1)
+    u[free] = spsolve(Kf.tocsc(), F[free])
+    L = np.diff(x)
+    return E * A / L * (np.diff(u) - alpha * dT * L)
+
+
+def best(fn, *args, repeat=3):
+    times, out = [], None
+    for _ in range(repeat):
+        t0 = time.perf_counter()
+        out = fn(*args)
+        times.append(time.perf_counter() - t0)
+    return min(times), out
+
+
+def row(label, value, anchor_label, anchor):
+    print(f"  {label:<34s} {value * 1e3:9.1f} ms   {anchor_label:<30s} {anchor * 1e3:9.1f} ms"
+          f"   ratio {value / anchor:6.2f}")
+
+
+def run(n: int, small: int = 100_000):
+    print(f"banded factorisation: a chain of {n:,} segments")
+    d = data(n)
+    t_build, model = best(build, n, d, repeat=1)
+    print(f"  (Model.from_arrays: {t_build * 1e3:.0f} ms)")
+    t_floor, N_floor = best(floor, n, d)
+    t_solve, sol = best(lambda: solve(model))
+    N = sol["base"].axial_force[:, 0]
+    rel = np.abs(N - N_floor).max() / np.abs(N_floor).max()
+    row("axialfe.solve", t_solve, "floor (solve_banded + numpy)", t_floor)
+    from axialfe.engine.system import System
+    from axialfe.model.cases import load_states
+
     state = load_states(model)[0]
-    (F, u_presc, terms), t_load = timed("load vector", system.state_vectors, state)
-    u, t_solve = timed("solve (triangular solves)", system.displacements, F, u_presc)
-    result, t_rec = timed("recovery (forces, reactions)", system.recover, state, u, F,
-                          np.zeros(0), terms)
-    total = t_asm + t_fact + t_load + t_solve + t_rec
-    print(f"  {'assemble + solve + recover':<34s} {total:8.3f} s")
-    print(f"  equilibrium residual {result.equilibrium_residual:.2e}, "
-          f"max |N| {np.abs(result.axial_force).max():.4g} N")
-    return total
+    t_engine, _ = best(lambda: System(model).solve_state(state))
+    row("engine alone (System, one case)", t_engine, "floor (solve_banded + numpy)", t_floor)
+    tracemalloc.start()
+    solve(model)
+    peak = tracemalloc.get_traced_memory()[1]
+    tracemalloc.stop()
+    print(f"  same answer: max |N - N_floor| / max |N| = {rel:.1e} (goal <= 1e-9); "
+          f"peak traced memory of the solve {peak / 1e6:.0f} MB (goal < 1000)")
+    d = data(small)
+    model = build(small, d)
+    t_small, sol = best(lambda: solve(model))
+    t_plain, N_plain = best(plain_python, small, d, repeat=1)
+    N = sol["base"].axial_force[:, 0]
+    rel = np.abs(N - N_plain).max() / np.abs(N_plain).max()
+    row(f"axialfe.solve, {small:,} segments", t_small, "plain Python (lil + spsolve)", t_plain)
+    print(f"  same answer as the plain script: {rel:.1e}")
 
 
 if __name__ == "__main__":
     args = [a for a in sys.argv[1:] if not a.startswith("--")]
-    n = int(args[0]) if args else 200_000
+    n = int(args[0]) if args else 1_000_000
     if "--profile" in sys.argv:
+        d = data(n)
+        model = build(n, d)
         prof = cProfile.Profile()
-        prof.runcall(run, n)
-        pstats.Stats(prof).sort_stats("cumulative").print_stats(25)
+        prof.runcall(solve, model)
+        pstats.Stats(prof).sort_stats("tottime").print_stats(25)
     else:
         run(n)

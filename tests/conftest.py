@@ -10,6 +10,9 @@ from hypothesis import settings
 
 from axialfe.model import Material, Section
 
+# the unit table kept between runs stays off in tests (tests/test_startup.py turns it on)
+os.environ.setdefault("AXIALFE_CACHE_DIR", "")
+
 settings.register_profile("axialfe", max_examples=40, derandomize=True, deadline=None)
 # a longer, randomised search for local runs: AXIALFE_HYPOTHESIS=thorough python -m pytest
 settings.register_profile("thorough", max_examples=500, deadline=None)

@@ -17,7 +17,41 @@ from ..errors import SolveError
 from ..formatting import names as names_text
 from ..model import Model
 
-__all__ = ["Dofs", "degrees_of_freedom"]
+__all__ = ["Dofs", "degrees_of_freedom", "connected_components"]
+
+_SMALL = 2000   # up to this many stations, parts are found without scipy's graph module
+
+
+def connected_components(n, a, b):
+    """The connected parts of the graph of ``n`` stations with edges ``a[i]-b[i]``.
+
+    Returns ``(count, labels)`` with parts labelled in the order of their least
+    station, as ``scipy.sparse.csgraph.connected_components`` labels them.  Small
+    graphs are joined by a union-find here, which spares loading scipy's graph
+    and linear algebra modules when a small model starts.
+    """
+    if n > _SMALL:
+        import scipy.sparse as sp
+        from scipy.sparse.csgraph import connected_components as components
+
+        graph = sp.coo_matrix((np.ones(len(a)), (a, b)), shape=(n, n))
+        return components(graph, directed=False)
+    parent = list(range(n))
+
+    def root(i):
+        while parent[i] != i:
+            parent[i] = parent[parent[i]]
+            i = parent[i]
+        return i
+
+    for i, j in zip(a.tolist(), b.tolist()):
+        ri, rj = root(i), root(j)
+        if ri != rj:
+            parent[max(ri, rj)] = min(ri, rj)
+    roots = np.array([root(i) for i in range(n)], dtype=int)
+    # the least station of a part is its root (unions keep the smaller root)
+    uniq, labels = np.unique(roots, return_inverse=True)
+    return len(uniq), labels.reshape(-1)
 
 
 @dataclass(frozen=True)
@@ -64,7 +98,6 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
         When some stations are held by no support, spring or gap (a mechanism).
     """
     import scipy.sparse as sp
-    from scipy.sparse.csgraph import connected_components
 
     n = len(model.stations)
     index = model._station_index
@@ -78,20 +111,22 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
     held = np.zeros(n, dtype=bool)
     held[presc] = True
     held[spring_at] = True
-    seg = sp.coo_matrix((np.ones(len(start)), (start, end)), shape=(n, n))
-    n_seg, seg_label = connected_components(seg, directed=False)
+    n_seg, seg_label = connected_components(n, start, end)
     two = cons.b >= 0
-    gap_edges = sp.coo_matrix((np.ones(int(two.sum())), (cons.a[two], cons.b[two])), shape=(n, n))
-    n_all, all_label = connected_components(seg + gap_edges, directed=False)
+    if two.any():
+        n_all, all_label = connected_components(n, np.concatenate([start, cons.a[two]]),
+                                                np.concatenate([end, cons.b[two]]))
+    else:  # no gap joins two stations: the parts are the segments' own
+        n_all, all_label = n_seg, seg_label
     grounded = held.copy()
     grounded[cons.a[~two]] = True
     comp_grounded = np.bincount(all_label, grounded, minlength=n_all) > 0
-    names = [st.name for st in model.stations]
     used = np.zeros(n, dtype=bool)
     used[start] = used[end] = True
     used[cons.a] = True
     used[cons.b[two]] = True
     for c in np.flatnonzero(~comp_grounded):
+        names = [st.name for st in model.stations]
         members = [names[i] for i in np.flatnonzero(all_label == c)]
         line = model.line_of(f"stations.{members[0]}")
         if len(members) == 1 and not used[all_label == c].any():

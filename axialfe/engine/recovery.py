@@ -53,9 +53,9 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
 
     g = len(model.gaps)
     gap_nodal = system.BT @ lam if g else np.zeros(asm.n)
-    Ku = system.K @ u
+    Ku = system.stiffness_times(u)
     R_station = Ku - F + gap_nodal
-    noise_R = 1e3 * _EPS * (system.abs_K @ mu + mF + (abs(system.BT) @ mlam if g else 0.0))
+    noise_R = 1e3 * _EPS * (system.stiffness_times(mu, magnitude=True) + mF + (abs(system.BT) @ mlam if g else 0.0))
     R_station = np.where(np.abs(R_station) < noise_R, 0.0, R_station)
     reactions = np.zeros(len(model.supports))
     reactions[system.presc_support] = R_station[system.presc]

@@ -22,11 +22,13 @@ from ..errors import SolveError
 from ..model import Model
 from ..model.cases import LoadState, load_states
 from ..results import CaseResult, Solution
+from .active_set import active_set, ground_gaps
 from .assembly import Assembly, assemble, element_loads
 from .constraints import unilateral
 from .contact import solve_gaps
 from .dofs import degrees_of_freedom
-from .factor import factorise
+from .factor import band_of, factorise
+from .pivoting import SOLVED
 from .recovery import recover
 
 __all__ = ["System", "solve"]
@@ -61,14 +63,85 @@ class System:
         self.x = model.arrays.x
         self.cons = cons = unilateral(model, n)
         self.dofs = dofs = degrees_of_freedom(model, asm.start, asm.end, cons)
-        self.K = asm.K + sp.diags(np.bincount(dofs.spring_at, dofs.spring_k, minlength=n)
-                                  .astype(float), format="csr")
-        self.abs_K = abs(self.K)
-        Kc = self.K.tocsc()
-        self.K_fr = Kc[dofs.free][:, dofs.restrained].tocsr()
-        self.factor = (factorise(Kc[dofs.free][:, dofs.free], method, model.source)
-                       if len(dofs.free) else None)
+        self.spring_diagonal = np.bincount(dofs.spring_at, dofs.spring_k,
+                                           minlength=n).astype(float)
+        free = dofs.free
+        nf = len(free)
+        # the stations' places among the unknowns, and the segments that tie a free
+        # station to a restrained one (their -k moves prescribed values to the loads)
+        self._free_index = fidx = np.full(n, -1)
+        fidx[free] = np.arange(nf)
+        fs, fe = fidx[asm.start], fidx[asm.end]
+        tie_s, tie_e = (fs >= 0) & (fe < 0), (fe >= 0) & (fs < 0)
+        ridx = np.full(n, -1)
+        ridx[dofs.restrained] = np.arange(len(dofs.restrained))
+        self.K_fr = sp.csr_matrix(
+            (-np.concatenate([asm.stiffness[tie_s], asm.stiffness[tie_e]]),
+             (np.concatenate([fs[tie_s], fe[tie_e]]),
+              np.concatenate([ridx[asm.end[tie_s]], ridx[asm.start[tie_e]]]))),
+            shape=(nf, len(dofs.restrained)))
+        self._K = self._abs_K = None
+        self.band = self._ground = None
+        self.last_contact = None   # ('active-set' or 'exact', factorisations) of the last search
+        self.factor = (factorise(self._K_ff, method, model.source, band=self._band)
+                       if nf else None)
         self._M = None
+
+    def _band(self):
+        """The free-free stiffness as a band over the free stations numbered by x."""
+        free, asm = self.free, self.asm
+        xf = self.x[free]
+        ascending = len(xf) < 2 or bool(np.all(xf[1:] >= xf[:-1]))
+        # Eliminate from the end away from the supports: back substitution then ends
+        # at the supported end, whose small displacements are not computed from the
+        # large ones of the far end (an unloaded segment there keeps an exact zero force).
+        x_held = self.x[self.restrained]
+        lower = np.count_nonzero(x_held < 0.5 * (self.x.min() + self.x.max())) if len(xf) else 0
+        reverse = 2 * lower > len(x_held)
+        if ascending and not reverse:
+            order, pos = None, self._free_index
+        else:
+            order = np.arange(len(xf)) if ascending else np.argsort(xf, kind="stable")
+            if reverse:
+                order = order[::-1].copy()
+            pos = np.full(asm.n, -1)
+            pos[free[order]] = np.arange(len(free))
+        band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness, self.spring_diagonal)
+        band.order = order
+        self.band = band
+        return band
+
+    def _K_ff(self):
+        free = self.free
+        return self.K.tocsc()[free][:, free]
+
+    @property
+    def K(self):
+        """The global stiffness, springs included (scipy.sparse, built on first use)."""
+        if self._K is None:
+            import scipy.sparse as sp
+
+            self._K = self.asm.K + sp.diags(self.spring_diagonal, format="csr")
+        return self._K
+
+    @property
+    def abs_K(self):
+        """|K| entrywise (built on first use)."""
+        if self._abs_K is None:
+            self._abs_K = abs(self.K)
+        return self._abs_K
+
+    def stiffness_times(self, u, magnitude=False):
+        """``K @ u`` (or ``|K| @ u`` with ``magnitude``) from the segment arrays, for u (n,)."""
+        asm = self.asm
+        k = asm.stiffness
+        if magnitude:
+            t = k * (u[asm.start] + u[asm.end])
+            return (np.bincount(asm.start, t, minlength=asm.n)
+                    + np.bincount(asm.end, t, minlength=asm.n) + self.spring_diagonal * u)
+        t = k * (u[asm.end] - u[asm.start])
+        return (np.bincount(asm.end, t, minlength=asm.n)
+                - np.bincount(asm.start, t, minlength=asm.n) + self.spring_diagonal * u)
 
     # the parts of the system that recovery, contact and sweeps read
     clearance = property(lambda self: self.cons.clearance)
@@ -161,8 +234,44 @@ class System:
             none = (np.zeros(0), np.zeros(self.n_parts))
             return none + (np.zeros(0, dtype=bool),) if with_state else none
         o0, f = self.gap_problem(F, u_presc)
+        at = self._ground_gaps()
+        if at is not None:
+            found = self._active_set(at, F, u_presc, o0)
+            if found is not None:
+                return found if with_state else found[:2]
         M, H = self.gap_matrix
+        self.last_contact = ("exact", 0)
         return solve_gaps(M, H, o0, f, self, label, with_state=with_state)
+
+    def _ground_gaps(self):
+        """Band positions of the gaps, where the banded active-set search applies (else None)."""
+        if self._ground is None:
+            at = None
+            if (self.band is not None and getattr(self.factor, "method", None) == "banded"
+                    and self.n_parts == 0):
+                order = self.band.order
+                inverse = None
+                if order is not None:
+                    inverse = np.empty_like(order)
+                    inverse[order] = np.arange(len(order))
+                at = ground_gaps(self.cons, self._free_index, inverse)
+            self._ground = (at,)
+        return self._ground[0]
+
+    def _active_set(self, at, F, u_presc, o0):
+        """(forces, shifts, closed) by the banded active-set search, or None where it cycles."""
+        u = np.zeros(self.asm.n)
+        u[self.presc] = u_presc
+        b = F[self.free] - self.K_fr @ u[self.restrained]
+        if self.band.order is not None:
+            b = b[self.band.order]
+        scale_q = max(np.abs(o0).max(initial=0), self.clearance.max(initial=0), 1e-300)
+        lam, closed, status, its = active_set(self.band, at, self.cons.s1, self.clearance, b,
+                                              o0 < -1e-11 * scale_q, scale_q)
+        self.last_contact = ("active-set" if status == SOLVED else "exact", its)
+        if status != SOLVED:
+            return None
+        return lam, np.zeros(0), closed
 
     # --- recovery ----------------------------------------------------------
     def recover(self, state: LoadState, u, F, lam, terms, closed=None,
@@ -177,8 +286,10 @@ def solve(model: Model, method: str = "auto") -> Solution:
     Parameters
     ----------
     model : Model
-    method : {'auto', 'sparse-lu'}
-        The factorisation of the stiffness (one for all cases).
+    method : {'auto', 'banded', 'sparse-lu'}
+        The factorisation of the stiffness (one for all cases): the banded
+        Cholesky of the unknowns numbered by x, the sparse LU, or ``'auto'``
+        (the band where it is narrow).
 
     Examples
     --------

@@ -106,7 +106,10 @@ class Fields:
         for key in ("force", "area", "length", "modulus", "end_force", "x_from", "x_to"):
             value = getattr(self, key)
             if value is not None:
-                value = np.array(value, dtype=float)
+                # a float array is kept as a read-only view (the engine's arrays are
+                # never written after they are made); anything else becomes one
+                value = (value.view() if isinstance(value, np.ndarray) and value.dtype == float
+                         else np.array(value, dtype=float))
                 value.setflags(write=False)
                 object.__setattr__(self, key, value)
 
@@ -119,7 +122,7 @@ class Fields:
             *force_coefficients(n_from, q, rho_g, c, p1, q1, p2, q2, length)))
         area = np.column_stack(np.broadcast_arrays(
             *(np.multiply(c, a) for a in area_coefficients(1, p1, q1, p2, q2)))).astype(float)
-        return cls(force.astype(float), area, length, modulus, end_force, x_from, x_to)
+        return cls(force.astype(float, copy=False), area, length, modulus, end_force, x_from, x_to)
 
     def interpolate(self, other: "Fields", s) -> "Fields":
         """The fields at ``self + s*(other - self)``, for a state affine in ``s``.
