@@ -58,9 +58,12 @@ def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap):
     if len(k):
         # elastic part of the elongation from the recovered force: N_from/k - G
         with np.errstate(divide="ignore", invalid="ignore"):
-            elastic = np.where(k > 0, n_from / k - G, 0.0)
+            stretch = np.where(k > 0, n_from / k, 0.0)
+        elastic = stretch - G
+        # the scale of the terms subtracted: N/k and G cancel where a held bar carries a
+        # load with no elastic elongation, and their rounding is no defect
         scale = max(np.abs(u).max(initial=0.0), np.abs(delta0).max(initial=0.0),
-                    np.abs(elastic).max(initial=0.0), 1e-300)
+                    np.abs(stretch).max(initial=0.0), np.abs(G).max(initial=0.0), 1e-300)
         seg = np.abs(du - delta0 - elastic) / scale
         i = int(np.argmax(seg))
         if seg[i] > worst:
