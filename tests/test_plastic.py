@@ -315,3 +315,62 @@ def test_path_command_stops_at_the_collapse(tmp_path, cli):
     plot = tmp_path / "path.svg"
     drawn = cli("path", path, "--path", "load 0..30", "--plot", plot)
     assert drawn.exit_code == 0 and plot.exists()
+
+
+def test_linear_kinematic_hardening_of_a_restrained_bar():
+    # Past first yield the stress follows the tangent modulus E_t = E*H/(E + H):
+    # sigma = -(f_y + E_t*alpha*(dT - dT_y)); with kinematic hardening the reverse yield
+    # on cooling comes after a stress change of 2*f_y (common practice: the Bauschinger
+    # effect of a kinematic rule)
+    H = 20e9
+    e_t = E * H / (E + H)
+    result = run(restrained(hardening_modulus=H),
+                 "temperature-change 0 K..300 K; temperature-change 300 K..0 K")
+    peak = -(FY + e_t * ALPHA * (300 - DT_Y))
+    assert_close(result.states[0].result.stress[0, 0], peak)
+    assert events(result) == [(1, "bar", "yields"), (2, "bar", "unloads"), (2, "bar", "yields")]
+    assert_close(result.events[2].value, 300 - 2 * FY / (E * ALPHA))
+    # on the way back the tangent is E_t again, from the reverse yield to dT = 0
+    assert_close(result.states[1].result.stress[0, 0],
+                 peak + 2 * FY + e_t * ALPHA * (300 - 2 * DT_Y))
+
+
+def test_a_cycle_that_touches_yield_reports_no_event():
+    result = run(restrained(), "temperature-change 0 K..150 K; temperature-change 150 K..0 K",
+                 cycles=3)
+    assert events(result) == [(1, "bar", "yields"), (2, "bar", "unloads")]
+
+
+def test_reader_keys_of_elastic_plastic_materials(tmp_path):
+    from axialfe.io.modelfile import parse_model
+
+    text = PIPE.replace('[settings]\nbehaviour = "elastic-plastic"\n', "").replace(
+        'yield_strength = "240 MPa"', 'yield_strength = "240 MPa"\nbehaviour = "elastic-plastic"\n'
+        'compressive_yield_strength = "200 MPa"\nhardening_modulus = "2 GPa"')
+    mat = parse_model(text).segments[0].material
+    assert (mat.behaviour, mat.compressive_yield_strength, mat.hardening_modulus) == (
+        "elastic-plastic", 200e6, 2e9)
+    assert parse_model(PIPE).segments[0].material.plastic
+    with pytest.raises(ModelError) as exc:
+        parse_model(PIPE.replace('behaviour = "elastic-plastic"', 'behaviour = "plastic"'), "m.toml")
+    assert str(exc.value) == "m.toml:4: settings: unknown behaviour 'plastic'; did you mean 'elastic'?"
+
+
+def test_the_pipe_example_shakes_down_with_the_hand_residual_stress(cli):
+    # the hand solution in the example's comments: residual E*alpha*(dT - dT_y), 2*dT_y > dT
+    from conftest import EXAMPLES
+
+    out = cli("path", f"{EXAMPLES}/pipe-anchors-shakedown.toml", "--path",
+              "temperature 20 degC..170 degC; temperature 170 degC..20 degC", "--cycles", "4",
+              "--format", "json")
+    assert out.exit_code == 0, out.output
+    data = json.loads(out.stdout)
+    e_alpha = 200e9 * 11.7e-6
+    assert data["events"][0]["value"] == pytest.approx(20 + 250e6 / e_alpha, rel=1e-12)
+    assert data["cycles"] == {"count": 4, "outcome": "shakedown", "decided_at": 2}
+    residual = data["states"][1]["segments"][0]["stress"][0]
+    assert residual == pytest.approx(e_alpha * (150 - 250e6 / e_alpha) / 1e6, rel=1e-9)
+    limit = json.loads(cli("collapse", f"{EXAMPLES}/pipe-anchors-shakedown.toml", "--format",
+                           "json").stdout)
+    area_ = 3.141592653589793 / 4 * (114.3 ** 2 - (114.3 - 2 * 6.02) ** 2) * 1e-6
+    assert limit["load_factor"] == pytest.approx(2 * 250e6 * area_ / 60e3, rel=1e-9)

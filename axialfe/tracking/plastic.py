@@ -320,6 +320,7 @@ class _Tracker:
             raise SolveError("the search for the yielding segments did not settle",
                              file=self.model.source)
         zc = np.maximum(zc, 0.0) * D * scale
+        zc = _least_norm(M, q, zc)
         z[C] = zc
         w[C] = q + M @ zc
         return z, w
@@ -423,7 +424,8 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
         notes.append("the load factor scales the case's settlements with its loads")
     lam, thermal = 0.0, _Thermal()
     p = np.zeros(len(P))
-    side = np.zeros(len(P), dtype=int)
+    side = np.zeros(len(P), dtype=int)      # at the tension (+1) or compression (-1) bound
+    flowing = np.zeros(len(P), dtype=bool)  # yielding on the last interval
     N = tr.forces(lam, thermal, p)
     over = (N - tr.h * p > tr.Nt * (1 + 1e-12)) | (N - tr.h * p < -tr.Nc * (1 + 1e-12))
     if over.any():
@@ -470,15 +472,20 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
         for _ in range(10_000 + 100 * len(P)):
             z, w = tr.rates(side, dN_el)
             if z is None:   # no rate solution: a mechanism
+                for j in np.flatnonzero((side != 0) & ~flowing):
+                    events.append(PathEvent(leg.index, names[j], "yields", leg.value(t)))
                 collapsed_on = leg.index
                 events.append(PathEvent(leg.index, ", ".join(n for n, s in zip(names, side) if s),
                                         "collapses", leg.value(t)))
                 break
             tol_w = 1e-10 * max(np.abs(dN_el).max(initial=0.0), 1e-300)
             leave = (side != 0) & (z <= 0) & (w > tol_w)
-            for j in np.flatnonzero(leave):
+            for j in np.flatnonzero(leave & flowing):
                 events.append(PathEvent(leg.index, names[j], "unloads", leg.value(t)))
+            for j in np.flatnonzero((z > 0) & ~flowing):
+                events.append(PathEvent(leg.index, names[j], "yields", leg.value(t)))
             side = np.where(leave, 0, side)
+            flowing = z > 0
             dp = side * z
             dN = dN_el + tr.S @ dp
             slope = dN - tr.h * dp
@@ -500,7 +507,6 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             N = tr.forces(lam, thermal, p)
             for j in np.flatnonzero(hit):
                 side[j] = 1 if up[j] <= down[j] else -1
-                events.append(PathEvent(leg.index, names[j], "yields", leg.value(t)))
             history.append((leg.index, leg.value(t), _full(model, P, N)))
             if t >= 1.0:
                 break
@@ -527,6 +533,28 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
                                 collapsed_on, notes)
     return PathResult(tuple(legs), tuple(events), tuple(states), cycles, collapsed_on,
                       tuple(history), tuple(notes), model, base.name)
+
+
+def _least_norm(M, q, z):
+    """Among the rate solutions with the same set at a bound, the one of least norm.
+
+    With perfectly plastic segments yielding together in series, M is singular
+    and the split of the plastic rate among them is not unique (the forces
+    are); the least-norm split shares it alike, independent of the pivot order.
+    Kept only when it is still a solution.
+    """
+    w = q + M @ z
+    J = np.flatnonzero((z > 0) | (np.abs(w) <= 1e-10 * max(np.abs(q).max(initial=0.0), 1e-300)))
+    if len(J) < 2 or np.linalg.matrix_rank(M[np.ix_(J, J)]) == len(J):
+        return z
+    trial = np.zeros_like(z)
+    trial[J] = np.linalg.lstsq(M[np.ix_(J, J)], -q[J], rcond=None)[0]
+    w_t = q + M @ trial
+    size = max(np.abs(z).max(initial=0.0), 1e-300)
+    scale = max(np.abs(q).max(initial=0.0), 1e-300)
+    if trial.min(initial=0.0) >= -1e-9 * size and w_t.min(initial=0.0) >= -1e-9 * scale:
+        return np.maximum(trial, 0.0)
+    return z
 
 
 def _full(model, P, N_plastic):
