@@ -127,6 +127,7 @@ CHECK_STATUS = {
     "closed-form-stepped-rod-load": ("undecided", 3),
     "hanging-rod-self-weight": ("pass", 0),
     "pipe-between-anchors": ("fail", 1),
+    "pipe-anchors-shakedown": ("pass", 0),     # the thrust alone; the heating is a path
     "rail-expansion-joint": ("pass", 0),
     "shaft-end-float": ("pass", 0),
     "stepped-rod-between-walls": ("pass", 0),

@@ -31,7 +31,7 @@ from .bracing import braced_runs, parallel_segments
 from .columns import IMPERFECTION, column_strength, johnson_tangency
 from .entries import CheckEntry, quantity_text
 
-__all__ = ['buckling_checks']
+__all__ = ["buckling_checks", "buckling_capacities"]
 
 # A compression below this strain times E*A is round-off, not load (common practice).
 _STRAIN_NOISE = 1e-12
@@ -192,4 +192,41 @@ def buckling_checks(result: CaseResult, settings: CheckSettings):
         text = _curve_text(curve, strength, slender, johnson_tangency(E, fy))
         out.append(entry(util, util <= 1.0, f"{basis}; {text}, capacity {force_text(capacity)}",
                          capacity, slender, limit, strength.relative_slenderness))
+    return out
+
+
+def buckling_capacities(model, settings: CheckSettings):
+    """Each segment's buckling capacity in compression (N), as the entries above compute it.
+
+    Returns one ``(capacity, note)`` per segment: ``capacity`` is None where the
+    check would be undecided (no clear braced run, no second moment of area or
+    no yield strength, or a stocky member with ``column_curve = "euler-only"``),
+    and ``note`` then says why.  Used by limit analysis to cap a compressed
+    segment of a mechanism.
+    """
+    runs, curve = braced_runs(model), settings.column_curve
+    out = []
+    for i, seg in enumerate(model.segments):
+        length, k, _, unclear = _length_basis(seg, runs[i], settings, lambda v: f"{v:g} m")
+        moments = [s.second_moment for s in seg.sections]
+        E, fy = seg.material.elastic_modulus, seg.material.yield_strength
+        if unclear is not None:
+            out.append((None, unclear))
+            continue
+        if any(m is None for m in moments):
+            out.append((None, "second moment of area missing"))
+            continue
+        if fy is None:
+            out.append((None, "no yield strength"))
+            continue
+        j = int(np.argmin(moments))
+        inertia, area = moments[j], [s.area for s in seg.sections][j]
+        slender = k * length / math.sqrt(inertia / area)
+        if curve == "euler-only":
+            if slender < math.pi * math.sqrt(E / fy):
+                out.append((None, "euler-only below the slenderness limit"))
+            else:
+                out.append((math.pi ** 2 * E * inertia / (k * length) ** 2, "Euler load"))
+            continue
+        out.append((column_strength(curve, E, fy, slender).stress * area, f"column curve {curve}"))
     return out

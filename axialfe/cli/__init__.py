@@ -1,9 +1,10 @@
 """The command line (typer): ``app`` and its entry point ``main``.
 
-``app`` holds the model commands; ``joint`` adds ``axialfe joint`` to it when imported.
+``app`` holds the model commands; ``joint`` adds ``axialfe joint`` and ``plastic`` adds ``collapse`` and
+``path`` to it when imported.
 """
 
-from . import joint
+from . import joint, plastic
 from .app import app, main
 
-__all__ = ["app", "main", "joint"]
+__all__ = ["app", "main", "joint", "plastic"]

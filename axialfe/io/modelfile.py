@@ -9,6 +9,7 @@ place in the model and the fix where one is known, e.g.::
 
 from __future__ import annotations
 
+import dataclasses
 import functools
 import re
 import tomllib
@@ -17,6 +18,7 @@ from pathlib import Path
 
 from .._gcpause import gc_paused
 from ..errors import ModelError, suggest
+from ..model.parts import BEHAVIOURS
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
@@ -274,13 +276,17 @@ class _Reader:
         place = f"built-in material '{name}'" if builtin else table
         self.keys(entry, _KEYS["material"], table, place=place)
         kinds = {"elastic_modulus": "stress", "thermal_expansion": "thermal_expansion",
-                 "yield_strength": "stress", "density": "density"}
+                 "yield_strength": "stress", "density": "density",
+                 "compressive_yield_strength": "stress", "hardening_modulus": "stress"}
         if "elastic_modulus" not in entry:
             self.fail("a material needs 'elastic_modulus'", table, place=place)
         kwargs = {k: self.quantity(entry[k], kind, table=table, key=k, place=place)
                   for k, kind in kinds.items() if k in entry}
         if "source" in entry:
             kwargs["source"] = self.text(entry["source"], table=table, key="source", place=place)
+        if "behaviour" in entry:
+            kwargs["behaviour"] = self.text(entry["behaviour"], table=table, key="behaviour",
+                                            place=place)
         if "poissons_ratio" in entry:
             kwargs["poissons_ratio"] = self.number(entry["poissons_ratio"], table=table,
                                                    key="poissons_ratio", place=place)
@@ -381,6 +387,11 @@ class _Reader:
                      if "reference_temperature" in settings else None)
         default_dt = self.temperature_pair(settings, reference, "settings", None, "settings")
         gravity = q(settings["gravity"], "acceleration", key="gravity") if "gravity" in settings else 0.0
+        behaviour = settings.get("behaviour")
+        if behaviour is not None and behaviour not in BEHAVIOURS:
+            self.fail(f"unknown behaviour '{behaviour}'", "settings", key="behaviour",
+                      place="settings", hint=suggest(str(behaviour), BEHAVIOURS),
+                      options=BEHAVIOURS)
 
         units_entry = data.get("units", {})
         self.keys(units_entry, _KEYS["units"], "units", place="units")
@@ -467,6 +478,9 @@ class _Reader:
             if (gravity and materials[mat_name].density is None):
                 self.fail(f"self-weight needs a density for material '{mat_name}'", table, i,
                           "material", place=place)
+            if behaviour == "elastic-plastic" and kwargs["material"].yield_strength is not None:
+                kwargs["material"] = dataclasses.replace(kwargs["material"],
+                                                         behaviour="elastic-plastic")
             segments.append(self.build(Segment, kwargs, table, i, place, raw=entry))
 
         supports = []

@@ -125,6 +125,7 @@ SETTINGS = Table({
     "temperature_change": _q("temperature_difference", **_CHANGE),
     "temperature": _q("temperature", **_TEMPERATURE),
     "gravity": _q("acceleration", low=-1e3, high=1e3, unit="m/s^2"),
+    "behaviour": Key("name"),
 }, "settings")
 UNITS = Table({
     "system": Key("name", default="SI"),
@@ -138,6 +139,9 @@ MATERIAL = Table({
     "density": _q("density", low=0, high=1e5, low_open=True, unit="kg/m^3"),
     "source": Key("text"), "description": Key("text"),
     "poissons_ratio": _n(low=0, high=0.5),
+    "behaviour": Key("name"),
+    "compressive_yield_strength": _q("stress", low=1e3, high=1e11, unit="Pa"),
+    "hardening_modulus": _q("stress", low=0, high=1e13, unit="Pa"),
 }, "material")
 SECTION = Table({
     "shape": Key("name"),  # required: the reader says so with the shapes it knows

@@ -27,6 +27,7 @@ BASE_CASE = "base"
 SHAPES = sections.SHAPES
 SUPPORT_KINDS = ("fixed", "spring", "settlement")
 GAP_KINDS = ("contact", "slack")
+BEHAVIOURS = ("elastic", "elastic-plastic")
 
 
 def _symbolic(value) -> bool:
@@ -84,6 +85,14 @@ class Material:
         Where the values come from.
     poissons_ratio : float, optional
         Poisson's ratio nu, 0 < nu < 0.5; needed for press and shrink fits.
+    behaviour : {'elastic', 'elastic-plastic'}
+        ``'elastic-plastic'``: perfectly plastic at the yield strength (with
+        linear kinematic hardening of slope ``hardening_modulus``), followed by
+        :mod:`axialfe.tracking.plastic`; the linear solvers ignore it.
+    compressive_yield_strength : float, optional
+        In Pa; the yield strength in compression when it differs.
+    hardening_modulus : float
+        Plastic modulus H in Pa (slope of stress against plastic strain).
     """
 
     name: str
@@ -93,6 +102,9 @@ class Material:
     density: float | None = None
     source: str | None = None
     poissons_ratio: float | None = None
+    behaviour: str = "elastic"
+    compressive_yield_strength: float | None = None
+    hardening_modulus: float = 0.0
 
     def __post_init__(self):
         _name(self.name, "a material's name", "materials")
@@ -106,6 +118,21 @@ class Material:
         nu = self.poissons_ratio
         if isinstance(nu, (int, float)) and not (0.0 < nu < 0.5):
             raise ModelError(f"poissons_ratio must lie between 0 and 0.5: got {nu:g}", place=place)
+        if self.behaviour not in BEHAVIOURS:
+            raise ModelError(f"unknown behaviour '{self.behaviour}'", place=place,
+                             hint=suggest(str(self.behaviour), BEHAVIOURS), options=BEHAVIOURS)
+        _positive(self.compressive_yield_strength, "compressive_yield_strength", place)
+        _finite(self.hardening_modulus, "hardening_modulus", place)
+        if isinstance(self.hardening_modulus, numbers.Real) and self.hardening_modulus < 0:
+            raise ModelError(f"hardening_modulus must not be negative: got "
+                             f"{self.hardening_modulus:g}", place=place)
+        if self.behaviour == "elastic-plastic" and self.yield_strength is None:
+            raise ModelError("an elastic-plastic material needs yield_strength", place=place)
+
+    @property
+    def plastic(self) -> bool:
+        """Whether the material yields (behaviour 'elastic-plastic')."""
+        return self.behaviour == "elastic-plastic"
 
 
 @dataclass(frozen=True)
