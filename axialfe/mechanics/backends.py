@@ -119,7 +119,7 @@ class _Exact:
         sympy = self.sympy
         s = sympy.Dummy("s", positive=True)
         P, Q = p1 + (p2 - p1) / L * s, q1 + (q2 - q1) / L * s
-        num = sum(sympy.sympify(bk) * (s / L) ** k for k, bk in enumerate(b))
+        num = sum(_exact_number(sympy, bk) * (s / L) ** k for k, bk in enumerate(b))
         return self._integral(sympy.expand(num), s, P, Q, L, self._logs(p1, q1, p2, q2)[2]) / c
 
     def _integral(self, num, s, P, Q, L, logs):
@@ -151,6 +151,12 @@ class _Exact:
             else:
                 total += a / bb * (end ** (1 - n) - d ** (1 - n)) / (1 - n)
         return total
+
+
+def _exact_number(sympy, value):
+    """A plain int (a coefficient written as 0 or 1) as a sympy Integer; sympy values as they
+    are.  Never a string parser: the values come from the element formulas, not from text."""
+    return sympy.Integer(value) if isinstance(value, int) else value
 
 
 _EXACT = None

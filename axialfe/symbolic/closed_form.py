@@ -184,7 +184,8 @@ def _element(seg, length, g_local, exact):
     rho = exact(seg.material.density) if seg.material.density is not None else sympy.Integer(0)
     (c, p1, q1), (_, p2, q2) = (sections.factors(s.shape, {k: exact(v) for k, v in s.dimensions},
                                                  sympy.pi) for s in seg.sections)
-    return element_terms(sympy.sympify(c), p1, q1, p2, q2, length, E, rho * g_local, bk)
+    c = sympy.Integer(c) if isinstance(c, int) else c   # 1 for a rectangle or plain area
+    return element_terms(c, p1, q1, p2, q2, length, E, rho * g_local, bk)
 
 
 def _state(model: Model, case: str | None, exact):
