@@ -139,6 +139,10 @@ def load(path, force=None, length=None, displacement=None, stress=None):
             raise ModelError("this is a fit file (it has a [fit] table): check it with "
                              f"'axialfe fit {path}'", file=str(path)) from None
         raise
+    if model.tolerances:
+        from ..io.modelfile import tolerance_note
+
+        typer.echo(tolerance_note(model), err=True)
     return model, output_units(model, force, length, displacement, stress)
 
 

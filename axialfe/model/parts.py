@@ -513,6 +513,9 @@ class Model:
         The symbols declared in the file's ``[symbols]`` (closed form).  A
         model read with ``symbolic=True`` holds sympy expressions of them in
         place of floats; the checks above skip values that are not floats.
+    tolerances : tuple of Toleranced
+        The toleranced inputs the reader found (:mod:`axialfe.tolerance.inputs`):
+        plain data; the model itself holds their nominal values.
 
     Raises
     ------
@@ -539,10 +542,12 @@ class Model:
     lines: dict = field(default_factory=dict, compare=False, repr=False)
     # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
     symbols: tuple = ()
+    # toleranced inputs as the reader found them (axialfe.tolerance.Toleranced), plain data
+    tolerances: tuple = field(default=(), compare=False, repr=False)
 
     def __post_init__(self):
         for key in ("stations", "segments", "supports", "loads", "gaps", "cases",
-                    "combinations", "limits", "symbols"):
+                    "combinations", "limits", "symbols", "tolerances"):
             object.__setattr__(self, key, tuple(getattr(self, key)))
         index = {}
         for i, st in enumerate(self.stations):
