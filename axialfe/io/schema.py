@@ -319,8 +319,8 @@ def _type_ok(key: Key, v) -> bool:
         return isinstance(v, list)
     if t == "names":
         return isinstance(v, list)
-    if t == "quantity":  # a table is a toleranced value ({ value = ..., std = ... })
-        return isinstance(v, (str, dict)) or _is_number(v)
+    if t == "quantity":  # a table with 'value' is a toleranced value ({ value = ..., std = ... })
+        return isinstance(v, str) or _is_number(v) or (isinstance(v, dict) and "value" in v)
     if t in ("quantity_or_table", "quantity_or_map"):
         return isinstance(v, (str, dict)) or _is_number(v)
     return True

@@ -171,7 +171,7 @@ def parse_tolerance(value, kind: str | None) -> Tolerance:
     (0.17, 0.25, 'normal')
     >>> round(t.sigma * 1e3 * 6, 12)  # the limits lie at +-3 sigma about their midpoint
     0.08
-    >>> parse_tolerance("50 mm -0.025/-0.050", "length").nominal  # the midpoint
+    >>> round(parse_tolerance("50 mm -0.025/-0.050", "length").nominal, 12)  # the midpoint
     0.0499625
     """
     if isinstance(value, dict):
