@@ -107,12 +107,12 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     made = dict(axial_force=N, stress=stress, mechanical_strain=stress / E, elongation=du,
                 elastic_elongation=flex_part, thermal_elongation=thermal_strain * asm.length,
                 thermal_strain=thermal_strain, reactions=reactions, gap_force=gap_force,
-                gap_opening=opening, gap_closed=closed)
+                gap_opening=opening, gap_closed=closed, length=asm.length.copy())
     for value in made.values():
         # made here and referenced nowhere else: the result keeps them without a copy
         value.setflags(write=False)
     return CaseResult(
-        name=state.name, model=model, u=u, temperature_change=state.dT, length=asm.length,
+        name=state.name, model=model, u=u, temperature_change=state.dT,
         applied=state.forces, equilibrium_residual=residual, fields=fields,
         compatibility_defect=defect, **made,
         **dict(zip(("status", "message"), status_of(residual, defect, defect_at))))
