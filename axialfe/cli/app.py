@@ -151,6 +151,14 @@ def stated_values(path, model, solution):
     return verify(model, claims, solution) if claims else None
 
 
+def plastic_notes(solution, units):
+    """Say on stderr what a linear solve leaves out of elastic-plastic materials."""
+    from ..plastic.notes import linear_notes
+
+    for note in linear_notes(solution, units):
+        typer.echo(f"note: {note}", err=True)
+
+
 def emit(text: str, output: Path | None):
     if output is None:
         typer.echo(text, nl=False)
@@ -184,6 +192,7 @@ def solve(model: ModelPath,
         checks = None if format is Format.csv else check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution)), output)
+        plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
 
@@ -451,6 +460,7 @@ def check(model: ModelPath,
         else:
             text = checks_table(report, units, title=m.title)
         emit(text, output)
+        plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
     raise typer.Exit(checks_exit(report))
 
