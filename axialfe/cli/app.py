@@ -151,6 +151,14 @@ def stated_values(path, model, solution):
     return verify(model, claims, solution) if claims else None
 
 
+def plastic_notes(solution, units):
+    """Say on stderr what a linear solve leaves out of elastic-plastic materials."""
+    from ..plastic.notes import linear_notes
+
+    for note in linear_notes(solution, units):
+        typer.echo(f"note: {note}", err=True)
+
+
 def emit(text: str, output: Path | None):
     if output is None:
         typer.echo(text, nl=False)
@@ -190,6 +198,7 @@ def solve(model: ModelPath,
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution), envelope=envelope_of(solution),
                     full_envelope=envelope), output)
+        plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
 
@@ -457,6 +466,7 @@ def check(model: ModelPath,
         else:
             text = checks_table(report, units, title=m.title)
         emit(text, output)
+        plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
     raise typer.Exit(checks_exit(report))
 
