@@ -192,12 +192,13 @@ def solve(model: ModelPath,
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         from ..checks import check_solution
+        from ..checks.assumptions import assumption_notes
         from ..envelope import envelope as envelope_of
 
         checks = None if format is Format.csv else check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution), envelope=envelope_of(solution),
-                    full_envelope=envelope), output)
+                    full_envelope=envelope, notes=assumption_notes(solution)), output)
         plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 

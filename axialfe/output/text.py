@@ -93,19 +93,32 @@ def summary_line(model) -> str:
     return ", ".join(parts)
 
 
+def _data(solution: Solution, units: OutputUnits, notes=None) -> dict:
+    """The solution's plain numbers in ``units``, each case's ``notes`` (from
+    :func:`axialfe.checks.assumptions.assumption_notes`) added to its own, in ``units``."""
+    data = solution.to_dict(units)
+    if notes:
+        from ..checks.entries import note_text
+
+        for case in data["cases"]:
+            case["notes"] = case["notes"] + [note_text(n, units) for n in notes.get(case["name"], ())]
+    return data
+
+
 def _envelope_shown(solution: Solution, envelope, full: bool) -> bool:
     """Whether the envelope is shown: asked for, or the solution has several cases."""
     return envelope is not None and (full or len(solution.cases) > 1)
 
 
 def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
-             review=None, envelope=None, full_envelope=False) -> str:
+             review=None, envelope=None, full_envelope=False, notes=None) -> str:
     """The readable terminal report (with the checks of ``checks``, a CheckReport, the
     review of stated values ``review`` and the ``envelope``, an Envelope, when given: its
     short summary after the cases when there are several, every item when
-    ``full_envelope``)."""
+    ``full_envelope``), and each case's ``notes``: where its result leaves the
+    assumptions of the solve)."""
     units = units or solution.model.units
-    data = solution.to_dict(units)
+    data = _data(solution, units, notes)
     model = solution.model
     out = [f"axialfe: {data['title']}",
            f"model: {summary_line(model)}",
@@ -149,9 +162,9 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
 
 
 def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
-            review=None, envelope=None, full_envelope=False) -> str:
+            review=None, envelope=None, full_envelope=False, notes=None) -> str:
     units = units or solution.model.units
-    data = solution.to_dict(units)
+    data = _data(solution, units, notes)
     if envelope is not None:  # --- axialfe.envelope: always, for one case too ---
         data["envelope"] = envelope.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
@@ -216,9 +229,9 @@ def _md_escape(text) -> str:
 
 
 def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=None,
-                review=None, envelope=None, full_envelope=False) -> str:
+                review=None, envelope=None, full_envelope=False, notes=None) -> str:
     units = units or solution.model.units
-    data = solution.to_dict(units)
+    data = _data(solution, units, notes)
     out = [f"# {_md_escape(data['title'])}", "",
            "Units: " + ", ".join(f"{k} {v}" for k, v in data["units"].items())
            + ". Forces and displacements + toward +x; axial force and stress + in tension.", ""]
@@ -232,6 +245,8 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
         out += [f"Equilibrium residual: {case['equilibrium_residual']:.2e}", ""]
         if case["status"] != "ok":
             out += [f"**INACCURATE:** {_md_escape(case['message'])}", ""]
+        if case["notes"]:
+            out += [f"- Note: {_md_escape(n)}" for n in case["notes"]] + [""]
         if checks is not None:  # --- design checks (axialfe.checks) ---
             out += checks_markdown(checks.case(case["name"]), units)
     if _envelope_shown(solution, envelope, full_envelope):  # --- axialfe.envelope ---
@@ -250,7 +265,7 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
 
 
 def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None,
-           checks=None, review=None, envelope=None, full_envelope=False) -> str:
+           checks=None, review=None, envelope=None, full_envelope=False, notes=None) -> str:
     """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
 
     The table, JSON and Markdown forms carry the design checks (``checks``, a
@@ -258,15 +273,17 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
     the model's stated values (``review``, an :class:`axialfe.review.Review`)
     and the envelope over the cases (``envelope``, an
     :class:`axialfe.envelope.Envelope`; JSON always, the others when there
-    are several cases or ``full_envelope``), each when given: output computes
-    nothing.
+    are several cases or ``full_envelope``) and the notes of each case where its
+    result leaves the assumptions of the solve (``notes``, from
+    :func:`axialfe.checks.assumptions.assumption_notes`; not in CSV), each when
+    given: output computes nothing.
     """
     if fmt == "csv":
         return to_csv(solution, units, review=review, envelope=envelope,
                       full_envelope=full_envelope)
     return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
         solution, units, checks=checks, review=review, envelope=envelope,
-        full_envelope=full_envelope)
+        full_envelope=full_envelope, notes=notes)
 
 
 # --- design checks (axialfe.checks) -----------------------------------------
