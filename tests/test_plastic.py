@@ -317,6 +317,30 @@ def test_path_command_stops_at_the_collapse(tmp_path, cli):
     assert drawn.exit_code == 0 and plot.exists()
 
 
+def test_solve_and_check_say_they_ignore_plasticity_and_flag_linear_yield(tmp_path, cli):
+    # the restrained bar heated by 150 K: linear stress -E*alpha*dT = -360 MPa, beyond the
+    # 240 MPa yield strength (the closed form of a restrained bar, Gere & Goodno sec. 2.5,
+    # from memory)
+    path = tmp_path / "bar.toml"
+    path.write_text(PIPE.replace('section = "r"\n', 'section = "r"\ntemperature_change = "150 K"\n'),
+                    encoding="utf-8")
+    ignores = ("note: the linear solve ignores the elastic-plastic behaviour of segment 'bar': "
+               "follow yielding with 'axialfe path', the collapse load with 'axialfe collapse'")
+    beyond = ("note: case 'base': segment 'bar' is beyond its yield strength in the linear "
+              "result (-360 MPa against -240 MPa): the linear result does not hold there; "
+              "follow the case with 'axialfe path'")
+    for command in ("solve", "check"):
+        out = cli(command, path, "--format", "json")
+        assert json.loads(out.stdout)            # the notes stay out of the JSON
+        assert out.stderr.splitlines() == [ignores, beyond], out.stderr
+    cool = tmp_path / "cool.toml"
+    cool.write_text(PIPE, encoding="utf-8")      # no heating: the load sits on a support
+    assert cli("solve", cool).stderr.splitlines() == [ignores]
+    elastic = tmp_path / "elastic.toml"
+    elastic.write_text(PIPE.replace('behaviour = "elastic-plastic"\n', ""), encoding="utf-8")
+    assert cli("solve", elastic).stderr == ""
+
+
 def test_linear_kinematic_hardening_of_a_restrained_bar():
     # Past first yield the stress follows the tangent modulus E_t = E*H/(E + H):
     # sigma = -(f_y + E_t*alpha*(dT - dT_y)); with kinematic hardening the reverse yield
