@@ -10,7 +10,8 @@ The package is laid out by stage; a floor imports only the floors below it
 - ``mechanics/``: the bar element: sections, flexibility, load integrals and the
   fields N(s), sigma(s), u(s) inside a segment, generic over numpy and sympy;
 - ``engine/``: assembly, connectivity, factorisation, the gap search, recovery;
-- ``results``: frozen result objects with named, read-only arrays;
+- ``results``: frozen result objects with named, read-only arrays; ``envelope``: the least
+  and largest of each result over the cases;
 - ``tracking/``: sweeps with exact events;
 - ``symbolic/``: the whitelist expression parser and the closed-form solve;
 - ``checks/``: design checks of solved cases;

@@ -178,7 +178,11 @@ def emit(text: str, output: Path | None):
 def solve(model: ModelPath,
           format: Annotated[Format, typer.Option("--format", "-f", help="Output format.")] = Format.table,
           output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
-          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+          displacement_unit: DispUnit = None, stress_unit: StressUnit = None,
+          envelope: Annotated[bool, typer.Option(
+              "--envelope", help="List the envelope of every station, segment, reaction and "
+              "gap over the cases (least and largest, with the case of each); without it a "
+              "model of several cases gets a short summary.")] = False):
     """Solve a model: displacements, segment forces and stresses, reactions, gaps, checks."""
     from ..output.text import render
     from ..engine.system import solve as run
@@ -188,10 +192,13 @@ def solve(model: ModelPath,
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         from ..checks import check_solution
+        from ..checks.assumptions import assumption_notes
+        from ..envelope import envelope as envelope_of
 
         checks = None if format is Format.csv else check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
-                    review=stated_values(model, m, solution)), output)
+                    review=stated_values(model, m, solution), envelope=envelope_of(solution),
+                    full_envelope=envelope, notes=assumption_notes(solution)), output)
         plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 

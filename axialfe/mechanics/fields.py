@@ -176,9 +176,29 @@ class Fields:
     def force_peak(self):
         """The axial force of largest magnitude in each segment and where it is (as
         :meth:`stress_peak`): the ends, or a root of N'(t) inside."""
+        return self._peak(*self._force_turns())
+
+    def force_range(self):
+        """The least and the largest (signed) axial force in each segment and where they are.
+
+        Returns
+        -------
+        low, t_low, high, t_high : ndarray, shape (m,)
+            The extremes among the ends and the turning points inside (roots of
+            N'(t)), each with its place as a fraction from the ``from`` end (the
+            least x where several places tie).
+        """
+        return self._range(*self._force_turns())
+
+    def stress_range(self):
+        """The least and the largest (signed) stress in each segment and where they are
+        (as :meth:`force_range`; the turning points are the roots of N'A - NA')."""
+        return self._range(*self._stress_turns())
+
+    def _force_turns(self):
         f = self.force
         num = np.column_stack([f[:, 1], 2 * f[:, 2], 3 * f[:, 3], np.zeros(len(f)), np.zeros(len(f))])
-        return self._peak(num, (f[:, 2] != 0) | (f[:, 3] != 0), self.axial_force)
+        return num, (f[:, 2] != 0) | (f[:, 3] != 0), self.axial_force
 
     def stress_peak(self):
         """The stress of largest magnitude in each segment and where it is.
@@ -193,6 +213,9 @@ class Fields:
         t : ndarray, shape (m,)
             Its place as a fraction from the ``from`` end.
         """
+        return self._peak(*self._stress_turns())
+
+    def _stress_turns(self):
         m = len(self.length)
         f, a = self.force, self.area
         # N'*A - N*A' (degree <= 4), lowest power first
@@ -206,22 +229,42 @@ class Fields:
             for j in range(2):
                 num[:, i + j] -= f[:, i] * da[:, j]
         varying = (a[:, 1] != 0) | (a[:, 2] != 0) | (f[:, 2] != 0) | (f[:, 3] != 0)
-        return self._peak(num, varying, self.stress)
+        return num, varying, self.stress
 
-    def _peak(self, num, varying, values):
-        """The value of ``values(t)`` of largest magnitude over the ends and the roots in
-        (0, 1) of the polynomials ``num`` (rows where ``varying``)."""
+    def _candidates(self, num, varying, values):
+        """The places (ends and roots in (0, 1) of the polynomials ``num``, rows where
+        ``varying``), the values there, their positions x, and which are real candidates."""
         m = len(self.length)
         candidates = np.full((m, 6), np.nan)
         candidates[:, 0], candidates[:, 1] = 0.0, 1.0
         if varying.any():
             candidates[varying, 2:] = _real_roots_in_unit(num[varying])
-        t = np.where(np.isnan(candidates), 0.0, candidates)
-        sigma = np.where(np.isnan(candidates), 0.0, values(t))
+        real = ~np.isnan(candidates)
+        t = np.where(real, candidates, 0.0)
+        value = np.where(real, values(t), 0.0)
+        x = t if self.x_from is None else self.x_from[:, None] + (self.x_to - self.x_from)[:, None] * t
+        return t, value, x, real
+
+    def _peak(self, num, varying, values):
+        """The value of ``values(t)`` of largest magnitude over the ends and the roots in
+        (0, 1) of the polynomials ``num`` (rows where ``varying``)."""
+        t, sigma, x, real = self._candidates(num, varying, values)
         size = np.abs(sigma)
         best = size.max(axis=1)
         # of the candidates within rounding of the largest magnitude, the one of least x
-        x = t if self.x_from is None else self.x_from[:, None] + (self.x_to - self.x_from)[:, None] * t
         first = np.argmin(np.where(size >= best[:, None] * (1 - 1e-12), x, np.inf), axis=1)
-        rows = np.arange(m)
+        rows = np.arange(len(self.length))
         return sigma[rows, first], t[rows, first]
+
+    def _range(self, num, varying, values):
+        """The least and the largest value of ``values(t)`` over the same places as
+        :meth:`_peak`, each with its place (the least x among exact ties)."""
+        t, value, x, real = self._candidates(num, varying, values)
+        rows = np.arange(len(self.length))
+        out = []
+        for sign in (1.0, -1.0):                   # the least, then the largest
+            v = np.where(real, sign * value, np.inf)
+            best = v.min(axis=1)
+            pick = np.argmin(np.where(v == best[:, None], x, np.inf), axis=1)
+            out += [value[rows, pick], t[rows, pick]]
+        return tuple(out)

@@ -93,12 +93,32 @@ def summary_line(model) -> str:
     return ", ".join(parts)
 
 
-def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
-             review=None) -> str:
-    """The readable terminal report (with the checks of ``checks``, a CheckReport, and the
-    review of stated values ``review``, when given)."""
-    units = units or solution.model.units
+def _data(solution: Solution, units: OutputUnits, notes=None) -> dict:
+    """The solution's plain numbers in ``units``, each case's ``notes`` (from
+    :func:`axialfe.checks.assumptions.assumption_notes`) added to its own, in ``units``."""
     data = solution.to_dict(units)
+    if notes:
+        from ..checks.entries import note_text
+
+        for case in data["cases"]:
+            case["notes"] = case["notes"] + [note_text(n, units) for n in notes.get(case["name"], ())]
+    return data
+
+
+def _envelope_shown(solution: Solution, envelope, full: bool) -> bool:
+    """Whether the envelope is shown: asked for, or the solution has several cases."""
+    return envelope is not None and (full or len(solution.cases) > 1)
+
+
+def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
+             review=None, envelope=None, full_envelope=False, notes=None) -> str:
+    """The readable terminal report (with the checks of ``checks``, a CheckReport, the
+    review of stated values ``review`` and the ``envelope``, an Envelope, when given: its
+    short summary after the cases when there are several, every item when
+    ``full_envelope``), and each case's ``notes``: where its result leaves the
+    assumptions of the solve)."""
+    units = units or solution.model.units
+    data = _data(solution, units, notes)
     model = solution.model
     out = [f"axialfe: {data['title']}",
            f"model: {summary_line(model)}",
@@ -124,6 +144,11 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
         if checks is not None:  # --- design checks (axialfe.checks) ---
             out += _check_lines(checks.case(case["name"]), units)
             out.append("")
+    if _envelope_shown(solution, envelope, full_envelope):  # --- axialfe.envelope ---
+        from .envelopetext import envelope_lines, envelope_summary_lines
+
+        out += (envelope_lines(envelope, units, _grid) if full_envelope
+                else envelope_summary_lines(envelope, units, _grid) + [""])
     if checks is not None:
         out += _governing_lines(checks, units)
         out.append("")
@@ -137,9 +162,11 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
 
 
 def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
-            review=None) -> str:
+            review=None, envelope=None, full_envelope=False, notes=None) -> str:
     units = units or solution.model.units
-    data = solution.to_dict(units)
+    data = _data(solution, units, notes)
+    if envelope is not None:  # --- axialfe.envelope: always, for one case too ---
+        data["envelope"] = envelope.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
         for case in data["cases"]:
             case["checks"] = [e.to_dict(units) for e in checks.case(case["name"])]
@@ -151,9 +178,11 @@ def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
     return json.dumps(data, indent=2) + "\n"
 
 
-def to_csv(solution: Solution, units: OutputUnits | None = None, review=None) -> str:
+def to_csv(solution: Solution, units: OutputUnits | None = None, review=None, envelope=None,
+           full_envelope=False) -> str:
     """One long table: case, item, name, quantity, position, value, unit (with the stated
-    values of ``review``, a Review, when given)."""
+    values of ``review``, a Review, and the rows of case ``envelope`` when given and the
+    solution has several cases or ``full_envelope``)."""
     units = units or solution.model.units
     data = solution.to_dict(units)
     u = data["units"]
@@ -184,6 +213,10 @@ def to_csv(solution: Solution, units: OutputUnits | None = None, review=None) ->
             w.writerow([c, "gap", g["name"], "opening", "", repr(g["opening"]), u["displacement"]])
             w.writerow([c, "gap", g["name"], "force", "", repr(g["force"]), u["force"]])
         w.writerow([c, "case", c, "equilibrium_residual", "", repr(case["equilibrium_residual"]), "1"])
+    if _envelope_shown(solution, envelope, full_envelope):  # --- axialfe.envelope ---
+        from .envelopetext import envelope_csv_rows
+
+        w.writerows(envelope_csv_rows(envelope, units))
     if review is not None:  # --- stated values (axialfe.review) ---
         from .reviewtext import review_csv_rows
 
@@ -196,9 +229,9 @@ def _md_escape(text) -> str:
 
 
 def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=None,
-                review=None) -> str:
+                review=None, envelope=None, full_envelope=False, notes=None) -> str:
     units = units or solution.model.units
-    data = solution.to_dict(units)
+    data = _data(solution, units, notes)
     out = [f"# {_md_escape(data['title'])}", "",
            "Units: " + ", ".join(f"{k} {v}" for k, v in data["units"].items())
            + ". Forces and displacements + toward +x; axial force and stress + in tension.", ""]
@@ -212,8 +245,14 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
         out += [f"Equilibrium residual: {case['equilibrium_residual']:.2e}", ""]
         if case["status"] != "ok":
             out += [f"**INACCURATE:** {_md_escape(case['message'])}", ""]
+        if case["notes"]:
+            out += [f"- Note: {_md_escape(n)}" for n in case["notes"]] + [""]
         if checks is not None:  # --- design checks (axialfe.checks) ---
             out += checks_markdown(checks.case(case["name"]), units)
+    if _envelope_shown(solution, envelope, full_envelope):  # --- axialfe.envelope ---
+        from .envelopetext import envelope_markdown
+
+        out += envelope_markdown(envelope, units, _md_escape)
     if checks is not None:
         out += ["**Governing check:** " + _md_escape(_governing_text(checks)), "",
                 "Basis: " + checks.settings_text() + ".", ""]
@@ -226,18 +265,25 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
 
 
 def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None,
-           checks=None, review=None) -> str:
+           checks=None, review=None, envelope=None, full_envelope=False, notes=None) -> str:
     """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
 
     The table, JSON and Markdown forms carry the design checks (``checks``, a
-    :class:`~axialfe.checks.CheckReport` made by the caller) and the review of
-    the model's stated values (``review``, an :class:`axialfe.review.Review`),
-    each when given: output computes nothing.
+    :class:`~axialfe.checks.CheckReport` made by the caller), the review of
+    the model's stated values (``review``, an :class:`axialfe.review.Review`)
+    and the envelope over the cases (``envelope``, an
+    :class:`axialfe.envelope.Envelope`; JSON always, the others when there
+    are several cases or ``full_envelope``) and the notes of each case where its
+    result leaves the assumptions of the solve (``notes``, from
+    :func:`axialfe.checks.assumptions.assumption_notes`; not in CSV), each when
+    given: output computes nothing.
     """
     if fmt == "csv":
-        return to_csv(solution, units, review=review)
+        return to_csv(solution, units, review=review, envelope=envelope,
+                      full_envelope=full_envelope)
     return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
-        solution, units, checks=checks, review=review)
+        solution, units, checks=checks, review=review, envelope=envelope,
+        full_envelope=full_envelope, notes=notes)
 
 
 # --- design checks (axialfe.checks) -----------------------------------------
