@@ -619,7 +619,7 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
                     dp, dg, v = motion
                     dN = tr.S @ dp + tr.R @ dg
                     excess = N - tr.h * p
-                    with np.errstate(divide="ignore", invalid="ignore"):
+                    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
                         g_root = np.where(~closed & ~touching & (v < 0), -o / v,
                                           np.where(closed & (dg < 0), -gl / dg, np.inf))
                         bound = np.where((side == 0) & (dN > 0), (tr.Nt - excess) / dN,
@@ -684,7 +684,7 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             excess = N - tr.h * p
             # roots of the elastic segments reaching a bound, of a closed gap's force and an
             # open gap's opening reaching zero
-            with np.errstate(divide="ignore", invalid="ignore"):
+            with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
                 up = np.where((side == 0) & (slope > 0), (tr.Nt - excess) / slope, np.inf)
                 down = np.where((side == 0) & (slope < 0), (-tr.Nc - excess) / slope, np.inf)
                 g_root = np.where(closed & (dg < 0), -gl / dg,
