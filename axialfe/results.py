@@ -28,6 +28,17 @@ _ARRAYS = ("u", "axial_force", "stress", "mechanical_strain", "elongation", "ela
            "applied", "gap_force", "gap_opening", "gap_closed")
 
 
+def _frozen(value) -> bool:
+    """True for an ndarray that is read-only, as is every array it is a view of."""
+    while isinstance(value, np.ndarray):
+        if value.flags.writeable:
+            return False
+        if value.base is None:
+            return True
+        value = value.base
+    return False
+
+
 @dataclass(frozen=True, repr=False)
 class CaseResult:
     """The solution of one case (or combination) of a model.
@@ -71,7 +82,9 @@ class CaseResult:
         (:mod:`axialfe.engine.certificate`); above :data:`RESIDUAL_BOUND` the
         status is ``'inaccurate'``.
 
-    Every array is the result's own copy and read-only.
+    Every array is read-only: an array given read-only, with every array it is a
+    view of read-only too, is kept as a view (the engine hands over the arrays
+    it has just made that way); any other is copied.
     """
 
     name: str
@@ -100,7 +113,11 @@ class CaseResult:
 
     def __post_init__(self):
         for key in _ARRAYS:
-            arr = np.array(getattr(self, key))          # a copy: no result shares an array
+            value = getattr(self, key)
+            if _frozen(value):     # read-only all the way down: nothing can change it
+                arr = value.view()
+            else:
+                arr = np.array(value)          # a copy: no result shares a writable array
             arr.setflags(write=False)
             object.__setattr__(self, key, arr)
             if arr.dtype.kind == "f" and not np.all(np.isfinite(arr)):

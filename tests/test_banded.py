@@ -43,7 +43,11 @@ def same(a, b, rel=1e-9):
     assert np.abs(a.axial_force - b.axial_force).max() <= rel * sn
     assert np.abs(a.reactions - b.reactions).max() <= rel * sn
     assert np.abs(a.gap_force - b.gap_force).max(initial=0) <= rel * sn
-    assert list(a.gap_closed) == list(b.gap_closed)
+    # a gap that touches and carries no force is open and closed at once (a degenerate
+    # complementarity): there alone may the two searches name its state differently
+    differ = a.gap_closed != b.gap_closed
+    assert np.all(a.gap_opening[differ] == 0) and np.all(b.gap_opening[differ] == 0)
+    assert np.abs(np.r_[a.gap_force[differ], b.gap_force[differ]]).max(initial=0) <= rel * sn
     assert a.status == b.status == "ok"
 
 

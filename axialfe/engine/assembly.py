@@ -8,11 +8,12 @@ assembles the global stiffness.  No Python loop runs per element.
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
 
-from ..mechanics import NUMERIC, element_terms, load_terms, nodal_loads
+from ..mechanics import NUMERIC, Fields, element_terms, load_terms, nodal_loads
 from ..model import Model
 
 __all__ = ["Assembly", "assemble", "element_loads"]
@@ -46,7 +47,8 @@ class Assembly:
     terms : ElementTerms
         The element terms as :mod:`axialfe.mechanics` gives them.
     K : scipy.sparse.csr_matrix
-        Global stiffness of the segments alone (springs not included).
+        Global stiffness of the segments alone (springs not included), built on
+        first use (the banded path never needs it).
     """
 
     n: int
@@ -66,7 +68,34 @@ class Assembly:
     factors: np.ndarray
     rho_g: np.ndarray
     terms: object
-    K: object
+
+    def __post_init__(self):
+        # shared by every case and result of the model: never written after this
+        for name in self.__dataclass_fields__:
+            value = getattr(self, name)
+            if isinstance(value, np.ndarray):
+                value.setflags(write=False)
+
+    @functools.cached_property
+    def area_table(self):
+        """The coefficients of A(t) of each segment (:meth:`Fields.area_table`), shape (m, 3)."""
+        table = Fields.area_table(*self.factors.T)
+        table.setflags(write=False)
+        return table
+
+    @functools.cached_property
+    def K(self):
+        """Global stiffness of the segments alone (scipy.sparse CSR, built on first use)."""
+        import scipy.sparse as sp
+
+        start, end, k = self.start, self.end, self.stiffness
+        # each off-diagonal pair in one order, so duplicates sum alike above and below the
+        # diagonal and K is symmetric to the last bit
+        lo, hi = np.minimum(start, end), np.maximum(start, end)
+        rows = np.concatenate([lo, lo, hi, hi])
+        cols = np.concatenate([lo, hi, lo, hi])
+        data = np.concatenate([k, -k, -k, k])
+        return sp.csr_matrix((data, (rows, cols)), shape=(self.n, self.n))
 
 
 def assemble(model: Model) -> Assembly:
@@ -84,8 +113,6 @@ def assemble(model: Model) -> Assembly:
     >>> float(assemble(model).stiffness[0])  # E*A/L
     20000000.0
     """
-    import scipy.sparse as sp
-
     n = len(model.stations)
     arr = model.arrays
     start, end, x = arr.start, arr.end, arr.x
@@ -97,21 +124,13 @@ def assemble(model: Model) -> Assembly:
     rho_g = rho * model.gravity * direction
     terms = element_terms(c, p1, q1, p2, q2, length, E, rho_g, NUMERIC)
     k = terms.stiffness
-
-    # each off-diagonal pair in one order, so duplicates sum alike above and below the
-    # diagonal and K is symmetric to the last bit
-    lo, hi = np.minimum(start, end), np.maximum(start, end)
-    rows = np.concatenate([lo, lo, hi, hi])
-    cols = np.concatenate([lo, hi, lo, hi])
-    data = np.concatenate([k, -k, -k, k])
-    K = sp.csr_matrix((data, (rows, cols)), shape=(n, n))
     misfit, q = arr.misfit, arr.distributed_load
     return Assembly(n=n, start=start, end=end, direction=direction, length=length, stiffness=k,
                     area=np.column_stack([terms.area_from, terms.area_to]), modulus=E,
                     expansion=alpha, misfit=misfit, q=q, g_unit_q=terms.g_unit_q,
                     w_self=terms.w_self, g_self=terms.g_self,
                     factors=np.column_stack([np.broadcast_to(c, length.shape), p1, q1, p2, q2]),
-                    rho_g=rho_g, terms=terms, K=K)
+                    rho_g=rho_g, terms=terms)
 
 
 def element_loads(asm: Assembly, dT, q_factor=1.0):

@@ -239,7 +239,7 @@ def resolve_preloads(model: Model) -> Model:
     >>> abs(misfit - exact) < 1e-12 * abs(exact)   # should be True
     True
     """
-    index = [i for i, s in enumerate(model.segments) if s.preload is not None]
+    index = np.flatnonzero(~np.isnan(model.arrays.preload)).tolist()
     if not index:
         return model
     response = _Response(model, index)

@@ -49,7 +49,7 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     x = system.x
     fields = Fields.of(n_from, state.q_factor * asm.q * e, asm.rho_g, *asm.factors.T,
                        asm.length, asm.modulus, end_force=N, x_from=x[asm.start],
-                       x_to=x[asm.end])
+                       x_to=x[asm.end], area=asm.area_table)
 
     g = len(model.gaps)
     gap_nodal = system.BT @ lam if g else np.zeros(asm.n)
@@ -88,7 +88,7 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     opening = system.clearance - system.B @ u if g else np.zeros(0)
     if closed is None:
         closed = opening <= gap_tolerance(system, u, delta0, F) if g else np.zeros(0, dtype=bool)
-    closed = np.asarray(closed, dtype=bool)
+    closed = np.array(closed, dtype=bool)  # its own: the search may keep its set
     # the rest of the certificate: compatibility, and gap forces that are unique
     tol_gap = gap_tolerance(system, u, delta0, F)
     defect, defect_at = compatibility(system, u, du, n_from, terms, lam, closed, tol_gap)
@@ -103,14 +103,18 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     stress = N / area
     E = asm.modulus[:, None]
     flex_part = du - delta0  # elastic part of the elongation (N/EA integrated)
+    thermal_strain = asm.expansion * state.dT
+    made = dict(axial_force=N, stress=stress, mechanical_strain=stress / E, elongation=du,
+                elastic_elongation=flex_part, thermal_elongation=thermal_strain * asm.length,
+                thermal_strain=thermal_strain, reactions=reactions, gap_force=gap_force,
+                gap_opening=opening, gap_closed=closed, length=asm.length.copy())
+    for value in made.values():
+        # made here and referenced nowhere else: the result keeps them without a copy
+        value.setflags(write=False)
     return CaseResult(
-        name=state.name, model=model, u=u, axial_force=N, stress=stress,
-        mechanical_strain=stress / E, elongation=du,
-        elastic_elongation=flex_part, thermal_elongation=asm.expansion * state.dT * asm.length,
-        thermal_strain=asm.expansion * state.dT, temperature_change=state.dT,
-        length=asm.length, reactions=reactions, applied=state.forces, gap_force=gap_force,
-        gap_opening=opening, gap_closed=closed, equilibrium_residual=residual, fields=fields,
-        compatibility_defect=defect,
+        name=state.name, model=model, u=u, temperature_change=state.dT,
+        applied=state.forces, equilibrium_residual=residual, fields=fields,
+        compatibility_defect=defect, **made,
         **dict(zip(("status", "message"), status_of(residual, defect, defect_at))))
 
 

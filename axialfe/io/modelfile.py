@@ -57,18 +57,18 @@ class _Locator:
             if m:
                 name = re.sub(r"\s*\.\s*", ".", m.group(2).replace('"', "").replace("'", ""))
                 self.headers.append((i, name, bool(m.group(1))))
+        self._by_name = {}  # name -> positions in headers, in file order (one pass, so
+        for h, (_, name, _) in enumerate(self.headers):   # locating is linear overall)
+            self._by_name.setdefault(name, []).append(h)
 
     def _span(self, table, index):
         """Return the (start, stop) lines of table ``table`` (its ``index``-th item)."""
-        count = 0
-        for h, (line, name, is_array) in enumerate(self.headers):
-            if name != table:
-                continue
-            count += 1
-            if index is None or count == index:
-                stop = self.headers[h + 1][0] if h + 1 < len(self.headers) else len(self.lines)
-                return line, stop
-        return None
+        found = self._by_name.get(table)
+        if not found or (index is not None and not 1 <= index <= len(found)):
+            return None
+        h = found[0 if index is None else index - 1]
+        stop = self.headers[h + 1][0] if h + 1 < len(self.headers) else len(self.lines)
+        return self.headers[h][0], stop
 
     def find(self, table=None, index=None, key=None) -> int | None:
         """Return the 1-based line, or None when it cannot be found."""

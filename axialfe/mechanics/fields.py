@@ -115,14 +115,24 @@ class Fields:
 
     @classmethod
     def of(cls, n_from, q, rho_g, c, p1, q1, p2, q2, length, modulus, end_force=None,
-           x_from=None, x_to=None):
+           x_from=None, x_to=None, area=None):
         """The fields from the end force ``N_from``, the loads along the segment and its
-        section factors (see :func:`axialfe.mechanics.element.force_coefficients`)."""
+        section factors (see :func:`axialfe.mechanics.element.force_coefficients`).
+
+        ``area``, the table :meth:`area_table` gives for the same factors, may be
+        passed when it is at hand (it does not change between load states).
+        """
         force = np.column_stack(np.broadcast_arrays(
             *force_coefficients(n_from, q, rho_g, c, p1, q1, p2, q2, length)))
-        area = np.column_stack(np.broadcast_arrays(
-            *(np.multiply(c, a) for a in area_coefficients(1, p1, q1, p2, q2)))).astype(float)
+        if area is None:
+            area = cls.area_table(c, p1, q1, p2, q2)
         return cls(force.astype(float, copy=False), area, length, modulus, end_force, x_from, x_to)
+
+    @staticmethod
+    def area_table(c, p1, q1, p2, q2):
+        """The coefficients of A(t) of each segment, shape (m, 3) (see :meth:`of`)."""
+        return np.column_stack(np.broadcast_arrays(
+            *(np.multiply(c, a) for a in area_coefficients(1, p1, q1, p2, q2)))).astype(float)
 
     def interpolate(self, other: "Fields", s) -> "Fields":
         """The fields at ``self + s*(other - self)``, for a state affine in ``s``.

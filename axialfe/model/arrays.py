@@ -26,7 +26,7 @@ from ..errors import ModelError
 __all__ = ["ModelArrays", "gather", "from_arrays"]
 
 _FIELDS = operator.attrgetter("section", "end_section", "material", "start", "end", "misfit",
-                              "distributed_load", "temperature_change")
+                              "distributed_load", "temperature_change", "preload")
 
 
 @dataclass(frozen=True)
@@ -46,6 +46,8 @@ class ModelArrays:
     misfit, distributed_load, temperature_change : ndarray, shape (m,)
         ``temperature_change`` is each segment's own change, the model's
         default filled in (0 without one).
+    preload : ndarray, shape (m,)
+        Each segment's installed force (N), NaN where it has none.
     """
 
     x: np.ndarray
@@ -62,6 +64,7 @@ class ModelArrays:
     misfit: np.ndarray
     distributed_load: np.ndarray
     temperature_change: np.ndarray
+    preload: np.ndarray
 
     def __post_init__(self):
         for name in self.__dataclass_fields__:
@@ -100,7 +103,7 @@ def gather(model) -> ModelArrays:
 
 def _gather(model) -> ModelArrays:
     m = len(model.segments)
-    sec, end_sec, mat, start, end, misfit, q, dT = zip(*map(_FIELDS, model.segments))
+    sec, end_sec, mat, start, end, misfit, q, dT, preload = zip(*map(_FIELDS, model.segments))
     end_sec = [e if e is not None else s for s, e in zip(sec, end_sec)]
     index = model._station_index
     default = model.temperature_change or 0.0
@@ -115,7 +118,8 @@ def _gather(model) -> ModelArrays:
         end=np.fromiter(map(index.__getitem__, end), dtype=np.int64, count=m),
         c=c, p1=p1, q1=q1, p2=p2, q2=q2, elastic_modulus=E, thermal_expansion=alpha, density=rho,
         misfit=np.asarray(misfit, dtype=float), distributed_load=np.asarray(q, dtype=float),
-        temperature_change=np.array([default if v is None else v for v in dT], dtype=float))
+        temperature_change=np.array([default if v is None else v for v in dT], dtype=float),
+        preload=np.array([np.nan if v is None else v for v in preload], dtype=float))
 
 
 # --- Model.from_arrays ------------------------------------------------------------
@@ -231,7 +235,8 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
         thermal_expansion=_array(thermal_expansion, m, "thermal_expansion"),
         density=_array(0.0 if density is None else density, m, "density", nonnegative=True),
         misfit=np.zeros(m), distributed_load=np.zeros(m),
-        temperature_change=_array(temperature_change, m, "temperature_change"))
+        temperature_change=_array(temperature_change, m, "temperature_change"),
+        preload=np.full(m, np.nan))
     fy = _array(np.nan if yield_strength is None else yield_strength, m, "yield_strength",
                 allow_nan=True)
     inertia = _array(np.nan if second_moment is None else second_moment, m, "second_moment",
@@ -266,6 +271,8 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
             value = fd.default
         object.__setattr__(model, name, value)
     model.__dict__["arrays"] = arrays
+    load_at.setflags(write=False)
+    model.__dict__["load_stations"] = load_at
     object.__setattr__(model, "_station_index", _NameIndex("s", n))
     object.__setattr__(model, "_segment_index", _NameIndex("e", m[0]))
     return model

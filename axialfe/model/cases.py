@@ -8,6 +8,7 @@ the parts and are present in every state once.
 
 from __future__ import annotations
 
+import operator
 from dataclasses import dataclass
 
 import numpy as np
@@ -15,6 +16,8 @@ import numpy as np
 from .parts import Case, Model
 
 __all__ = ["LoadState", "loading", "case_state", "load_states"]
+
+_AT, _FORCE = operator.attrgetter("at"), operator.attrgetter("force")
 
 
 @dataclass(frozen=True)
@@ -59,9 +62,18 @@ def _own_temperatures(model: Model, num) -> np.ndarray:
 
 def _case_parts(model: Model, case: Case, num, dtype):
     """What one case sets: point forces, and its temperatures and settlements with masks."""
-    forces = np.zeros(len(model.stations), dtype=dtype)
-    for load in case.loads:
-        forces[model.station_index(load.at)] += num(load.force)
+    n = len(model.stations)
+    index = model._station_index  # the model has checked every load's station
+    at = (model.load_stations if case.loads is model.loads else
+          np.fromiter(map(index.__getitem__, map(_AT, case.loads)), dtype=np.int64,
+                      count=len(case.loads)))
+    if num is float:
+        forces = np.bincount(at, np.fromiter(map(_FORCE, case.loads), dtype=float,
+                                             count=len(at)), minlength=n)
+    else:
+        forces = np.zeros(n, dtype=dtype)
+        for i, load in zip(at, case.loads):
+            forces[i] += num(load.force)
     m = len(model.segments)
     t_val, t_set = np.zeros(m, dtype=dtype), np.zeros(m, dtype=bool)
     table = dict(case.temperature_change)

@@ -683,6 +683,17 @@ class Model:
 
         return gather(self)
 
+    @functools.cached_property
+    def load_stations(self):
+        """The station index of each of :attr:`loads` (known at once when built from arrays)."""
+        import numpy as np
+
+        index = self._station_index
+        at = np.fromiter((index[load.at] for load in self.loads), dtype=np.int64,
+                         count=len(self.loads))
+        at.setflags(write=False)
+        return at
+
     # --- look-ups -------------------------------------------------------
     def line_of(self, key: str) -> int | None:
         """The file line of ``'stations.<name>'`` or ``'gaps.<name>'``, when read from a file."""
