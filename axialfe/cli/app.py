@@ -195,7 +195,7 @@ def solve(model: ModelPath,
         from ..checks.assumptions import assumption_notes
         from ..envelope import envelope as envelope_of
 
-        checks = None if format is Format.csv else check_solution(solution)
+        checks = check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution), envelope=envelope_of(solution),
                     full_envelope=envelope, notes=assumption_notes(solution)), output)
@@ -443,9 +443,18 @@ def _pick_case(solution, name):
     return solution[name]
 
 
+class CheckOnlyFormat(str, Enum):
+    table = "table"
+    json = "json"
+    csv = "csv"
+
+
 @app.command()
 def check(model: ModelPath,
-          format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
+          format: Annotated[CheckOnlyFormat, typer.Option(
+              "--format", "-f", help="Output format (JSON and CSV give each check's demand and "
+              "capacity, or required, actual and margin of a deformation limit, with the "
+              "unit).")] = CheckOnlyFormat.table,
           output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Run the design checks (strength, buckling, limits) of every case.
@@ -454,7 +463,7 @@ def check(model: ModelPath,
     but some cannot be decided (an engineer must review them); 2 for bad input.
     """
     from ..checks import check_solution
-    from ..output.text import checks_json, checks_table
+    from ..output.text import checks_csv, checks_json, checks_table
     from ..engine.system import solve as run
 
     with user_errors(model):
@@ -462,8 +471,10 @@ def check(model: ModelPath,
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         report = check_solution(solution)
-        if format is CheckFormat.json:
+        if format is CheckOnlyFormat.json:
             text = checks_json(report, units, title=m.title)
+        elif format is CheckOnlyFormat.csv:
+            text = checks_csv(report, units)
         else:
             text = checks_table(report, units, title=m.title)
         emit(text, output)

@@ -21,7 +21,7 @@ from ..model.cases import LoadState, load_states
 from ..model import Model
 from ..results import CaseResult
 from ..engine.contact import solve_gaps
-from .events import affine_roots, yield_excess, yield_roots
+from .events import GAP_EVENTS, affine_roots, yield_excess, yield_roots
 from ..engine.system import System
 from ..units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
@@ -29,8 +29,6 @@ from ..units import (kelvin_to_temperature, parse_quantity, number_and_unit,
 __all__ = ["PARAMETERS", "Event", "SweepResult", "sweep", "parse_range"]
 
 PARAMETERS = ("temperature_change", "temperature", "load_factor")
-_GAP_EVENTS = {("contact", True): "closes", ("contact", False): "opens",
-               ("slack", True): "taut", ("slack", False): "slack"}
 
 
 @dataclass(frozen=True)
@@ -485,7 +483,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         except SolveError as exc:
             raise lost(exc, s_next) from None
         for j in np.flatnonzero(new_closed != closed):
-            events.append(Event(gaps[j].name, _GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
+            events.append(Event(gaps[j].name, GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
                                 to_user(s_next)))
         closed, s = new_closed, s_next
     else:
