@@ -20,8 +20,12 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["affine_roots", "yield_excess", "yield_roots", "buckle_excess", "buckle_roots",
-           "convex_roots"]
+__all__ = ["GAP_EVENTS", "affine_roots", "yield_excess", "yield_roots", "buckle_excess",
+           "buckle_roots", "convex_roots"]
+
+# the event of a gap of each kind (contact, slack link) closing (True) or opening (False)
+GAP_EVENTS = {("contact", True): "closes", ("contact", False): "opens",
+              ("slack", True): "taut", ("slack", False): "slack"}
 
 
 def affine_roots(value, slope, s, direction, margin):

@@ -22,7 +22,7 @@ from ..model.cases import LoadState, load_states
 from ..model import Model
 from ..results import CaseResult
 from ..engine.contact import solve_gaps
-from .events import affine_roots, buckle_excess, buckle_roots, yield_excess, yield_roots
+from .events import GAP_EVENTS, affine_roots, buckle_excess, buckle_roots, yield_excess, yield_roots
 from ..engine.system import System
 from ..units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
@@ -32,8 +32,6 @@ __all__ = ["PARAMETERS", "DIMENSIONLESS", "Event", "SweepResult", "sweep", "pars
 PARAMETERS = ("temperature_change", "temperature", "temperature_factor", "load_factor")
 # the sweeps of a plain number (no unit)
 DIMENSIONLESS = ("temperature_factor", "load_factor")
-_GAP_EVENTS = {("contact", True): "closes", ("contact", False): "opens",
-               ("slack", True): "taut", ("slack", False): "slack"}
 
 
 @dataclass(frozen=True)
@@ -585,7 +583,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         except SolveError as exc:
             raise lost(exc, s_next) from None
         for j in np.flatnonzero(new_closed != closed):
-            events.append(Event(gaps[j].name, _GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
+            events.append(Event(gaps[j].name, GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
                                 to_user(s_next)))
         closed, s = new_closed, s_next
     else:
