@@ -1,4 +1,4 @@
-"""The plot of an elastic-plastic path: forces of the plastic segments along it, events marked."""
+"""The plot of an elastic-plastic path: forces of the plastic segments and gaps along it, events marked."""
 
 from __future__ import annotations
 
@@ -11,7 +11,7 @@ __all__ = ["plot_path"]
 
 
 def plot_path(result, path=None, units=None, dpi: int = DPI):
-    """Draw each plastic segment's force against the path.
+    """Draw each plastic segment's force (and each gap's) against the path.
 
     When every leg changes the same parameter the abscissa is that parameter
     (a thermal cycle draws its loop); otherwise it is the position along the
@@ -42,8 +42,9 @@ def plot_path(result, path=None, units=None, dpi: int = DPI):
         span = g.stop - g.start
         return leg - 1 + ((value - g.start) / span if span else 1.0)
 
-    xs = np.array([abscissa(leg, v) for leg, v, _ in result.history])
-    forces = np.array([f for _, _, f in result.history]) / fF
+    xs = np.array([abscissa(h[0], h[1]) for h in result.history])
+    forces = np.array([h[2] for h in result.history]) / fF
+    gap_forces = np.array([h[3] for h in result.history]) / fF
     fig = Figure(figsize=(10.0, 4.4), dpi=dpi, layout="constrained")
     ax = fig.subplots()
     shown = [i for i in range(len(model.segments)) if np.all(np.isfinite(forces[:, i]))]
@@ -52,6 +53,10 @@ def plot_path(result, path=None, units=None, dpi: int = DPI):
         line, = ax.plot(xs, forces[:, i], color=LANE_COLOURS[k], linestyle=LANE_STYLES[k],
                         linewidth=1.3, label=_text(model.segments[i].name))
         line.set_gid(f"path-segment-{i}")
+    for j, gap in enumerate(model.gaps[:6]):
+        line, = ax.plot(xs, gap_forces[:, j], color=MUTED, linestyle=(0, (1, 1.5)),
+                        linewidth=1.3, label=_text(f"{gap.kind} '{gap.name}'"))
+        line.set_gid(f"path-gap-{j}")
     ax.axhline(0.0, color=MUTED, linewidth=0.8)
     marks = [(abscissa(e.leg, e.value), e) for e in result.events]
     for n, (x, ev) in enumerate(marks):
@@ -63,7 +68,7 @@ def plot_path(result, path=None, units=None, dpi: int = DPI):
                     (x, 1.0), xycoords=("data", "axes fraction"), rotation=90, ha="right",
                     va="top", fontsize=6.5, color=COMPRESSION, xytext=(-2, -2),
                     textcoords="offset points")
-    if shown:
+    if shown or len(model.gaps):
         ax.legend(fontsize=7, frameon=False)
     ax.set_ylabel(f"axial force [{units.force}]", fontsize=8, color=INK)
     if one:

@@ -92,6 +92,12 @@ def path_table(result, units) -> str:
                       f"plastic u [{units.displacement}]"],
                      [[s.name, _g(r.u[i] / fD), _g(st.plastic_displacement[i] / fD)]
                       for i, s in enumerate(m.stations[:40])])
+        if m.gaps:
+            out += _grid(["gap", "state", f"opening [{units.displacement}]",
+                          f"force [{units.force}]"],
+                         [[gp.name, "closed" if r.gap_closed[j] else "open",
+                           _g(r.gap_opening[j] / fD), _g(r.gap_force[j] / fF)]
+                          for j, gp in enumerate(m.gaps[:40])])
     if len(result.states) > 8:
         out.append(f"\n ({len(result.states) - 8} more leg ends: see --format json)")
     if result.cycles is not None:
