@@ -98,6 +98,11 @@ class Batch:
             self.loop = "the inputs do not enter the model's arrays affinely"
             return
         self.theta0, self.D = theta0, D
+        # segments whose |stress| peaks at an end in every sample: uniform, nothing along them
+        sl = self.slices
+        same = lambda a, b: (theta0[sl[a]] == theta0[sl[b]]) & (D[:, sl[a]] == D[:, sl[b]]).all(0)  # noqa: E731
+        unloaded = (theta0[sl["distributed_load"]] == 0) & (D[:, sl["distributed_load"]] == 0).all(0)
+        self.end_valued = same("p1", "p2") & same("q1", "q2") & unloaded & (self.rho_g == 0)
 
     # --- the per-sample inputs as one flat vector -------------------------
     def _layout(self, model):
@@ -152,7 +157,6 @@ class Batch:
         self.Bf = self.B[:, self.free_stations]        # (g, nf), in band order
         self.presc, self.presc_support = sy.presc, sy.presc_support
         self.spring_at, self.spring_support = sy.spring_at, sy.spring_support
-        # segments whose |stress| peaks at an end for every sample (uniform, unloaded along)
         self.n_supports = len(model.supports)
 
     def _theta(self, model) -> np.ndarray:
@@ -294,6 +298,8 @@ class Batch:
             # the certificate: station balance from the recovered segment forces
             balance = (theta[:, sl[("forces", s)]] + (e * n_from) @ self.at_start
                        - (e * n_to) @ self.at_end - gap_nodal)
+            if spring.shape[1]:
+                np.add.at(balance, (slice(None), self.spring_at), spring_force)
             balance = balance[:, self.free_stations]
             scale = np.maximum.reduce([
                 np.abs(theta[:, sl[("forces", s)]]).max(axis=1, initial=0),
@@ -307,7 +313,8 @@ class Batch:
             failed |= ~(residual <= _RESIDUAL)
             opening = clearance - u @ self.B.T if self.g else np.zeros((S, 0))
             opening = np.where(closed, 0.0, opening)
-            fields = _Fields(n_from, q, rho_g.reshape(S, -1), theta, sl, length, k, terms)
+            fields = _Fields(n_from, n_to, q, rho_g.reshape(S, -1), theta, sl, length,
+                             self.end_valued)
             got = outputs.of_arrays(u=u, stress=fields, reactions=reactions, opening=opening,
                                     force=self.force_sign * lam, closed=closed)
             for key, v in got.items():
@@ -323,20 +330,37 @@ class Batch:
 class _Fields:
     """The largest |stress| of each segment, made when an output asks for it."""
 
-    def __init__(self, n_from, q, rho_g, theta, sl, length, k, terms):
-        self.args = (n_from, q, rho_g, theta, sl, length, terms)
+    def __init__(self, n_from, n_to, q, rho_g, theta, sl, length, end_valued):
+        self.args = (n_from, n_to, q, rho_g, theta, sl, length)
+        self.end_valued = end_valued
 
     def peak(self, rows):
-        """|stress| of largest magnitude along segments ``rows``: array (S, len(rows))."""
-        n_from, q, rho_g, theta, sl, length, terms = self.args
+        """|stress| of largest magnitude along segments ``rows``: array (S, len(rows)).
+
+        A uniform segment with nothing along it has one stress; any other is read
+        from its fields (:meth:`axialfe.mechanics.Fields.stress_peak`).
+        """
+        n_from, n_to, q, rho_g, theta, sl, length = self.args
         S = len(n_from)
-        cut = lambda f: theta[:, sl[f]][:, rows].reshape(-1)               # noqa: E731
-        fields = Fields.of(n_from[:, rows].reshape(-1), q[:, rows].reshape(-1),
-                           rho_g[:, rows].reshape(-1), cut("c"), cut("p1"), cut("q1"),
-                           cut("p2"), cut("q2"), length[:, rows].reshape(-1),
-                           cut("elastic_modulus"))
-        value, _ = fields.stress_peak()
-        return np.abs(value).reshape(S, len(rows))
+        rows = np.asarray(rows)
+        out = np.empty((S, len(rows)))
+        simple = self.end_valued[rows]
+        if simple.any():
+            r = rows[simple]
+            area = theta[:, sl["c"]][:, r] * theta[:, sl["p1"]][:, r] * theta[:, sl["q1"]][:, r]
+            out[:, simple] = np.abs(n_from[:, r]) / area
+        if (~simple).any():
+            r = rows[~simple]
+            cut = lambda f: theta[:, sl[f]][:, r].reshape(-1)               # noqa: E731
+            fields = Fields.of(n_from[:, r].reshape(-1), q[:, r].reshape(-1),
+                               rho_g[:, r].reshape(-1), cut("c"), cut("p1"), cut("q1"),
+                               cut("p2"), cut("q2"), length[:, r].reshape(-1),
+                               cut("elastic_modulus"),
+                               end_force=np.column_stack([n_from[:, r].reshape(-1),
+                                                          n_to[:, r].reshape(-1)]))
+            value, _ = fields.stress_peak()
+            out[:, ~simple] = np.abs(value).reshape(S, len(r))
+        return out
 
 
 def _factorise(A, dense=False):
