@@ -483,10 +483,16 @@ def check(model: ModelPath,
     raise typer.Exit(checks_exit(report))
 
 
+def beside(model: Path, output: Optional[Path], suffix: str) -> Path:
+    """``output``, or ``MODEL-STEM`` + ``suffix`` beside the model when none is given."""
+    return output if output is not None else model.with_name(model.stem + suffix)
+
+
 @app.command()
 def plot(model: ModelPath,
-         output: Annotated[Path, typer.Option("--output", "-o", dir_okay=False,
-                                              help="The figure file: .png or .svg.")],
+         output: Annotated[Optional[Path], typer.Option(
+             "--output", "-o", dir_okay=False,
+             help="The figure file: .png or .svg (default: MODEL-STEM.png beside the model).")] = None,
          what: Annotated[str, typer.Option("--what", help="force, stress, displacement or all.")] = "all",
          case: Annotated[Optional[str], typer.Option("--case", help="The case to draw (default: the first).")] = None,
          force_unit: ForceUnit = None, length_unit: LengthUnit = None,
@@ -496,6 +502,7 @@ def plot(model: ModelPath,
     from ..output.plot import WHAT, _suffix, plot_case
     from ..engine.system import solve as run
 
+    output = beside(model, output, ".png")
     with user_errors(model):
         outputs([model], ("--output", output))
         if what not in WHAT:
@@ -515,20 +522,36 @@ def plot(model: ModelPath,
         typer.echo(f"wrote {output}", err=True)
 
 
+class Paper(str, Enum):
+    a4 = "a4"
+    letter = "letter"
+
+
 @app.command()
 def report(model: ModelPath,
-           output: Annotated[Path, typer.Option("--output", "-o", dir_okay=False,
-                                                help="The report file: .html, or .md for Markdown.")],
+           output: Annotated[Optional[Path], typer.Option(
+               "--output", "-o", dir_okay=False,
+               help="The report file: .html, or .md for Markdown (default: MODEL-STEM.html, "
+                    "or .md with --format markdown, beside the model).")] = None,
            format: Annotated[Optional[ReportFormat], typer.Option(
                "--format", "-f", help="html or markdown (default: by the file's suffix).")] = None,
+           paper: Annotated[Paper, typer.Option(
+               "--paper", help="The paper the printed report is laid out on: a4 or letter.")] = Paper.a4,
            force_unit: ForceUnit = None, length_unit: LengthUnit = None,
            displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
-    """Write a self-contained report: input, results, calculation sheet, checks, diagrams."""
-    from ..output.report import report_format, write_report
+    """Write a report to file: a one-page summary (verdict, envelope, cautions), then input,
+    results, calculation sheet, checks and diagrams.
+
+    The HTML report needs no other file and prints on A4 or Letter with the title
+    block of the model's [project] table on every page; a Markdown report links its
+    diagrams, written beside it as REPORT-STEM-diagram-N.png.
+    """
+    from ..output.report import figure_names, report_format, write_report
     from ..engine.system import solve as run
 
     from ..fits.reader import is_fit_file
 
+    output = beside(model, output, ".md" if format is ReportFormat.markdown else ".html")
     with user_errors(model):
         outputs([model], ("--output", output))
         fmt = report_format(output, format.value if format else None)
@@ -549,10 +572,15 @@ def report(model: ModelPath,
         else:
             m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
             solution = run(m)
+            if fmt == "markdown":  # its diagrams are files beside it: checked before writing
+                outputs([model], ("--output", output),
+                        *(("a diagram of the report", f) for f in figure_names(output, solution)))
             from ..checks import check_solution
+            from ..review.sheet import thermal_split
 
             write_report(solution, output, fmt, units, checks=check_solution(solution),
-                         review=stated_values(model, m, solution))
+                         review=stated_values(model, m, solution),
+                         thermal=thermal_split(solution), paper=paper.value)
         typer.echo(f"wrote {output}", err=True)
 
 
