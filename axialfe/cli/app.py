@@ -251,9 +251,15 @@ def sweep(model: ModelPath,
           temperature: Annotated[Optional[str], typer.Option(
               "--temperature", help="Range of absolute temperature against "
               "settings.reference_temperature, e.g. '-20 degC..150 degC'.")] = None,
+          temperature_factor: Annotated[Optional[str], typer.Option(
+              "--temperature-factor", help="Range of the factor on the case's own temperature "
+              "change of each segment, e.g. '0..1.5': scales, replaces nothing.")] = None,
           load_factor: Annotated[Optional[str], typer.Option(
               "--load-factor", help="Range of the factor on point and distributed loads, e.g. "
               "'0..2'.")] = None,
+          segments: Annotated[Optional[str], typer.Option(
+              "--segments", help="A temperature sweep acts on these segments only "
+              "(NAME,NAME,...); the others keep the case's own temperature change.")] = None,
           steps: Annotated[int, typer.Option("--steps", help="Grid points, both ends included.")] = 101,
           case: Annotated[Optional[str], typer.Option("--case", help="Case to sweep (default: the first).")] = None,
           format: Annotated[SweepFormat, typer.Option("--format", "-f", help="Output format.")] = SweepFormat.table,
@@ -264,6 +270,8 @@ def sweep(model: ModelPath,
           force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a case along a temperature or load range and report the exact events."""
+    import numpy as np
+
     from ..errors import ModelError
     from ..tracking.sweep import parse_range, sweep as run
     from ..output.sweeptext import sweep_csv, sweep_json, sweep_summary
@@ -276,18 +284,25 @@ def sweep(model: ModelPath,
             _suffix(plot)  # a figure's format is checked before any output is written
         check_count("--steps", steps, MAX_STEPS)
         given = [(p, v) for p, v in (("temperature_change", temperature_change),
-                                     ("temperature", temperature), ("load_factor", load_factor))
+                                     ("temperature", temperature),
+                                     ("temperature_factor", temperature_factor),
+                                     ("load_factor", load_factor))
                  if v is not None]
         if len(given) != 1:
-            raise ModelError("give exactly one of --temperature-change, --temperature or "
-                             "--load-factor")
+            raise ModelError("give exactly one of --temperature-change, --temperature, "
+                             "--temperature-factor or --load-factor")
         parameter, text = given[0]
         start, stop, unit = parse_range(text, parameter)
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         from ..io.physical import check_sweep_range
 
         check_sweep_range(m, parameter, start, stop, unit)
-        result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case)
+        from ..checks.buckling import buckling_capacities
+
+        capacity = [np.inf if c is None else c for c, _ in buckling_capacities(m, m.checks)]
+        chosen = None if segments is None else [n.strip() for n in segments.split(",") if n.strip()]
+        result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case,
+                     segments=chosen, buckling_capacity=capacity)
         long = steps * max(len(m.segments), 1) > 200_000 and format is not SweepFormat.table
         if format is SweepFormat.table:
             text_out = sweep_summary(result, units)
