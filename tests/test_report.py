@@ -534,3 +534,35 @@ def test_cli_report_refuses_an_unknown_paper(tmp_path):
         "error: Invalid value for '--paper': Value error, 'a3' is not one of 'a4', 'letter'. "
         "(see 'axialfe report --help')"]
     assert sorted(p.name for p in tmp_path.iterdir()) == ["m.toml"]
+
+
+def test_summary_shows_the_envelope_of_the_key_quantities(solution):
+    from axialfe.envelope import envelope
+
+    env = envelope(solution)
+    page = build_html(solution, date="2024-05-17", checks=check_solution(solution),
+                      envelope=env)
+    summary = "".join(parse(page[page.index('id="summary"'):page.index('id="job"')]).text)
+    assert "Envelope over 3 cases" in summary
+    # the most compressive force over every segment and case, and the case that gives it
+    low = min((e for e in env.segments if e.quantity == "axial_force"), key=lambda e: e.min)
+    assert f"{low.min / 1e3:.6g}" in summary and low.min_case in summary
+    results = page[page.index('id="results"'):page.index('id="calculation"')]
+    assert 'id="envelope"' in results                 # the full envelope leads the results
+    md = build_markdown(solution, date="2024-05-17", checks=check_solution(solution),
+                        envelope=env)
+    assert "Envelope over 3 cases" in md and "### Envelope" in md
+
+
+def test_cli_report_carries_the_notes_where_a_result_leaves_its_assumptions(tmp_path):
+    # heated 150 K between walls: sigma = -E*alpha*dT = -200 GPa * 11.7e-6 * 150 = -351 MPa,
+    # beyond structural steel's 250 MPa (Gere and Goodno, Mechanics of Materials, sec. 2.5)
+    text = SMALL.replace("[[loads]]\nat = \"b\"\nforce = \"4 kN\"\n",
+                         "[[supports]]\nat = \"b\"\n[settings]\ntemperature_change = \"150 K\"\n")
+    model = tmp_path / "hot.toml"
+    model.write_text(text, encoding="utf-8")
+    result = runner.invoke(app, ["report", str(model)])
+    assert result.exit_code == 0, result.output
+    page = (tmp_path / "hot.html").read_text(encoding="utf-8")
+    summary = "".join(parse(page[page.index('id="summary"'):page.index('id="job"')]).text)
+    assert "Notes on the results" in summary and "yield" in summary

@@ -630,11 +630,14 @@ def report(model: ModelPath,
                 outputs([model], ("--output", output),
                         *(("a diagram of the report", f) for f in figure_names(output, solution)))
             from ..checks import check_solution
+            from ..checks.assumptions import assumption_notes
+            from ..envelope import envelope
             from ..review.sheet import thermal_split
 
             write_report(solution, output, fmt, units, checks=check_solution(solution),
-                         review=stated_values(model, m, solution),
-                         thermal=thermal_split(solution), paper=paper.value)
+                         review=stated_values(model, m, solution), envelope=envelope(solution),
+                         thermal=thermal_split(solution), paper=paper.value,
+                         notes=assumption_notes(solution))
         typer.echo(f"wrote {output}", err=True)
 
 

@@ -31,7 +31,7 @@ import numpy as np
 
 from ..errors import ModelError
 from ..formatting import number
-from .text import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _governing_text
+from .text import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _data, _governing_text
 from ..results import CaseResult, Solution
 from ..units import OutputUnits
 
@@ -324,8 +324,11 @@ def _svg(result, units) -> str:
     buf = io.BytesIO()
     from matplotlib.backends.backend_svg import FigureCanvasSVG
 
+    import matplotlib
+
     FigureCanvasSVG(fig)
-    fig.savefig(buf, format="svg", metadata={"Date": None})
+    with matplotlib.rc_context({"svg.fonttype": "none"}):   # text stays text
+        fig.savefig(buf, format="svg", metadata={"Date": None})
     text = buf.getvalue().decode("utf-8")
     text = text[text.index("<svg"):]
     return text.replace("<svg ", '<svg role="img" style="max-width:100%;height:auto" ', 1)
@@ -334,7 +337,6 @@ def _svg(result, units) -> str:
 # --- the title block and the summary ----------------------------------------
 PAPERS = {"a4": "A4", "letter": "letter"}
 _VERDICT = {"pass": "PASS", "fail": "FAIL", "undecided": "UNDECIDED"}
-_SUMMARY_ROWS = 12     # rows of one group of the summary's envelope; the detail has the rest
 
 
 def title_block_rows(model, date: str) -> list[list[str]]:
@@ -367,44 +369,30 @@ def _count_text(checks) -> str:
                                      "segments (no yield strength)" if checks.unchecked else ""))
 
 
-def _envelope_rows(env, units) -> list[list[str]]:
-    """The key quantities of the envelope: the largest displacement, each segment's force
-    and stress, each reaction and gap force (at most a dozen of each; the detail has all)."""
-    def value(e, v):
-        return f"{_g(v / units.factor(e.unit_key))} {getattr(units, e.unit_key)}"
+def _envelope_parts(env, units, full: bool):
+    """The envelope as (kind, ...) blocks: its key rows (the summary), or every table."""
+    from .envelopetext import _summary_rows, _title, envelope_tables
 
-    def row(what, e):
-        return [what, e.name, value(e, e.min), e.min_case, value(e, e.max), e.max_case]
-
-    rows = []
-    if env.stations:
-        big = max(env.stations, key=lambda e: max(abs(e.min), abs(e.max)))
-        rows.append(row("displacement (largest)", big))
-    groups = (("segments", "axial_force", "axial force"), ("segments", "stress", "stress"),
-              ("reactions", "force", "reaction"), ("gaps", "force", "gap force"))
-    for group, quantity, what in groups:
-        items = [e for e in getattr(env, group) if e.quantity == quantity]
-        if len(items) > _SUMMARY_ROWS:   # the most loaded first
-            items = sorted(items, key=lambda e: -max(abs(e.min), abs(e.max)))
-            rest = len(items) - _SUMMARY_ROWS
-            items = items[:_SUMMARY_ROWS]
-            rows += [row(what, e) for e in items]
-            rows.append([what, f"and {rest} more (see the results)", "", "", "", ""])
-        else:
-            rows += [row(what, e) for e in items]
-    return rows
+    title = _title(env)
+    if not full:
+        yield ("table", title[0].upper() + title[1:], _ENVELOPE_HEADERS, _summary_rows(env, units))
+        return
+    yield ("text", None, title[0].upper() + title[1:] + ".")
+    for name, headers, rows in envelope_tables(env, units):
+        yield ("table", name, headers, rows)
 
 
-_ENVELOPE_HEADERS = ["quantity", "item", "least", "in case", "largest", "in case"]
+_ENVELOPE_HEADERS = ["quantity", "least", "in case", "at", "largest", "in case", "at"]
 
 
-def _summary_notes(solution) -> list[str]:
-    notes = []
-    for case in solution.cases:
-        for note in case.notes:
-            if note not in notes:
-                notes.append(note)
-    return notes
+def _summary_notes(data) -> list[str]:
+    """Every case's notes, each once, with the cases it belongs to."""
+    notes: dict[str, list[str]] = {}
+    for case in data["cases"]:
+        for note in case.get("notes", []):
+            notes.setdefault(note, []).append(case["name"])
+    return [note + ("" if len(data["cases"]) == 1 else " (case " + ", ".join(
+        f"\u2018{c}\u2019" for c in cases) + ")") for note, cases in notes.items()]
 
 
 # --- the calculation sheet's extra tables ------------------------------------
@@ -623,7 +611,7 @@ def _title_block_html(model, date) -> str:
 
 def build_html(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
                checks=None, review=None, envelope=None, thermal=None,
-               paper: str = "a4") -> str:
+               paper: str = "a4", notes=None) -> str:
     """The report as one self-contained HTML document.
 
     Parameters
@@ -648,6 +636,10 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
         for the calculation sheet.
     paper : {'a4', 'letter'}
         The paper the print stylesheet lays the report out on.
+    notes : dict, optional
+        Each case's notes where its result leaves the assumptions of the solve
+        (:func:`axialfe.checks.assumptions.assumption_notes`), shown under the case
+        and in the summary.
 
     Notes
     -----
@@ -662,7 +654,7 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
         raise TypeError("the report needs the checks of the solution "
                         "(axialfe.checks.check_solution): output computes nothing")
     date = date or datetime.date.today().isoformat()
-    data = solution.to_dict(units)
+    data = _data(solution, units, notes)
     splits = _splits(thermal, solution)
     out = ["<!DOCTYPE html>", '<html lang="en">', "<head>", '<meta charset="utf-8">',
            '<meta name="viewport" content="width=device-width, initial-scale=1">',
@@ -688,10 +680,8 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
         out.append("<p><strong>INACCURATE:</strong> " + _e(", ".join(
             c.name for c in solution.inaccurate)) + ": these results must not be used.</p>")
     if envelope is not None:
-        out.append("<p><strong>Envelope over every case and combination</strong></p>"
-                   + _html_table(_ENVELOPE_HEADERS, _envelope_rows(envelope, units),
-                                 cls="envelope"))
-    notes = _summary_notes(solution)
+        out.append(_html_parts(_envelope_parts(envelope, units, full=False)))
+    notes = _summary_notes(data)
     if notes:
         out.append("<p><strong>Notes on the results</strong></p><ul>"
                    + "".join(f"<li>{_e(n)}</li>" for n in notes) + "</ul>")
@@ -706,6 +696,9 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
         out.append(f"<h3>{_e(title)}</h3>" + _html_table(headers, rows))
     out.append("</section>")
     section("results")
+    if envelope is not None and len(solution.cases) > 1:
+        out.append('<h3 id="envelope">Envelope</h3>'
+                   + _html_parts(_envelope_parts(envelope, units, full=True)))
     for n, case in enumerate(data["cases"]):
         out.append(f'<h3 id="results-{n}">Case \u201c{_e(case["name"])}\u201d</h3>')
         for title, headers, rows in _case_tables(case, data["units"]):
@@ -797,7 +790,7 @@ def figure_names(path, solution: Solution) -> list[Path]:
 
 def build_markdown(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
                    checks=None, review=None, envelope=None, thermal=None,
-                   figures=None) -> str:
+                   figures=None, notes=None) -> str:
     """The report as one Markdown document.
 
     ``figures`` are the names (relative to the report) of the diagram files, one per
@@ -812,7 +805,7 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
         raise TypeError("the report needs the checks of the solution "
                         "(axialfe.checks.check_solution): output computes nothing")
     date = date or datetime.date.today().isoformat()
-    data = solution.to_dict(units)
+    data = _data(solution, units, notes)
     splits = _splits(thermal, solution)
     out = [f"# {_md(model.title)}", ""] + _md_table(["item", "value"], title_block_rows(model, date))
     out += [f"Axial analysis report, {date}; units: "
@@ -825,9 +818,8 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
         out += ["**INACCURATE:** " + _md(", ".join(c.name for c in solution.inaccurate))
                 + ": these results must not be used.", ""]
     if envelope is not None:
-        out += ["**Envelope over every case and combination**", ""]
-        out += _md_table(_ENVELOPE_HEADERS, _envelope_rows(envelope, units))
-    notes = _summary_notes(solution)
+        out += _md_parts(_envelope_parts(envelope, units, full=False))
+    notes = _summary_notes(data)
     if notes:
         out += ["**Notes on the results**", ""] + [f"- {_md(n)}" for n in notes] + [""]
     out += ["**Cautions**", ""] + [f"- {_md(c)}" for c in CAUTIONS] + [""]
@@ -837,6 +829,8 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
     for title, headers, rows in _input_tables(model, units):
         out += [f"### {_md(title)}", ""] + _md_table(headers, rows)
     out += [f"## {_TITLES['results']}", ""]
+    if envelope is not None and len(solution.cases) > 1:
+        out += ["### Envelope", ""] + _md_parts(_envelope_parts(envelope, units, full=True))
     for case in data["cases"]:
         out += [f"### Case \u201c{_md(case['name'])}\u201d", ""]
         for title, headers, rows in _case_tables(case, data["units"]):
@@ -880,11 +874,11 @@ def _md_link(name) -> str:
 def write_report(solution: Solution, path, fmt: str | None = None,
                  units: OutputUnits | None = None, date: str | None = None,
                  checks=None, review=None, envelope=None, thermal=None,
-                 paper: str = "a4") -> Path:
+                 paper: str = "a4", notes=None) -> Path:
     """Write the report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None).
 
-    ``checks`` (required), ``review``, ``envelope``, ``thermal`` and ``paper`` are
-    those of :func:`build_html`.  A Markdown report links its diagrams, written
+    ``checks`` (required), ``review``, ``envelope``, ``thermal``, ``paper`` and
+    ``notes`` are those of :func:`build_html`.  A Markdown report links its diagrams, written
     beside it as PNG files (:func:`figure_names`); every file is written atomically.
     """
     path = Path(path)
@@ -893,14 +887,14 @@ def write_report(solution: Solution, path, fmt: str | None = None,
 
     if fmt == "html":
         text = build_html(solution, units, date, checks=checks, review=review,
-                          envelope=envelope, thermal=thermal, paper=paper)
+                          envelope=envelope, thermal=thermal, paper=paper, notes=notes)
     else:
         from .plot import plot_case, save_figure
 
         figures = figure_names(path, solution)
         text = build_markdown(solution, units, date, checks=checks, review=review,
                               envelope=envelope, thermal=thermal,
-                              figures=[f.name for f in figures])
+                              figures=[f.name for f in figures], notes=notes)
         for result, figure in zip(solution.cases, figures):
             save_figure(plot_case(result, "all", None, units or solution.model.units), figure)
     try:
