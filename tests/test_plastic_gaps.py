@@ -260,3 +260,22 @@ def test_path_with_gaps_agrees_with_a_brute_force_incremental_solve(spec):
                      what=f"segment forces at the end of leg {state.leg}")
         assert_close(np.abs(state.result.gap_force), lam, abs_=2e-2 * scale,
                      what=f"gap forces at the end of leg {state.leg}")
+
+
+def test_the_rod_example_closes_yields_and_comes_back_short(cli):
+    # the hand solution quoted in the example's comments
+    import json
+    from pathlib import Path
+
+    example = Path(__file__).resolve().parent.parent / "examples" / "rod-against-stop-heated.toml"
+    out = cli("path", example, "--path",
+              "temperature-change 0 K..200 K; temperature-change 200 K..0 K", "--format", "json")
+    assert out.exit_code == 0, out.output
+    data = json.loads(out.stdout)
+    assert [(e["leg"], e["name"], e["event"], pytest.approx(e["value"], rel=1e-9))
+            for e in data["events"]] == [(1, "stop", "closes", 50.0), (1, "rod", "yields", 150.0),
+                                         (2, "rod", "unloads", 200.0), (2, "stop", "opens", 100.0)]
+    cold = data["states"][1]
+    assert cold["segments"][0]["plastic_strain"] == pytest.approx(-0.0006, rel=1e-9)
+    assert cold["gaps"][0]["opening"] == pytest.approx(1.2, rel=1e-9)          # mm
+    assert cold["stations"][1]["plastic_displacement"] == pytest.approx(-0.6, rel=1e-9)

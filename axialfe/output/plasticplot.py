@@ -62,11 +62,9 @@ def plot_path(result, path=None, units=None, dpi: int = DPI):
     for n, (x, ev) in enumerate(marks):
         line = ax.axvline(x, color=COMPRESSION, linewidth=0.8, linestyle=(0, (3, 2)))
         line.set_gid(f"path-event-{n}")
-    for x, ev in marks[:12]:
-        unit = "" if legs[ev.leg].unit == "1" else f" {legs[ev.leg].unit}"
-        ax.annotate(_text(f"leg {ev.leg}: {ev.name} {ev.event} at {ev.value:.4g}{unit}"),
-                    (x, 1.0), xycoords=("data", "axes fraction"), rotation=90, ha="right",
-                    va="top", fontsize=6.5, color=COMPRESSION, xytext=(-2, -2),
+    for x, text in _labels(marks, legs, xs)[:12]:
+        ax.annotate(_text(text), (x, 1.0), xycoords=("data", "axes fraction"), rotation=90,
+                    ha="right", va="top", fontsize=6.5, color=COMPRESSION, xytext=(-2, -2),
                     textcoords="offset points")
     if shown or len(model.gaps):
         ax.legend(fontsize=7, frameon=False)
@@ -83,3 +81,23 @@ def plot_path(result, path=None, units=None, dpi: int = DPI):
     if path is not None:
         save_figure(fig, path, dpi)
     return fig
+
+
+def _labels(marks, legs, xs):
+    """One label per place on the abscissa: the events there, grouped by leg and kind."""
+    span = float(np.ptp(xs)) if len(xs) else 0.0
+    places = []                       # [x, {(leg, event, value): [names]}]
+    for x, ev in marks:
+        place = next((pl for pl in places if abs(x - pl[0]) <= 1e-9 * max(span, 1e-300)), None)
+        if place is None:
+            place = [x, {}]
+            places.append(place)
+        place[1].setdefault((ev.leg, ev.event, ev.value), []).append(ev.name)
+    out = []
+    for x, groups in places:
+        parts = []
+        for (leg, event, value), names in groups.items():
+            unit = "" if legs[leg].unit == "1" else f" {legs[leg].unit}"
+            parts.append(f"leg {leg}: {', '.join(names)} {event} at {value:.4g}{unit}")
+        out.append((x, "; ".join(parts)))
+    return out
