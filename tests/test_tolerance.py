@@ -365,3 +365,35 @@ def test_examples_run_through_the_command(path):
     assert result.exit_code == 0, result.output
     data = json.loads(result.stdout)
     assert data["outputs"] and data["inputs"]
+
+
+def test_plot_and_report_section(tmp_path):
+    path = tmp_path / "m.toml"
+    path.write_text(BAR.format(dt="50 K ±5", clearance='"0.62 mm +0.05/-0.03"'))
+    png = tmp_path / "h.png"
+    result = runner.invoke(app, ["tolerance", str(path), "--samples", "400", "--plot", str(png)])
+    assert result.exit_code == 0, result.output
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    report = tmp_path / "r.md"
+    result = runner.invoke(app, ["report", str(path), "--tolerance", "--samples", "400",
+                                 "-o", str(report)])
+    assert result.exit_code == 0, result.output
+    text = report.read_text()
+    assert "## Tolerance study" in text and "gaps.stop.clearance" in text
+
+
+def test_least_stress_is_zero_at_a_root_of_the_force():
+    # The same stack with a load and a temperature change of either sign: R_a = -P*b/L +
+    # E*A*alpha*dT*(L_cb/L) (as above) passes through zero inside the box, so the least
+    # |stress| of segment ac is 0, at inputs where R_a = 0.
+    text = LINEAR.replace('"10 kN ±1.5"', '"0.5 kN ±1.5"').replace('"30 K ±6"', '"1 K ±6"')
+    study = study_of(text, samples=200, outputs=["stress:a-c"])
+    r = row(study, "stress:a-c")
+    assert r["worst_case"][0] == pytest.approx(0.0, abs=1e-6)
+    x = r["worst_case_inputs"][0]
+    P, dT = x["loads[1].force"], x["segments.c-b.temperature_change"]
+    assert -0.6 * P + 200e9 * 1e-4 * 12e-6 * 0.6 * dT == pytest.approx(0.0, abs=1e-6)
+    # the greatest at a vertex: P = 2 kN with dT = -5 K, or P = -1 kN with dT = 7 K
+    k_T = 200e9 * 1e-4 * 12e-6 * 0.6
+    greatest = max(abs(-0.6 * 2e3 - k_T * 5), abs(0.6 * 1e3 + k_T * 7)) / 1e-4
+    assert r["worst_case"][1] == pytest.approx(greatest, rel=1e-9)

@@ -110,3 +110,55 @@ def study_table(study, units: OutputUnits | None = None) -> str:
     lines += ["", " notes"] + [f"  - {n}" for n in data["notes"]]
     lines += ["", " cautions"] + [f"  - {c}" for c in TOLERANCE_CAUTIONS]
     return "\n".join(lines) + "\n"
+
+
+def _report_rows(study, units):
+    """The rows of a report's tolerance section: inputs, outputs, events, notes (text)."""
+    data = study_dict(study, units)
+    unit_of = {"force": units.force, "displacement": units.displacement, "stress": units.stress}
+    kinds = {(r["name"], r["case"]): r["kind"] for r in study.outputs}
+    inputs = (["input", "nominal", "lower", "upper", "unit", "distribution"],
+              [[e["name"], _g(e["nominal"]), _g(e["limits"][0]), _g(e["limits"][1]),
+                e["unit"] or "-", e["distribution"]] for e in data["inputs"]])
+    headers = ["output", "case", "unit", "nominal", "worst least", "worst greatest"]
+    if data["samples"]:
+        headers += ["mean", "std", "0.135 %", "99.865 %"]
+    rows = []
+    for r in data["outputs"]:
+        row = [r["name"], r["case"], unit_of[kinds[(r["name"], r["case"])]], _g(r["nominal"])]
+        row += [_g(v) for v in r.get("worst_case", [None, None])]
+        if data["samples"]:
+            row += [_g(r["mean"]), _g(r["std"]), _g(r["percentiles"]["0.135"]),
+                    _g(r["percentiles"]["99.865"])]
+        rows.append(row)
+    events = (["name", "event", "case", "count", "probability", "95 % interval"],
+              [[e["name"], e["event"], e["case"], str(e["count"]), _g(e["probability"]),
+                f"{_g(e['confidence_interval'][0])} to {_g(e['confidence_interval'][1])}"]
+               for e in data["events"]])
+    intro = (f"Worst case by {data['worst_case_method']}"
+             + (f"; Monte Carlo of {data['samples']} samples, seed {data['seed']}"
+                if data["samples"] else "") + ".")
+    return intro, inputs, (headers, rows), events, data["notes"]
+
+
+def study_html(study, units: OutputUnits, table) -> str:
+    """The tolerance section of the HTML report (``table(headers, rows)`` writes a table)."""
+    from html import escape
+
+    intro, inputs, outputs, events, notes = _report_rows(study, units)
+    parts = ['<section id="tolerance"><h2>Tolerance study</h2>', f"<p>{escape(intro)}</p>",
+             table(*inputs), table(*outputs)]
+    if events[1]:
+        parts.append(table(*events))
+    parts.append("<ul>" + "".join(f"<li>{escape(n)}</li>" for n in notes + [
+        TOLERANCE_CAUTIONS[-1]]) + "</ul></section>")
+    return "\n".join(parts)
+
+
+def study_markdown(study, units: OutputUnits, table) -> list[str]:
+    """The tolerance section of the Markdown report (``table(headers, rows)`` gives lines)."""
+    intro, inputs, outputs, events, notes = _report_rows(study, units)
+    out = ["## Tolerance study", "", intro, ""] + table(*inputs) + table(*outputs)
+    if events[1]:
+        out += table(*events)
+    return out + [f"- {n}" for n in notes + [TOLERANCE_CAUTIONS[-1]]] + [""]

@@ -98,6 +98,8 @@ class Batch:
             self.loop = "the inputs do not enter the model's arrays affinely"
             return
         self.theta0, self.D = theta0, D
+        # the inputs that move each block
+        self.reach = {name: np.flatnonzero(D[:, sl].any(axis=1)) for name, sl in self.slices.items()}
         # segments whose |stress| peaks at an end in every sample: uniform, nothing along them
         sl = self.slices
         same = lambda a, b: (theta0[sl[a]] == theta0[sl[b]]) & (D[:, sl[a]] == D[:, sl[b]]).all(0)  # noqa: E731
@@ -171,6 +173,15 @@ class Batch:
         return np.concatenate(parts)
 
     # --- solving ------------------------------------------------------------
+    def _closure(self, u):
+        """``B u`` of every sample: each gap's closure from its stations (shape (S, g))."""
+        cons = self.system.cons
+        out = cons.s1 * u[:, cons.a]
+        two = cons.b >= 0
+        if two.any():
+            out[:, two] += cons.s2[two] * u[:, cons.b[two]]
+        return out
+
     def batch_size(self) -> int:
         per_sample = 8 * (3 * self.width + 8 * (self.bw + 2 + self.g) * max(self.nf, 1)
                           + 40 * self.m + 8 * self.n)
@@ -224,11 +235,10 @@ class Batch:
 
     def _stacked(self, values, outputs):
         S = len(values)
-        theta = self.theta0 + (values - self.nominal) @ self.D            # (S, width)
-        sl = self.slices
-        x = theta[:, sl["x"]]
-        take = lambda f: theta[:, sl[f]].reshape(-1)                      # noqa: E731
+        theta = _Inputs(self, values - self.nominal)
+        take = lambda f: theta[f].reshape(-1)                             # noqa: E731
         start, end = self.start, self.end
+        x = theta["x"]
         dx = x[:, end] - x[:, start]
         if np.any(np.sign(dx) != self.direction):
             raise SolveError("two stations change order in a sample: narrow the tolerance of "
@@ -240,27 +250,28 @@ class Batch:
                               length.reshape(-1), E, rho_g, NUMERIC)
         k = terms.stiffness.reshape(S, self.m)
         band = k @ self.k_to_band
-        spring = theta[:, sl["spring"]]
+        spring = theta["spring"]
         if spring.shape[1]:
             band = band + spring @ self.spring_to_band
         factor, ok = _factorise(band.reshape(S, self.bw + 1, self.nf).transpose(1, 2, 0),
                                 dense=self.bw > _DENSE_BAND)
-        clearance = theta[:, sl["clearance"]]
+        clearance = theta["clearance"]
         Z = _solve(factor, np.broadcast_to(self.Bf.T[:, None, :], (self.nf, S, self.g)),
                    self.bw > _DENSE_BAND) if self.g else None
         M = np.einsum("gi,isk->sgk", self.Bf, Z) if self.g else None
         alpha, misfit = take("thermal_expansion"), take("misfit")
-        q = theta[:, sl["distributed_load"]] * self.direction
+        q = theta["distributed_load"] * self.direction
         out, failed = {}, ~ok
         e = self.direction
         for s, _ in enumerate(self.states):
-            dT = theta[:, sl[("dT", s)]].reshape(-1)
+            dT = theta[("dT", s)].reshape(-1)
             delta0, G, W = load_terms(terms, q.reshape(-1), dT, alpha, length.reshape(-1), misfit)
             f_from, f_to = nodal_loads(terms, delta0, G, W)
-            F = theta[:, sl[("forces", s)]] + ((e * f_from.reshape(S, -1)) @ self.at_start
+            forces = theta[("forces", s)]
+            F = forces + ((e * f_from.reshape(S, -1)) @ self.at_start
                                              + (e * f_to.reshape(S, -1)) @ self.at_end)
             u = np.zeros((S, self.n))
-            u[:, self.presc] = theta[:, sl[("settlement", s)]][:, self.presc_support]
+            u[:, self.presc] = theta[("settlement", s)][:, self.presc_support]
             # K_fr u_r: the prescribed displacements moved to the loads
             t = k * (u[:, end] - u[:, start])
             Ku_r = t @ self.at_end - t @ self.at_start
@@ -270,10 +281,11 @@ class Batch:
             closed = np.zeros((S, self.g), dtype=bool)
             if self.g:
                 u[:, self.free_stations] = u_free
-                o0 = clearance - u @ self.B.T
+                o0 = clearance - self._closure(u)
                 lam, closed, bad = _gap_states(M, o0, clearance)
                 failed |= bad
-                u_free = u_free - np.einsum("isg,sg->si", Z, lam)
+                for j in range(self.g):
+                    u_free = u_free - Z[:, :, j].T * lam[:, j:j + 1]
             u[:, self.free_stations] = u_free
             du = e * (u[:, end] - u[:, start])
             n_from = k * (du - delta0.reshape(S, -1)) + k * G.reshape(S, -1)
@@ -296,13 +308,13 @@ class Batch:
             spring_force = -spring * u[:, self.spring_at]
             reactions[:, self.spring_support] = spring_force
             # the certificate: station balance from the recovered segment forces
-            balance = (theta[:, sl[("forces", s)]] + (e * n_from) @ self.at_start
+            balance = (forces + (e * n_from) @ self.at_start
                        - (e * n_to) @ self.at_end - gap_nodal)
             if spring.shape[1]:
                 np.add.at(balance, (slice(None), self.spring_at), spring_force)
             balance = balance[:, self.free_stations]
             scale = np.maximum.reduce([
-                np.abs(theta[:, sl[("forces", s)]]).max(axis=1, initial=0),
+                np.abs(forces).max(axis=1, initial=0),
                 np.abs(reactions).max(axis=1, initial=0),
                 np.abs(n_from).max(axis=1, initial=0), np.abs(n_to).max(axis=1, initial=0),
                 np.abs(lam).max(axis=1, initial=0),
@@ -311,9 +323,9 @@ class Batch:
                 np.abs(W.reshape(S, -1)).max(axis=1, initial=0)])
             residual = np.abs(balance).max(axis=1, initial=0) / np.where(scale > 0, scale, 1)
             failed |= ~(residual <= _RESIDUAL)
-            opening = clearance - u @ self.B.T if self.g else np.zeros((S, 0))
+            opening = clearance - self._closure(u) if self.g else np.zeros((S, 0))
             opening = np.where(closed, 0.0, opening)
-            fields = _Fields(n_from, n_to, q, rho_g.reshape(S, -1), theta, sl, length,
+            fields = _Fields(n_from, n_to, q, rho_g.reshape(S, -1), theta, length,
                              self.end_valued)
             got = outputs.of_arrays(u=u, stress=fields, reactions=reactions, opening=opening,
                                     force=self.force_sign * lam, closed=closed)
@@ -327,31 +339,54 @@ class Batch:
         return out
 
 
+class _Inputs:
+    """The per-sample inputs of a batch, one block at a time: ``inputs['x']`` is (S, n).
+
+    A block no input moves is the nominal row, broadcast; a moved one is the
+    nominal row plus the moves of the inputs that reach it.
+    """
+
+    def __init__(self, batch, moves):
+        self.batch, self.moves, self.cache = batch, moves, {}
+
+    def __getitem__(self, name):
+        if name not in self.cache:
+            b = self.batch
+            sl = b.slices[name]
+            rows = b.reach[name]
+            row = b.theta0[sl]
+            if len(rows):
+                self.cache[name] = row + self.moves[:, rows] @ b.D[rows, sl]
+            else:
+                self.cache[name] = np.broadcast_to(row, (len(self.moves), len(row)))
+        return self.cache[name]
+
+
 class _Fields:
     """The largest |stress| of each segment, made when an output asks for it."""
 
-    def __init__(self, n_from, n_to, q, rho_g, theta, sl, length, end_valued):
-        self.args = (n_from, n_to, q, rho_g, theta, sl, length)
+    def __init__(self, n_from, n_to, q, rho_g, theta, length, end_valued):
+        self.args = (n_from, n_to, q, rho_g, theta, length)
         self.end_valued = end_valued
 
     def peak(self, rows):
-        """|stress| of largest magnitude along segments ``rows``: array (S, len(rows)).
+        """The stress of largest magnitude along segments ``rows`` (signed): (S, len(rows)).
 
         A uniform segment with nothing along it has one stress; any other is read
         from its fields (:meth:`axialfe.mechanics.Fields.stress_peak`).
         """
-        n_from, n_to, q, rho_g, theta, sl, length = self.args
+        n_from, n_to, q, rho_g, theta, length = self.args
         S = len(n_from)
         rows = np.asarray(rows)
         out = np.empty((S, len(rows)))
         simple = self.end_valued[rows]
         if simple.any():
             r = rows[simple]
-            area = theta[:, sl["c"]][:, r] * theta[:, sl["p1"]][:, r] * theta[:, sl["q1"]][:, r]
-            out[:, simple] = np.abs(n_from[:, r]) / area
+            area = theta["c"][:, r] * theta["p1"][:, r] * theta["q1"][:, r]
+            out[:, simple] = n_from[:, r] / area
         if (~simple).any():
             r = rows[~simple]
-            cut = lambda f: theta[:, sl[f]][:, r].reshape(-1)               # noqa: E731
+            cut = lambda f: theta[f][:, r].reshape(-1)                      # noqa: E731
             fields = Fields.of(n_from[:, r].reshape(-1), q[:, r].reshape(-1),
                                rho_g[:, r].reshape(-1), cut("c"), cut("p1"), cut("q1"),
                                cut("p2"), cut("q2"), length[:, r].reshape(-1),
@@ -359,7 +394,7 @@ class _Fields:
                                end_force=np.column_stack([n_from[:, r].reshape(-1),
                                                           n_to[:, r].reshape(-1)]))
             value, _ = fields.stress_peak()
-            out[:, ~simple] = np.abs(value).reshape(S, len(r))
+            out[:, ~simple] = value.reshape(S, len(r))
         return out
 
 

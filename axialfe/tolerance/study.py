@@ -106,7 +106,8 @@ class OutputSet:
         if len(self.stress_rows):
             peaks = stress.peak(self.stress_rows)
             for j, i in enumerate(self.stress_rows):
-                out[f"stress:{self.segments[i]}"] = peaks[:, j]
+                out[f"stress:{self.segments[i]}"] = np.abs(peaks[:, j])
+                out[f"signed:{self.segments[i]}"] = peaks[:, j]
         for name in self.names:
             kind, _, rest = name.partition(":")
             if kind == "reaction":
@@ -125,6 +126,7 @@ class OutputSet:
             value, _ = case.fields.stress_peak()
             for i in self.stress_rows:
                 out[f"stress:{self.segments[i]}"] = abs(float(value[i]))
+                out[f"signed:{self.segments[i]}"] = float(value[i])
         for name in self.names:
             kind, _, rest = name.partition(":")
             if kind == "reaction":
@@ -359,12 +361,28 @@ def _worst_case(batch, chosen, states, lower, upper, values, draws, affine, tick
         v = got[key]
         i, j = int(np.argmin(v)), int(np.argmax(v))
         found[key] = [[float(v[i]) + 0.0, points[i].copy()], [float(v[j]) + 0.0, points[j].copy()]]
-    if method == "vertices" and not any(n.startswith("stress:") for _, n in names):
+    # |stress| whose signed value changes sign over the box: its least is 0, at a root
+    # of the force on the line between the vertices of either sign
+    rooted = set()
+    crossing = []
+    for key in names:
+        s, name = key
+        if name.startswith("stress:"):
+            signed = got[(s, "signed:" + name.split(":", 1)[1])]
+            if signed.min() < 0 < signed.max():
+                crossing.append((key, points[int(np.argmin(signed))], points[int(np.argmax(signed))]))
+    if crossing:
+        for (key, _, _), (value, x) in zip(crossing, _roots(batch, chosen, crossing)):
+            found[key][0] = [value, x]
+            rooted.add(key)
+    if method == "vertices" and all(n.startswith("stress:") and (s, n) in rooted or
+                                    not n.startswith("stress:") for s, n in names):
         return {key: tuple(map(tuple, val)) for key, val in found.items()}, method
     # one-sided slopes towards the inside of the box at each extreme, in one batch
     width = upper - lower
     h = 1e-6 * width
-    starts = [(key, side) for key in names for side in (0, 1)]
+    starts = [(key, side) for key in names for side in (0, 1)
+              if not (side == 0 and key in rooted)]
     base = np.array([found[key][side][1] for key, side in starts])
     inward = np.where(np.isclose(base, upper), -1.0, 1.0)         # (P, k)
     probes = [base]
@@ -377,15 +395,42 @@ def _worst_case(batch, chosen, states, lower, upper, values, draws, affine, tick
     for row, (key, side) in enumerate(starts):
         v = got[key][row::P]
         change = v[1:] - v[0]
-        # a least value needs no decrease inward, a greatest no increase
-        improves = change < -1e-12 * (abs(v[0]) + 1e-300) if side == 0 else \
-            change > 1e-12 * (abs(v[0]) + 1e-300)
+        # a least value needs no decrease inward, a greatest no increase (beyond rounding)
+        spread = abs(found[key][1][0] - found[key][0][0]) + abs(v[0])
+        improves = change < -1e-9 * spread if side == 0 else change > 1e-9 * spread
         at_vertex = np.isclose(base[row], lower) | np.isclose(base[row], upper)
         if method == "vertices" or (not improves.any() and at_vertex.all()):
             continue
         found[key][side] = _polish(batch, chosen, key, side, base[row], lower, upper,
                                    found[key][side])
     return {key: tuple(map(tuple, val)) for key, val in found.items()}, method
+
+
+def _roots(batch, chosen, crossing, iterations=30):
+    """Roots of the signed stress on the lines between two vertices, all at once (Illinois
+    regula falsi: each iteration one batch of one point per line).  Returns (|stress|, x)."""
+    a = np.array([lo for _, lo, _ in crossing])
+    b = np.array([hi for _, _, hi in crossing])
+    keys = [(key[0], "signed:" + key[1].split(":", 1)[1]) for key, _, _ in crossing]
+
+    def signed(points):
+        got = batch.solve(points, chosen)
+        return np.array([got[k][i] for i, k in enumerate(keys)])
+
+    t0, t1 = np.zeros(len(a)), np.ones(len(a))
+    f0, f1 = signed(a), signed(b)
+    t, f = t0.copy(), f0.copy()
+    for _ in range(iterations):
+        t = np.where(f1 != f0, t0 - f0 * (t1 - t0) / (f1 - f0), 0.5 * (t0 + t1))
+        t = np.clip(t, np.minimum(t0, t1), np.maximum(t0, t1))
+        f = signed(a + t[:, None] * (b - a))
+        left = np.sign(f) == np.sign(f0)          # the root lies between t and t1
+        # Illinois: the end that stays has its value halved
+        t0, f0, t1, f1 = (np.where(left, t, t0), np.where(left, f, 0.5 * f0),
+                          np.where(left, t1, t), np.where(left, 0.5 * f1, f))
+        if np.all(np.abs(f) <= 1e-9 * np.maximum(np.abs(f0), np.abs(f1)) + 1e-300):
+            break
+    return [(abs(float(v)), a[i] + t[i] * (b[i] - a[i])) for i, v in enumerate(f)]
 
 
 def _polish(batch, chosen, key, side, x0, lower, upper, best):
@@ -410,7 +455,7 @@ def _polish(batch, chosen, key, side, x0, lower, upper, best):
 
     z0 = np.clip((x0 - lower) / width, 0, 1)
     res = minimize(f, z0, jac=True, method="L-BFGS-B", bounds=[(0, 1)] * k,
-                   options={"maxiter": 30})
+                   options={"maxiter": 10, "maxfun": 25})
     x = lower + np.clip(res.x, 0, 1) * width
     value = float(batch.solve(x[None, :], chosen)[key][0])
     if sign * value < sign * best[0]:
