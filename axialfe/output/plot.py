@@ -38,7 +38,7 @@ from ..results import CaseResult
 from ..units import OutputUnits
 
 __all__ = ["WHAT", "FIGURE_SUFFIXES", "Curve", "lanes", "diagram_data", "plot_case",
-           "plot_sweep", "save_figure", "declutter", "label_boxes", "curve_paths", "Diagram"]
+           "plot_sweep", "save_figure", "declutter", "Diagram"]
 
 WHAT = ("force", "stress", "displacement", "all")
 FIGURE_SUFFIXES = (".png", ".svg")
