@@ -397,3 +397,16 @@ def test_least_stress_is_zero_at_a_root_of_the_force():
     k_T = 200e9 * 1e-4 * 12e-6 * 0.6
     greatest = max(abs(-0.6 * 2e3 - k_T * 5), abs(0.6 * 1e3 + k_T * 7)) / 1e-4
     assert r["worst_case"][1] == pytest.approx(greatest, rel=1e-9)
+
+
+def test_readme_shows_the_example_as_it_runs():
+    root = EXAMPLES.parent.parent
+    command = ("$ axialfe tolerance examples/tolerance/pump-shaft-end-float.toml --samples 100000 "
+               "--seed 1 --output gap:end-float:opening --output gap:end-float:force\n")
+    readme = (root / "README.md").read_text(encoding="utf-8")
+    shown = readme[readme.index(command) + len(command):].split("\n```", 1)[0]
+    args = command[2:].split()[1:]
+    args[1] = str(root / args[1])
+    result = runner.invoke(app, args)
+    assert result.exit_code == 0, result.output
+    assert shown in result.stdout

@@ -455,7 +455,7 @@ def _polish(batch, chosen, key, side, x0, lower, upper, best):
 
     z0 = np.clip((x0 - lower) / width, 0, 1)
     res = minimize(f, z0, jac=True, method="L-BFGS-B", bounds=[(0, 1)] * k,
-                   options={"maxiter": 10, "maxfun": 25})
+                   options={"maxiter": 8, "maxfun": 15})
     x = lower + np.clip(res.x, 0, 1) * width
     value = float(batch.solve(x[None, :], chosen)[key][0])
     if sign * value < sign * best[0]:
