@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import dataclasses
 import functools
+from collections.abc import Mapping
 import re
 import tomllib
 from importlib import resources
@@ -125,11 +126,33 @@ def _builtin_table():
     return tomllib.loads(text)
 
 
-def builtin_materials() -> dict[str, Material]:
+class _BuiltinMaterials(Mapping):
+    """The built-in materials by name, each read when first asked for (a table against
+    temperature in degF needs pint, which a model naming other materials never loads)."""
+
+    def __init__(self):
+        self._table = _builtin_table()
+        self._read = {}
+
+    def __getitem__(self, name):
+        if name not in self._read:
+            entry = self._table[name]                  # KeyError for an unknown name
+            self._read[name] = _Reader({}, None, None).material(name, entry, builtin=True)
+        return self._read[name]
+
+    def __contains__(self, name):
+        return name in self._table
+
+    def __iter__(self):
+        return iter(self._table)
+
+    def __len__(self):
+        return len(self._table)
+
+
+def builtin_materials() -> Mapping:
     """Return the built-in materials by name (values in SI, each with its source)."""
-    reader = _Reader({}, None, None)
-    return {name: reader.material(name, entry, builtin=True)
-            for name, entry in _builtin_table().items()}
+    return _BuiltinMaterials()
 
 
 class _Reader:
