@@ -275,9 +275,17 @@ def materials():
 
     for name, entry in _builtin_table().items():
         typer.echo(f"{name}: {entry.get('description', '')}")
-        for key in ("elastic_modulus", "thermal_expansion", "yield_strength", "density",
-                    "poissons_ratio"):
-            typer.echo(f"    {key:18s} {entry.get(key, '(not given)')}")
+        for key in ("elastic_modulus", "thermal_expansion", "mean_thermal_expansion",
+                    "thermal_expansion_total", "yield_strength", "density", "poissons_ratio"):
+            value = entry.get(key, "(not given)")
+            if isinstance(value, dict):       # a table against temperature
+                rows = [f"{t} {v}" for t, v in value.items() if t != "reference"]
+                start = f"from {value['reference']}: " if "reference" in value else ""
+                value = f"{start}{rows[0]} ... {rows[-1]} ({len(rows)} entries)"
+            elif key not in entry and (key != "thermal_expansion" or any(
+                    k in entry for k in ("mean_thermal_expansion", "thermal_expansion_total"))):
+                continue
+            typer.echo(f"    {key:18s} {value}")
         typer.echo(f"    source             {entry['source']}")
     typer.echo("\nA model's own [materials] entry of the same name takes precedence. Values are "
                "typical: verify against your material certificate.")
@@ -552,6 +560,14 @@ def check(model: ModelPath,
     raise typer.Exit(checks_exit(report))
 
 
+def figures_beside(model: Path, report: Path, count: int):
+    """Check the diagram files a Markdown report writes beside itself, as every output is."""
+    from ..output.report import figure_names
+
+    outputs([model], ("--output", report),
+            *(("a diagram of the report", f) for f in figure_names(report, count)))
+
+
 def beside(model: Path, output: Optional[Path], suffix: str) -> Path:
     """``output``, or ``MODEL-STEM`` + ``suffix`` beside the model when none is given."""
     return output if output is not None else model.with_name(model.stem + suffix)
@@ -618,10 +634,10 @@ def report(model: ModelPath,
     results, calculation sheet, checks and diagrams.
 
     The HTML report needs no other file and prints on A4 or Letter with the title
-    block of the model's [project] table on every page; a Markdown report links its
+    block of the model's project table on every page; a Markdown report links its
     diagrams, written beside it as REPORT-STEM-diagram-N.png.
     """
-    from ..output.report import figure_names, report_format, write_report
+    from ..output.report import report_format, write_report
     from ..engine.system import solve as run
 
     from ..fits.reader import is_fit_file
@@ -638,18 +654,22 @@ def report(model: ModelPath,
 
             j = read_joint(model)
             units = output_units(j, force_unit, length_unit, None, stress_unit)
-            write_joint_report(solve_joint(j), output, fmt, units)
+            solved = solve_joint(j)
+            if fmt == "markdown":  # the joint diagram and one per state
+                figures_beside(model, output, 1 + len(solved.solution.cases))
+            write_joint_report(solved, output, fmt, units)
         elif is_fit_file(model):  # a press or shrink fit (axialfe fit) has its own report
             from ..output.fitreport import write_fit_report
 
             result, units = _solved_fit(model, force_unit, length_unit, stress_unit)
+            if fmt == "markdown":
+                figures_beside(model, output, 1)
             write_fit_report(result, output, fmt, units)
         else:
             m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
             solution = run(m)
             if fmt == "markdown":  # its diagrams are files beside it: checked before writing
-                outputs([model], ("--output", output),
-                        *(("a diagram of the report", f) for f in figure_names(output, solution)))
+                figures_beside(model, output, len(solution.cases))
             from ..checks import check_solution
             from ..checks.assumptions import assumption_notes
             from ..envelope import envelope
