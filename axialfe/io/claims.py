@@ -142,13 +142,14 @@ def _read_text(path: Path, what: str, source=None, line=None) -> str:
 
 
 def parse_claims(text: str, model: Model, source: str | None = None,
-                 only_claims: bool = False) -> tuple[Claim, ...]:
+                 only_claims: bool = False, data: dict | None = None) -> tuple[Claim, ...]:
     """Read the ``[[claims]]`` of one TOML text and check them against ``model``.
 
     With ``only_claims`` the text is a claims file: any other top-level key is
     an error.  ``claims_file`` is not followed here (see :func:`read_claims`).
+    ``data`` is the text already decoded, when it is at hand.
     """
-    data = _load(text, source)
+    data = _load(text, source) if data is None else data
     reader = _ClaimReader(text, source)
     if only_claims:
         for key in data:
@@ -175,9 +176,12 @@ def read_claims(path, model: Model) -> tuple[Claim, ...]:
         of the wrong dimension, or a claims file that cannot be read.
     """
     path = Path(path)
+    if (model.source == str(path) and model.lines
+            and not {"claims", "claims_file"} & model.lines.keys()):
+        return ()  # the model's reader saw neither key in this file
     text = _read_text(path, "model file")
     data = _load(text, str(path))
-    claims = parse_claims(text, model, str(path))
+    claims = parse_claims(text, model, str(path), data=data)
     if "claims_file" in data:
         name = data["claims_file"]
         line = _Locator(text).find(None, None, "claims_file")
