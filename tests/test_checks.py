@@ -432,14 +432,17 @@ def test_solve_json_has_checks_and_governing(tmp_path):
     data = json.loads(result.stdout)
     checks = data["cases"][0]["checks"]
     assert [c["kind"] for c in checks] == ["strength", "buckling"]
-    assert set(checks[0]) == {"kind", "name", "utilization", "ok", "note", "at"}
+    assert set(checks[0]) == {"kind", "name", "utilization", "ok", "note", "at", "demand", "capacity",
+                              "unit"}
     assert set(checks[1]) == {"kind", "name", "utilization", "ok", "note", "curve",
                               "buckling_length", "effective_length_factor", "slenderness",
-                              "relative_slenderness"}
+                              "relative_slenderness", "demand", "capacity", "unit"}
     # a uniform strut: the stress is the same along it, so "at" is its least x (mm)
     assert checks[0] == {"kind": "strength", "name": "strut",
                          "utilization": pytest.approx(5e3 / (math.pi * 0.01 ** 2) / 250e6),
-                         "ok": True, "note": None, "at": 0.0}
+                         "ok": True, "note": None, "at": 0.0,
+                         "demand": pytest.approx(5e3 / (math.pi * 0.01 ** 2) / 1e6),
+                         "capacity": 250.0, "unit": "MPa"}
     assert set(data["governing"]) == {"kind", "name", "case", "utilization"}
     assert data["governing"]["kind"] == "buckling" and data["governing"]["case"] == "base"
 
@@ -519,3 +522,85 @@ def report_units():
     from axialfe.units import OutputUnits
 
     return OutputUnits()
+
+
+# --- the amounts behind each check, in JSON and CSV ----------------------------------------
+AMOUNTS = """title = "rod against a stop"
+[units]
+force = "kN"
+[materials.m]
+elastic_modulus = "200 GPa"
+thermal_expansion = "12e-6 /K"
+yield_strength = "250 MPa"
+[sections.s]
+shape = "area"
+area = "100 mm^2"
+[stations]
+wall = "0 mm"
+tip = "1000 mm"
+[[segments]]
+name = "rod"
+from = "wall"
+to = "tip"
+material = "m"
+section = "s"
+[[supports]]
+at = "wall"
+[[gaps]]
+name = "stop"
+at = "tip"
+side = "+x"
+clearance = "0.1 mm"
+[[loads]]
+at = "tip"
+force = "1 kN"
+[[limits]]
+at = "tip"
+displacement = "0.1 mm"
+[[limits]]
+gap = "stop"
+min_opening = "0.02 mm"
+"""
+
+
+def test_check_amounts_in_json_and_csv(cli, tmp_path):
+    # A 1 kN pull on a rod of E*A = 2e7 N, 1 m long: sigma = 10 MPa, u = P*L/(E*A) = 0.05 mm
+    # (Gere and Goodno, Mechanics of Materials, eq. 2-3), so the stop 0.1 mm away keeps 0.05 mm.
+    import csv
+    import io
+    import json
+
+    path = tmp_path / "rod.toml"
+    path.write_text(AMOUNTS, encoding="utf-8")
+    res = cli("check", path, "-f", "json")
+    assert res.exit_code == 0, res.output
+    checks = {c["kind"]: c for c in json.loads(res.stdout)["cases"][0]["checks"]}
+    strength = checks["strength"]
+    assert (strength["demand"], strength["capacity"], strength["unit"]) == (
+        pytest.approx(10.0, rel=1e-9), 250.0, "MPa")
+    disp = checks["displacement"]
+    assert "demand" not in disp and disp["unit"] == "mm"
+    assert (disp["required"], disp["actual"], disp["margin"]) == (
+        pytest.approx(0.1), pytest.approx(0.05, rel=1e-9), pytest.approx(0.05, rel=1e-9))
+    gap = checks["gap"]
+    assert (gap["required"], gap["actual"], gap["margin"]) == (
+        pytest.approx(0.02), pytest.approx(0.05, rel=1e-9), pytest.approx(0.03, rel=1e-9))
+    for command in (("check", path, "-f", "csv"), ("solve", path, "-f", "csv")):
+        rows = [r for r in csv.reader(io.StringIO(cli(*command).stdout)) if r[1] == "check"]
+        by = {(r[2], r[3]): (r[5], r[6]) for r in rows}
+        assert by[("rod", "strength capacity")] == ("250.0", "MPa")
+        assert by[("rod", "strength result")] == ("pass", "")
+        assert float(by[("tip", "displacement margin")][0]) == pytest.approx(0.05, rel=1e-9)
+        assert by[("stop", "gap required")][1] == "mm"
+        assert float(by[("stop", "gap utilization")][0]) == pytest.approx(0.4, rel=1e-9)
+    solved = json.loads(cli("solve", path, "-f", "json").stdout)
+    assert solved["cases"][0]["checks"][0]["capacity"] == 250.0
+
+
+def test_a_closed_gap_limit_has_a_negative_margin():
+    from axialfe.checks.entries import CheckEntry
+    from axialfe.units import OutputUnits
+
+    entry = CheckEntry("gap", "stop", "base", None, False, "closed", "displacement", 2e-5, 0.0)
+    assert entry.amounts(OutputUnits()) == {"required": pytest.approx(0.02), "actual": 0.0,
+                                            "margin": pytest.approx(-0.02), "unit": "mm"}

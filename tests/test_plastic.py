@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 from hypothesis import given, strategies as st
 
-from axialfe import Gap, Load, Model, ModelError, Segment, Station, Support
+from axialfe import Load, Model, ModelError, Segment, Station, Support
 from axialfe.model import Case, Material
 from axialfe.plastic import collapse
 from axialfe.tracking.plastic import parse_path, track_path
@@ -242,14 +242,6 @@ def test_unknown_leg_parameter():
     with pytest.raises(ModelError) as exc:
         parse_path("loads 0..1")
     assert str(exc.value) == "--path leg 1: unknown parameter 'loads'; did you mean 'load'?"
-
-
-def test_gaps_are_not_followed_yet():
-    model = restrained()
-    model = Model(model.stations, model.segments, model.supports[:1],
-                  gaps=(Gap("g", ("b",), side="+x", clearance=1e-4),))
-    with pytest.raises(ModelError, match="does not follow gaps yet"):
-        run(model, "temperature-change 0 K..10 K")
 
 
 # --- the command line ------------------------------------------------------------------------

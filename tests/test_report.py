@@ -277,8 +277,12 @@ force = "15 kN"
     assert row["thermal"] == pytest.approx(11.7e-6 * 50 * 800, rel=1e-12)
     assert row["misfit"] == pytest.approx(0.1)
     assert row["relative"] == pytest.approx(case.u[1] * 1e3, rel=1e-12)
+    # worked to the result, one unit per quantity: 15000 * 800 / (200000 * 314.16) = 0.1910 mm,
+    # 11.7e-6 * 50 * 800 = 0.468 mm
     assert row["elastic_text"] == ("N\u00b7L/(E\u00b7A) = 15000 N \u00d7 800 mm / (200000 MPa "
-                                   "\u00d7 314.2 mm\u00b2)")
+                                   "\u00d7 314.2 mm\u00b2) = 0.191 mm")
+    assert row["thermal_text"] == ("\u03b1\u00b7\u0394T\u00b7L = 1.17e-05 /K \u00d7 50 K \u00d7 "
+                                   "800 mm = 0.468 mm")
 
 
 def test_station_words():
@@ -304,16 +308,25 @@ def test_checks_and_governing_in_report(solution, page):
     assert "safety factor 1.25" in body
 
 
-def test_markdown_report(solution):
-    text = build_markdown(solution, date="2024-05-17", checks=check_solution(solution))
-    for title in ("## The job", "## Assumptions", "## Input", "## Results", "## Calculation sheet",
-                  "## Design checks", "## Diagrams", "## Cautions"):
+def test_markdown_report(solution, tmp_path):
+    text = build_markdown(solution, date="2024-05-17", checks=check_solution(solution),
+                          figures=["r-diagram-1.png", "r-diagram-2.png", "r-diagram-3.png"])
+    for title in ("## Summary", "## The job", "## Assumptions", "## Input", "## Results",
+                  "## Calculation sheet", "## Design checks", "## Diagrams", "## Cautions"):
         assert title in text
     assert "<script>" not in text and "&lt;script&gt;" in text
-    images = re.findall(r"\(data:image/png;base64,([A-Za-z0-9+/=]+)\)", text)
-    assert len(images) == len(solution.cases)
-    for data in images:
-        assert base64.b64decode(data)[:8] == b"\x89PNG\r\n\x1a\n"
+    assert "base64" not in text                     # the diagrams are files, linked
+    assert re.findall(r"\]\((r-diagram-\d\.png)\)", text) == [
+        "r-diagram-1.png", "r-diagram-2.png", "r-diagram-3.png"]
+    # written: the report and one PNG per case beside it, each linked by its name
+    path = write_report(solution, tmp_path / "job report.md", date="2024-05-17",
+                        checks=check_solution(solution))
+    names = re.findall(r"\]\(([^)]+\.png)\)", path.read_text(encoding="utf-8"))
+    assert names == [f"job%20report-diagram-{k}.png" for k in (1, 2, 3)]
+    for k in (1, 2, 3):
+        data = (tmp_path / f"job report-diagram-{k}.png").read_bytes()
+        assert data[:8] == b"\x89PNG\r\n\x1a\n"
+    assert len(path.read_bytes()) < 60_000
 
 
 def test_report_format_by_suffix():
@@ -390,3 +403,166 @@ def test_every_example_reports(tmp_path, path):
     assert all(p.ids.get(k) == "section" for k in SECTIONS)
     n = len(solve(read_model(path)).cases)
     assert all(p.svg_in.get(f"diagram-{k}") for k in range(n))
+
+
+# --- the title block, the summary, the calculation sheet's new parts ------------------
+PROJECT = SMALL.replace('title = "small \u00e9t\u00e9 <rod>"', '''title = "small \u00e9t\u00e9 <rod>"
+[project]
+name = "Conveyor <retrofit>"
+number = "J-2291"
+prepared_by = "R. Okafor"
+checked_by = "M. Lind"
+revision = "C"
+date = 2026-03-14''')
+
+
+def test_project_table_is_read_as_plain_text():
+    model = parse_model(PROJECT)
+    assert model.project.items() == (
+        ("project", "Conveyor <retrofit>"), ("number", "J-2291"), ("prepared by", "R. Okafor"),
+        ("checked by", "M. Lind"), ("revision", "C"), ("date", "2026-03-14"))
+    assert parse_model(SMALL).project is None
+
+
+def test_title_block_heads_every_printed_page():
+    solution = solve(parse_model(PROJECT))
+    page = build_html(solution, date="2026-03-20", checks=check_solution(solution))
+    # the title block is the head of the page table, which a browser repeats on each page
+    head = page[page.index('<table class="page"><thead>'):page.index("</thead>")]
+    assert 'id="titleblock"' in head
+    body = "".join(parse(head).text)
+    for text in ("Conveyor <retrofit>", "J-2291", "prepared by", "R. Okafor", "checked by",
+                 "M. Lind", "revision", "2026-03-14", "printed", "2026-03-20"):
+        assert text in body, text
+    assert "Conveyor &lt;retrofit&gt;" in head
+    assert "@page { size: A4 portrait" in page
+    letter = build_html(solution, date="2026-03-20", checks=check_solution(solution),
+                        paper="letter")
+    assert "@page { size: letter portrait" in letter
+    md = build_markdown(solution, date="2026-03-20", checks=check_solution(solution))
+    assert "| number | J-2291 |" in md and "| checked by | M. Lind |" in md
+
+
+def test_summary_opens_the_report_with_the_verdict(solution, page):
+    p = parse(page)
+    assert p.ids["summary"] == "section" and p.ids["verdict"] == "p"
+    assert page.index('id="summary"') < page.index('id="job"')
+    summary = page[page.index('id="summary"'):page.index('id="job"')]
+    text = "".join(parse(summary).text)
+    checks = check_solution(solution)
+    word = {"pass": "PASS", "fail": "FAIL", "undecided": "UNDECIDED"}[checks.status]
+    assert f"Verdict: {word}" in text
+    g = checks.governing
+    assert f"{g.kind} of '{g.name}' in case '{g.case}', utilization {g.utilization:.3f}" in text
+    for caution in CAUTIONS:
+        assert caution in text
+
+
+def test_a_failing_check_reads_as_fail_in_the_summary():
+    # 4 kN on a 20 mm rod is 4000 N / 314.16 mm^2 = 12.73 MPa: a material of 10 MPa yield
+    # strength (invented) fails the strength check with utilisation 1.273.
+    text = SMALL.replace('material = "structural-steel"', 'material = "weak"') + """
+[materials.weak]
+elastic_modulus = "200 GPa"
+yield_strength = "10 MPa"
+"""
+    solution = solve(parse_model(text))
+    checks = check_solution(solution)
+    assert checks.status == "fail"
+    page = build_html(solution, date="2026-03-20", checks=checks)
+    summary = "".join(parse(page[page.index('id="summary"'):page.index('id="job"')]).text)
+    assert "Verdict: FAIL" in summary and "At least one check FAILS" in summary
+    assert "utilization 1.273 (FAIL)" in summary
+
+
+def test_calculation_sheet_carries_gaps_balance_and_thermal_part(solution, page):
+    from axialfe.review.sheet import thermal_split
+
+    calc = page[page.index('id="calculation"'):page.index('id="checks"')]
+    text = "".join(parse(calc).text)
+    for words in ("Balance of each station", "Compatibility of the closed gaps",
+                  "Thermal and load-driven force"):
+        assert words in text
+    full = build_html(solution, date="2024-05-17", checks=check_solution(solution),
+                      thermal=thermal_split(solution))
+    calc = "".join(parse(full[full.index('id="calculation"'):full.index('id="checks"')]).text)
+    assert "thermal from [kN]" in calc or "cannot be separated" in calc
+
+
+def test_cli_plot_and_report_write_beside_the_model_by_default(tmp_path):
+    model = tmp_path / "conveyor job.toml"
+    model.write_text(PROJECT, encoding="utf-8")
+    before = model.read_bytes()
+    result = runner.invoke(app, ["plot", str(model)])
+    assert result.exit_code == 0, result.output
+    assert (tmp_path / "conveyor job.png").read_bytes()[:4] == b"\x89PNG"
+    result = runner.invoke(app, ["report", str(model)])
+    assert result.exit_code == 0, result.output
+    assert result.stderr.strip() == f"wrote {tmp_path / 'conveyor job.html'}"
+    assert "J-2291" in (tmp_path / "conveyor job.html").read_text(encoding="utf-8")
+    result = runner.invoke(app, ["report", str(model), "--format", "markdown", "--paper", "letter"])
+    assert result.exit_code == 0, result.output
+    assert (tmp_path / "conveyor job-diagram-1.png").exists()
+    assert model.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == [
+        "conveyor job-diagram-1.png", "conveyor job.html", "conveyor job.md", "conveyor job.png",
+        "conveyor job.toml"]
+
+
+def test_a_markdown_diagram_may_not_replace_the_model(tmp_path):
+    model = tmp_path / "r-diagram-1.png"        # a model file of an odd name
+    model.write_text(SMALL, encoding="utf-8")
+    before = model.read_bytes()
+    result = runner.invoke(app, ["report", str(model), "-o", str(tmp_path / "r.md")])
+    assert result.exit_code == 2
+    assert result.stderr.strip().splitlines() == [
+        f"error: a diagram of the report: '{model}' is an input file of this command; it would "
+        "be overwritten: choose another output path"]
+    assert model.read_bytes() == before and not (tmp_path / "r.md").exists()
+
+
+def test_cli_report_refuses_an_unknown_paper(tmp_path):
+    import subprocess
+    import sys
+
+    model = tmp_path / "m.toml"
+    model.write_text(SMALL, encoding="utf-8")
+    bad = subprocess.run([sys.executable, "-m", "axialfe", "report", str(model), "--paper", "a3"],
+                         capture_output=True, text=True)
+    assert bad.returncode == 2
+    assert bad.stderr.splitlines() == [
+        "error: Invalid value for '--paper': Value error, 'a3' is not one of 'a4', 'letter'. "
+        "(see 'axialfe report --help')"]
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["m.toml"]
+
+
+def test_summary_shows_the_envelope_of_the_key_quantities(solution):
+    from axialfe.envelope import envelope
+
+    env = envelope(solution)
+    page = build_html(solution, date="2024-05-17", checks=check_solution(solution),
+                      envelope=env)
+    summary = "".join(parse(page[page.index('id="summary"'):page.index('id="job"')]).text)
+    assert "Envelope over 3 cases" in summary
+    # the most compressive force over every segment and case, and the case that gives it
+    low = min((e for e in env.segments if e.quantity == "axial_force"), key=lambda e: e.min)
+    assert f"{low.min / 1e3:.6g}" in summary and low.min_case in summary
+    results = page[page.index('id="results"'):page.index('id="calculation"')]
+    assert 'id="envelope"' in results                 # the full envelope leads the results
+    md = build_markdown(solution, date="2024-05-17", checks=check_solution(solution),
+                        envelope=env)
+    assert "Envelope over 3 cases" in md and "### Envelope" in md
+
+
+def test_cli_report_carries_the_notes_where_a_result_leaves_its_assumptions(tmp_path):
+    # heated 150 K between walls: sigma = -E*alpha*dT = -200 GPa * 11.7e-6 * 150 = -351 MPa,
+    # beyond structural steel's 250 MPa (Gere and Goodno, Mechanics of Materials, sec. 2.5)
+    text = SMALL.replace("[[loads]]\nat = \"b\"\nforce = \"4 kN\"\n",
+                         "[[supports]]\nat = \"b\"\n[settings]\ntemperature_change = \"150 K\"\n")
+    model = tmp_path / "hot.toml"
+    model.write_text(text, encoding="utf-8")
+    result = runner.invoke(app, ["report", str(model)])
+    assert result.exit_code == 0, result.output
+    page = (tmp_path / "hot.html").read_text(encoding="utf-8")
+    summary = "".join(parse(page[page.index('id="summary"'):page.index('id="job"')]).text)
+    assert "Notes on the results" in summary and "yield" in summary

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import math
 from dataclasses import replace
 
 import numpy as np
@@ -211,7 +212,8 @@ def test_cli_sweep_formats(cli, rail, tmp_path):
 def test_cli_sweep_errors(cli, rail):
     res = cli("sweep", rail, "--steps", "5")
     assert res.exit_code == 2
-    assert "error: give exactly one of --temperature-change, --temperature or --load-factor" in res.output
+    assert ("error: give exactly one of --temperature-change, --temperature, --temperature-factor "
+            "or --load-factor") in res.output
     res = cli("sweep", rail, "--load-factor", "0..2", "--case", "hot")
     assert res.exit_code == 2 and "unknown case 'hot'" in res.output
 
@@ -277,3 +279,111 @@ def test_too_few_steps(cli, rail):
     res = cli("sweep", rail, "--temperature-change", "0 K..10 K", "--steps", "1")
     assert res.exit_code == 2
     assert "error: --steps: must be at least 2 (both ends of the range): got 1" in res.output
+
+
+# --- temperature factor, chosen segments, buckling events, grouped events ---------------------
+def _stop_model(own=(50.0, 20.0), clearance=0.3e-3):
+    """Two steel bars in series (1 m each) from a wall to a stop ``clearance`` beyond the end."""
+    segs = (Segment("first", "wall", "mid", steel(), area("s", 1e-4), temperature_change=own[0]),
+            Segment("second", "mid", "end", steel(), area("s", 1e-4), temperature_change=own[1]))
+    return Model((Station("wall", 0.0), Station("mid", 1.0), Station("end", 2.0)), segs,
+                 (Support("wall"),), gaps=(Gap("stop", ("end",), clearance, side="+x"),))
+
+
+def test_temperature_factor_scales_the_case_own_field():
+    # Free growth alpha*dT*L of each bar: 12e-6 * (50 + 20) K * 1 m = 0.84 mm at factor 1, so the
+    # stop 0.3 mm away closes at factor 0.3/0.84 (common practice: free thermal growth).
+    res = sweep(_stop_model(), "temperature_factor", 0.0, 1.5, 4)
+    assert [(e.name, e.event) for e in res.events] == [("stop", "closes")]
+    assert res.events[0].value == pytest.approx(0.3 / 0.84, rel=1e-12)
+    assert res.unit == "1"
+    assert res.replaced == ("scales the case's own temperature changes of every segment ('first' "
+                            "50 K, 'second' 20 K); replaces none")
+    # each step is the case solved with its own temperatures times the factor
+    m = _stop_model(own=(25.0, 10.0))
+    direct = solve(m)["base"]
+    at_half = res.result_at(0.5)
+    assert_close(at_half.u, direct.u, rel=1e-12, abs_=1e-18)
+    assert_close(at_half.gap_force, direct.gap_force, rel=1e-9, abs_=1e-9)
+
+
+def test_temperature_sweep_of_chosen_segments():
+    # Only 'first' takes the swept change, 'second' keeps its own 20 K: the stop closes when
+    # 12e-6 * (dT + 20 K) * 1 m = 0.3 mm, at dT = 5 K.
+    res = sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, unit="K", segments=["first"])
+    assert res.events[0].value == pytest.approx(5.0, rel=1e-9)
+    assert res.replaced == ("replaces the thermal input of segments 'first' ('first' 50 K in case "
+                            "'base') by the swept change; the others keep the case's own")
+    with pytest.raises(ModelError) as err:
+        sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, segments=["frist"])
+    assert str(err.value) == "--segments: unknown segment 'frist'; did you mean 'first'?"
+    with pytest.raises(ModelError) as err:
+        sweep(_stop_model(), "load_factor", 0.0, 2.0, 3, segments=["first"])
+    assert str(err.value) == ("--segments: chooses the segments of a temperature sweep; a "
+                              "load-factor sweep scales the case's loads")
+
+
+def _walls(n=1, d=0.020, length=1.0, fy=250e6):
+    rod = __import__("axialfe").Section("d", "round", (("diameter", d),))
+    mat = steel(yield_strength=fy)
+    xs = np.linspace(0.0, length, n + 1)
+    stations = tuple(Station(f"s{i}", float(x)) for i, x in enumerate(xs))
+    segs = tuple(Segment(f"bar{i}", f"s{i}", f"s{i + 1}", mat, rod) for i in range(n))
+    return Model(stations, segs, (Support("s0"), Support(f"s{n}")))
+
+
+def test_buckles_event_at_the_thermal_buckling_temperature():
+    # A bar fixed between walls and heated takes N = -E*A*alpha*dT; with Euler's load
+    # pi^2*E*I/L^2 (K = 1; slender: K*L/r = 200 lies on Johnson's Euler branch) it buckles at
+    # dT = pi^2*I/(L^2*A*alpha) = pi^2*d^2/(16*L^2*alpha) = 20.56 K (Timoshenko and Gere,
+    # Theory of Elastic Stability, 2nd ed., sec. 2.1, with N from the restrained growth).
+    from axialfe.checks.buckling import buckling_capacities
+
+    m = _walls()
+    capacity = [c for c, _ in buckling_capacities(m, m.checks)]
+    expected = math.pi ** 2 * 0.020 ** 2 / (16 * 1.0 ** 2 * 12e-6)
+    res = sweep(m, "temperature_change", 0.0, 50.0, 3, unit="K", buckling_capacity=capacity)
+    assert [(e.name, e.event) for e in res.events] == [("bar0", "buckles")]
+    assert res.events[0].value == pytest.approx(expected, rel=1e-12)
+    assert expected == pytest.approx(20.562, rel=1e-4)
+    # without capacities no buckling event is sought
+    assert sweep(m, "temperature_change", 0.0, 50.0, 3, unit="K").events == ()
+
+
+def test_identical_events_at_one_value_are_one_line(cli, tmp_path):
+    # Three equal bars between walls reach yield together at dT = f_y/(E*alpha) = 104.17 K
+    # (Gere and Goodno, Mechanics of Materials, sec. 2.5).
+    res = sweep(_walls(n=3), "temperature_change", 0.0, 150.0, 3, unit="K")
+    assert [e.value for e in res.events] == [pytest.approx(250e6 / (200e9 * 12e-6), rel=1e-12)] * 3
+    assert res.grouped_events() == [(("bar0", "bar1", "bar2"), "yields", res.events[0].value)]
+
+
+def test_cli_temperature_factor_and_no_unit_heading(cli, rail, tmp_path):
+    path = tmp_path / "heated.toml"
+    path.write_text(RAIL.replace('section = "r"', 'section = "r"\ntemperature_change = "60 K"'),
+                    encoding="utf-8")
+    res = cli("sweep", path, "--temperature-factor", "0..1.5", "--steps", "4")
+    assert res.exit_code == 0, res.output
+    lines = res.output.splitlines()
+    assert lines[1] == ("case 'base', temperature_factor from 0 to 1.5, 4 steps; scales the case's "
+                        "own temperature changes of every segment ('rail' 60 K); replaces none")
+    assert lines[5].split() == ["name", "event", "temperature_factor"]
+    # the joint closes when alpha*dT*L = c: factor 6 mm/(11.5e-6 * 60 K * 25 m) = 0.3478
+    assert float(lines[7].split()[-1]) == pytest.approx(C_R / (ALPHA_R * 60 * L_R), rel=1e-8)
+    data = json.loads(cli("sweep", path, "--temperature-factor", "0..1.5", "--steps", "3",
+                          "-f", "json").stdout)
+    assert data["parameter"] == "temperature_factor" and data["unit"] == "1"
+    assert data["replaced"].startswith("scales the case's own temperature changes")
+    csv_head = cli("sweep", path, "--temperature-factor", "0..1", "--steps", "2", "-f",
+                   "csv").stdout.splitlines()[0]
+    assert csv_head.startswith("temperature_factor,")
+    bad = cli("sweep", path, "--temperature-factor", "0 K..1 K")
+    assert bad.exit_code == 2
+    assert bad.output.strip() == ("error: --temperature-factor: a temperature factor is a plain "
+                                  "number: got '0 K..1 K'")
+    both = cli("sweep", path, "--temperature-factor", "0..1", "--load-factor", "0..1")
+    assert both.output.strip() == ("error: give exactly one of --temperature-change, --temperature, "
+                                   "--temperature-factor or --load-factor")
+    seg = cli("sweep", path, "--temperature-change", "0 K..60 K", "--segments", "rial")
+    assert seg.exit_code == 2
+    assert seg.output.strip() == "error: --segments: unknown segment 'rial'; did you mean 'rail'?"

@@ -12,6 +12,8 @@ from ..units import OutputUnits
 __all__ = ["CheckEntry", "CaseChecks", "CheckReport", "KINDS", "quantity_text", "note_text"]
 
 KINDS = ("strength", "buckling", "displacement", "gap")
+# deformation limits: which of an entry's demand and capacity is required and which actual
+_DEFORMATION = {"displacement": ("capacity", "demand"), "gap": ("demand", "capacity")}
 
 
 @dataclass(frozen=True)
@@ -62,6 +64,26 @@ class CheckEntry:
     curve: str | None = None
     relative_slenderness: float | None = None
     at: float | None = None
+
+    def amounts(self, units: OutputUnits) -> dict:
+        """The amounts behind the utilisation, in ``units``, with their ``unit``.
+
+        Strength and buckling give ``demand`` (without the safety factor) and
+        ``capacity``; a deformation limit gives ``required`` (the allowable
+        displacement, or the least opening), ``actual`` (|u|, or the opening
+        left) and ``margin`` (how far the actual value is inside the required
+        one: negative when the limit is not met).  None where not known.
+        """
+        f = units.factor(self.quantity)
+        value = {"demand": self.demand, "capacity": self.capacity}
+        value = {k: None if v is None else float(v) / f for k, v in value.items()}
+        out = {"unit": getattr(units, self.quantity)}
+        if self.kind in _DEFORMATION:
+            required, actual = (value[k] for k in _DEFORMATION[self.kind])
+            margin = None if None in (required, actual) else (
+                required - actual if self.kind == "displacement" else actual - required)
+            return {"required": required, "actual": actual, "margin": margin, **out}
+        return {"demand": value["demand"], "capacity": value["capacity"], **out}
 
     def note_in(self, units: OutputUnits) -> str | None:
         """The note with its quantities in ``units``."""

@@ -195,7 +195,7 @@ def solve(model: ModelPath,
         from ..checks.assumptions import assumption_notes
         from ..envelope import envelope as envelope_of
 
-        checks = None if format is Format.csv else check_solution(solution)
+        checks = check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution), envelope=envelope_of(solution),
                     full_envelope=envelope, notes=assumption_notes(solution)), output)
@@ -251,9 +251,15 @@ def sweep(model: ModelPath,
           temperature: Annotated[Optional[str], typer.Option(
               "--temperature", help="Range of absolute temperature against "
               "settings.reference_temperature, e.g. '-20 degC..150 degC'.")] = None,
+          temperature_factor: Annotated[Optional[str], typer.Option(
+              "--temperature-factor", help="Range of the factor on the case's own temperature "
+              "change of each segment, e.g. '0..1.5': scales, replaces nothing.")] = None,
           load_factor: Annotated[Optional[str], typer.Option(
               "--load-factor", help="Range of the factor on point and distributed loads, e.g. "
               "'0..2'.")] = None,
+          segments: Annotated[Optional[str], typer.Option(
+              "--segments", help="A temperature sweep acts on these segments only "
+              "(NAME,NAME,...); the others keep the case's own temperature change.")] = None,
           steps: Annotated[int, typer.Option("--steps", help="Grid points, both ends included.")] = 101,
           case: Annotated[Optional[str], typer.Option("--case", help="Case to sweep (default: the first).")] = None,
           format: Annotated[SweepFormat, typer.Option("--format", "-f", help="Output format.")] = SweepFormat.table,
@@ -264,6 +270,8 @@ def sweep(model: ModelPath,
           force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Solve a case along a temperature or load range and report the exact events."""
+    import numpy as np
+
     from ..errors import ModelError
     from ..tracking.sweep import parse_range, sweep as run
     from ..output.sweeptext import sweep_csv, sweep_json, sweep_summary
@@ -276,18 +284,25 @@ def sweep(model: ModelPath,
             _suffix(plot)  # a figure's format is checked before any output is written
         check_count("--steps", steps, MAX_STEPS)
         given = [(p, v) for p, v in (("temperature_change", temperature_change),
-                                     ("temperature", temperature), ("load_factor", load_factor))
+                                     ("temperature", temperature),
+                                     ("temperature_factor", temperature_factor),
+                                     ("load_factor", load_factor))
                  if v is not None]
         if len(given) != 1:
-            raise ModelError("give exactly one of --temperature-change, --temperature or "
-                             "--load-factor")
+            raise ModelError("give exactly one of --temperature-change, --temperature, "
+                             "--temperature-factor or --load-factor")
         parameter, text = given[0]
         start, stop, unit = parse_range(text, parameter)
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         from ..io.physical import check_sweep_range
 
         check_sweep_range(m, parameter, start, stop, unit)
-        result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case)
+        from ..checks.buckling import buckling_capacities
+
+        capacity = [np.inf if c is None else c for c, _ in buckling_capacities(m, m.checks)]
+        chosen = None if segments is None else [n.strip() for n in segments.split(",") if n.strip()]
+        result = run(m, parameter, start, stop, steps, unit=None if unit == "1" else unit, case=case,
+                     segments=chosen, buckling_capacity=capacity)
         long = steps * max(len(m.segments), 1) > 200_000 and format is not SweepFormat.table
         if format is SweepFormat.table:
             text_out = sweep_summary(result, units)
@@ -443,9 +458,18 @@ def _pick_case(solution, name):
     return solution[name]
 
 
+class CheckOnlyFormat(str, Enum):
+    table = "table"
+    json = "json"
+    csv = "csv"
+
+
 @app.command()
 def check(model: ModelPath,
-          format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
+          format: Annotated[CheckOnlyFormat, typer.Option(
+              "--format", "-f", help="Output format (JSON and CSV give each check's demand and "
+              "capacity, or required, actual and margin of a deformation limit, with the "
+              "unit).")] = CheckOnlyFormat.table,
           output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Run the design checks (strength, buckling, limits) of every case.
@@ -454,7 +478,7 @@ def check(model: ModelPath,
     but some cannot be decided (an engineer must review them); 2 for bad input.
     """
     from ..checks import check_solution
-    from ..output.text import checks_json, checks_table
+    from ..output.text import checks_csv, checks_json, checks_table
     from ..engine.system import solve as run
 
     with user_errors(model):
@@ -462,8 +486,10 @@ def check(model: ModelPath,
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
         report = check_solution(solution)
-        if format is CheckFormat.json:
+        if format is CheckOnlyFormat.json:
             text = checks_json(report, units, title=m.title)
+        elif format is CheckOnlyFormat.csv:
+            text = checks_csv(report, units)
         else:
             text = checks_table(report, units, title=m.title)
         emit(text, output)
@@ -472,10 +498,16 @@ def check(model: ModelPath,
     raise typer.Exit(checks_exit(report))
 
 
+def beside(model: Path, output: Optional[Path], suffix: str) -> Path:
+    """``output``, or ``MODEL-STEM`` + ``suffix`` beside the model when none is given."""
+    return output if output is not None else model.with_name(model.stem + suffix)
+
+
 @app.command()
 def plot(model: ModelPath,
-         output: Annotated[Path, typer.Option("--output", "-o", dir_okay=False,
-                                              help="The figure file: .png or .svg.")],
+         output: Annotated[Optional[Path], typer.Option(
+             "--output", "-o", dir_okay=False,
+             help="The figure file: .png or .svg (default: MODEL-STEM.png beside the model).")] = None,
          what: Annotated[str, typer.Option("--what", help="force, stress, displacement or all.")] = "all",
          case: Annotated[Optional[str], typer.Option("--case", help="The case to draw (default: the first).")] = None,
          force_unit: ForceUnit = None, length_unit: LengthUnit = None,
@@ -485,6 +517,7 @@ def plot(model: ModelPath,
     from ..output.plot import WHAT, _suffix, plot_case
     from ..engine.system import solve as run
 
+    output = beside(model, output, ".png")
     with user_errors(model):
         outputs([model], ("--output", output))
         if what not in WHAT:
@@ -504,20 +537,36 @@ def plot(model: ModelPath,
         typer.echo(f"wrote {output}", err=True)
 
 
+class Paper(str, Enum):
+    a4 = "a4"
+    letter = "letter"
+
+
 @app.command()
 def report(model: ModelPath,
-           output: Annotated[Path, typer.Option("--output", "-o", dir_okay=False,
-                                                help="The report file: .html, or .md for Markdown.")],
+           output: Annotated[Optional[Path], typer.Option(
+               "--output", "-o", dir_okay=False,
+               help="The report file: .html, or .md for Markdown (default: MODEL-STEM.html, "
+                    "or .md with --format markdown, beside the model).")] = None,
            format: Annotated[Optional[ReportFormat], typer.Option(
                "--format", "-f", help="html or markdown (default: by the file's suffix).")] = None,
+           paper: Annotated[Paper, typer.Option(
+               "--paper", help="The paper the printed report is laid out on: a4 or letter.")] = Paper.a4,
            force_unit: ForceUnit = None, length_unit: LengthUnit = None,
            displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
-    """Write a self-contained report: input, results, calculation sheet, checks, diagrams."""
-    from ..output.report import report_format, write_report
+    """Write a report to file: a one-page summary (verdict, envelope, cautions), then input,
+    results, calculation sheet, checks and diagrams.
+
+    The HTML report needs no other file and prints on A4 or Letter with the title
+    block of the model's [project] table on every page; a Markdown report links its
+    diagrams, written beside it as REPORT-STEM-diagram-N.png.
+    """
+    from ..output.report import figure_names, report_format, write_report
     from ..engine.system import solve as run
 
     from ..fits.reader import is_fit_file
 
+    output = beside(model, output, ".md" if format is ReportFormat.markdown else ".html")
     with user_errors(model):
         outputs([model], ("--output", output))
         fmt = report_format(output, format.value if format else None)
@@ -538,10 +587,18 @@ def report(model: ModelPath,
         else:
             m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
             solution = run(m)
+            if fmt == "markdown":  # its diagrams are files beside it: checked before writing
+                outputs([model], ("--output", output),
+                        *(("a diagram of the report", f) for f in figure_names(output, solution)))
             from ..checks import check_solution
+            from ..checks.assumptions import assumption_notes
+            from ..envelope import envelope
+            from ..review.sheet import thermal_split
 
             write_report(solution, output, fmt, units, checks=check_solution(solution),
-                         review=stated_values(model, m, solution))
+                         review=stated_values(model, m, solution), envelope=envelope(solution),
+                         thermal=thermal_split(solution), paper=paper.value,
+                         notes=assumption_notes(solution))
         typer.echo(f"wrote {output}", err=True)
 
 

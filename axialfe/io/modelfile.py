@@ -20,7 +20,7 @@ from .._gcpause import gc_paused
 from ..errors import ModelError, suggest
 from ..model.parts import BEHAVIOURS
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
-                    Model, Section, Segment, Station, Support)
+                    Model, Project, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
 from . import limits, schema
 from .physical import check_absolute_temperatures, check_segment_lengths
@@ -392,6 +392,7 @@ class _Reader:
                 self.fail(f"unknown key '{key}'", key if isinstance(data[key], (dict, list))
                           else None, key=key, place="top level", hint=suggest(key, _TOP_KEYS))
         title = data.get("title", Path(self.source).stem if self.source else "axial model")
+        project = self.project(data["project"]) if "project" in data else None
         self.read_symbols()
         settings = data.get("settings", {})
         self.keys(settings, _KEYS["settings"], "settings", place="settings")
@@ -616,7 +617,8 @@ class _Reader:
                          temperature_change=default_dt, gravity=gravity,
                          reference_temperature=reference, units=units, title=str(title),
                          source=self.source, checks=checks, limits=tuple(limits),
-                         symbols=tuple(self.symbols.values()), lines=self.name_lines())
+                         symbols=tuple(self.symbols.values()), lines=self.name_lines(),
+                         project=project)
         except ModelError as exc:
             m = re.match(r"segments\[(\d+)\]", exc.place or "")
             row = self.rows.get(("segments", int(m.group(1)))) if m else None
@@ -626,6 +628,11 @@ class _Reader:
         check_segment_lengths(model, self._line_of_place)
         check_absolute_temperatures(model, self._line_of_place)
         return model
+
+    def project(self, entry) -> Project:
+        """The ``[project]`` table (types checked by the schema): text as written, a TOML
+        date in ISO form."""
+        return Project(**{k: v if isinstance(v, str) else v.isoformat() for k, v in entry.items()})
 
     def name_lines(self) -> dict:
         """The lines of ``'stations.<name>'``, ``'gaps.<name>'`` and ``'segments.<name>'``

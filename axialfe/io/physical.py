@@ -55,10 +55,11 @@ def check_sweep_range(model, parameter, start, stop, unit):
     from ..units import temperature_to_kelvin, unit_factor
 
     where = f"--{parameter.replace('_', '-')}"
-    if parameter == "load_factor":
+    if parameter in ("load_factor", "temperature_factor"):
+        word = parameter.split("_")[0]
         for v in (start, stop):
             if not abs(v) <= MAX_LOAD_FACTOR:
-                raise ModelError(f"a load factor must lie between {-MAX_LOAD_FACTOR:g} and "
+                raise ModelError(f"a {word} factor must lie between {-MAX_LOAD_FACTOR:g} and "
                                  f"{MAX_LOAD_FACTOR:g}: got {v:g}", place=where)
         return
     if parameter == "temperature":

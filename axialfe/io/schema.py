@@ -69,7 +69,8 @@ class Key:
     type : str
         ``"name"`` (a string naming something), ``"text"`` (free text),
         ``"quantity"`` (a number with a unit, of ``kind``), ``"number"`` (a plain
-        number), ``"boolean"``, ``"table"`` (keys of ``item``), ``"array"`` (an
+        number), ``"date"`` (text, or a TOML date such as ``2026-03-14``), ``"boolean"``,
+        ``"table"`` (keys of ``item``), ``"array"`` (an
         array of tables of ``item``), ``"names"`` (an array of names), ``"map"``
         (a table of user-chosen names, each value described by ``item``, a
         :class:`Key`), ``"quantity_or_table"`` (a quantity, or a table of
@@ -217,8 +218,15 @@ FILE_TABLE = Table({
     "file": Key("text", required=True, missing="a table kept in a file needs 'file'"),
 }, "table file")
 
+# the job of a report's title block: free text (a TOML date is taken as written)
+PROJECT = Table({
+    "name": Key("text"), "number": Key("text"), "prepared_by": Key("text"),
+    "checked_by": Key("text"), "revision": Key("text"), "date": Key("date"),
+}, "project")
+
 MODEL = Table({
     "title": Key("text"),
+    "project": Key("table", item=PROJECT),
     "settings": Key("table", item=SETTINGS),
     "units": Key("table", item=UNITS),
     "materials": Key("map", item=Key("table", item=MATERIAL)),
@@ -300,7 +308,8 @@ def _u(rng):
 
 # --- the type pass -------------------------------------------------------------
 _EXPECTED = {"name": "a name in quotes", "text": "text in quotes", "number": "a plain number",
-             "boolean": "true or false", "table": "a table", "names": "an array of names"}
+             "boolean": "true or false", "table": "a table", "names": "an array of names",
+             "date": "a date, or text in quotes"}
 
 
 def _shown(value) -> str:
@@ -316,6 +325,9 @@ def _type_ok(key: Key, v) -> bool:
     t = key.type
     if t in ("name", "text"):
         return isinstance(v, str)
+    if t == "date":
+        return isinstance(v, str) or (isinstance(v, datetime.date)
+                                      and not isinstance(v, datetime.datetime))
     if t == "number":
         return _is_number(v)
     if t == "boolean":
@@ -375,7 +387,8 @@ def _table(entry, schema, fail, table, index, place, top=False):
 
 
 def _value(k, v, spec, fail, table, index, place, top):
-    if isinstance(v, (datetime.date, datetime.time)) and spec.type != "any":
+    if (isinstance(v, (datetime.date, datetime.time)) and spec.type not in ("any", "date")
+            or spec.type == "date" and isinstance(v, (datetime.datetime, datetime.time))):
         fail(f"{k}: expected {_expected(spec, k)}: got a date or time ({v})",
              table, index, k, place)
     if not _type_ok(spec, v):

@@ -2,7 +2,8 @@
 
 - ``parts``: the input concepts as frozen, self-checking dataclasses in SI floats
   (materials, sections, stations, segments, supports, loads, gaps, cases,
-  combinations, check settings, limits, the whole ``Model``);
+  combinations, check settings, limits, the project of a title block, the whole
+  ``Model``);
 - ``cases``: the one rule of what each case and combination puts on the model,
   as arrays (``LoadState``).
 
@@ -10,7 +11,7 @@ This floor imports only ``errors`` and ``units``.
 """
 
 from .parts import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
-                    Model, Section, Segment, Station, Support)
+                    Model, Project, Section, Segment, Station, Support)
 
 __all__ = ["Material", "Section", "Station", "Segment", "Support", "Load", "Gap", "Case",
-           "Combination", "CheckSettings", "Limit", "Model", "BASE_CASE"]
+           "Combination", "CheckSettings", "Limit", "Project", "Model", "BASE_CASE"]

@@ -47,6 +47,10 @@ class LoadState:
         return LoadState(self.name, self.forces, np.broadcast_to(np.asarray(dT, float), self.dT.shape).copy(),
                          self.settlement, self.q_factor)
 
+    def scaled_temperature(self, factor) -> "LoadState":
+        """The state with every segment's temperature change times ``factor``."""
+        return LoadState(self.name, self.forces, self.dT * factor, self.settlement, self.q_factor)
+
     def scaled_loads(self, factor) -> "LoadState":
         return LoadState(self.name, self.forces * factor, self.dT, self.settlement,
                          self.q_factor * factor)

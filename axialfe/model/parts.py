@@ -20,7 +20,7 @@ from ..units import OutputUnits
 
 __all__ = [
     "Material", "Section", "Station", "Segment", "Support", "Load", "Gap",
-    "Case", "Combination", "Model", "BASE_CASE", "COLUMN_CURVES",
+    "Case", "Combination", "Project", "Model", "BASE_CASE", "COLUMN_CURVES",
 ]
 
 BASE_CASE = "base"
@@ -485,6 +485,47 @@ class Limit:
                                  place="limits")
 
 
+PROJECT_FIELDS = ("name", "number", "prepared_by", "checked_by", "revision", "date")
+PROJECT_LABELS = {"name": "project", "number": "number", "prepared_by": "prepared by",
+                  "checked_by": "checked by", "revision": "revision", "date": "date"}
+
+
+@dataclass(frozen=True)
+class Project:
+    """The job a calculation belongs to, for the title block of a report (plain text).
+
+    Parameters
+    ----------
+    name, number, prepared_by, checked_by, revision, date : str, optional
+        Each is free text as the file gives it (a date included: the report shows it
+        as written).
+
+    Examples
+    --------
+    >>> Project(name="Pump skid", revision="B").items()
+    (('project', 'Pump skid'), ('revision', 'B'))
+    """
+
+    name: str | None = None
+    number: str | None = None
+    prepared_by: str | None = None
+    checked_by: str | None = None
+    revision: str | None = None
+    date: str | None = None
+
+    def __post_init__(self):
+        for key in PROJECT_FIELDS:
+            value = getattr(self, key)
+            if value is not None and not isinstance(value, str):
+                raise ModelError(f"{key}: expected text: got {type(value).__name__}",
+                                 place="project")
+
+    def items(self) -> tuple[tuple[str, str], ...]:
+        """The given fields as (label, text) pairs, in the order of the title block."""
+        return tuple((PROJECT_LABELS[k], getattr(self, k)) for k in PROJECT_FIELDS
+                     if getattr(self, k) is not None)
+
+
 @dataclass(frozen=True)
 class Model:
     """A complete axial model.
@@ -509,6 +550,8 @@ class Model:
     lines : dict, optional
         The file line of ``'stations.<name>'`` and ``'gaps.<name>'`` (set by the
         reader): plain data, so a model can be pickled and sent to workers.
+    project : Project, optional
+        The job the model belongs to (``[project]``), for a report's title block.
     symbols : tuple of SymbolDef
         The symbols declared in the file's ``[symbols]`` (closed form).  A
         model read with ``symbolic=True`` holds sympy expressions of them in
@@ -539,6 +582,7 @@ class Model:
     lines: dict = field(default_factory=dict, compare=False, repr=False)
     # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
     symbols: tuple = ()
+    project: Project | None = None
 
     def __post_init__(self):
         for key in ("stations", "segments", "supports", "loads", "gaps", "cases",

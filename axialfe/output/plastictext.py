@@ -50,6 +50,13 @@ def _shown(unit):
     return "" if unit == "1" else f" {unit}"
 
 
+def _clean(u, model):
+    """A displacement (m) below the rounding of the model's size, shown as 0 (the JSON keeps it)."""
+    x = model.arrays.x
+    span = float(x.max() - x.min()) if len(x) else 0.0
+    return 0.0 if abs(u) <= 1e-13 * span else u
+
+
 def path_json(result, units) -> str:
     return json.dumps(result.to_dict(units), indent=2) + "\n"
 
@@ -90,8 +97,15 @@ def path_table(result, units) -> str:
                        _g(st.plastic_strain[i])] for i, s in enumerate(m.segments[:40])])
         out += _grid(["station", f"u [{units.displacement}]",
                       f"plastic u [{units.displacement}]"],
-                     [[s.name, _g(r.u[i] / fD), _g(st.plastic_displacement[i] / fD)]
+                     [[s.name, _g(_clean(r.u[i], m) / fD),
+                       _g(_clean(st.plastic_displacement[i], m) / fD)]
                       for i, s in enumerate(m.stations[:40])])
+        if m.gaps:
+            out += _grid(["gap", "state", f"opening [{units.displacement}]",
+                          f"force [{units.force}]"],
+                         [[gp.name, "closed" if r.gap_closed[j] else "open",
+                           _g(r.gap_opening[j] / fD), _g(r.gap_force[j] / fF)]
+                          for j, gp in enumerate(m.gaps[:40])])
     if len(result.states) > 8:
         out.append(f"\n ({len(result.states) - 8} more leg ends: see --format json)")
     if result.cycles is not None:

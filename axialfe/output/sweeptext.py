@@ -26,6 +26,11 @@ def _steps(result, progress):
         yield from bar
 
 
+def _heading(result) -> str:
+    """The parameter's column heading: with its unit, none for a plain number."""
+    return result.parameter if result.unit == "1" else f"{result.parameter} [{result.unit}]"
+
+
 def sweep_summary(result, units) -> str:
     """A compact terminal summary: range, events, extremes of gaps and segments."""
     m = result.model
@@ -34,12 +39,13 @@ def sweep_summary(result, units) -> str:
     unit = "" if result.unit == "1" else f" {result.unit}"
     out = [f"axialfe sweep: {m.title}",
            f"case '{result.case}', {result.parameter} from {_g(v[0])} to {_g(v[-1])}{unit}, "
-           f"{len(v)} steps",
+           f"{len(v)} steps; {result.replaced}",
            "units: " + ", ".join(f"{k} {u}" for k, u in units.as_dict().items()), ""]
     if result.events:
-        out.append(" events (exact, not read off the grid)")
-        out += _grid(["name", "event", f"{result.parameter} [{result.unit}]"],
-                     [[e.name, e.event, _g(e.value, 9)] for e in result.events])
+        out.append(" events (exact, not read off the grid; identical events at one value on one line)")
+        out += _grid(["name", "event", _heading(result)],
+                     [[", ".join(names), event, _g(value, 9)]
+                      for names, event, value in result.grouped_events()])
     else:
         out.append(" no change of state along the range")
     out.append("")
@@ -81,7 +87,7 @@ def sweep_csv(result, units, progress=False) -> str:
     fF, fD, fS = units.factor("force"), units.factor("displacement"), units.factor("stress")
     buf = io.StringIO()
     w = csv.writer(buf, lineterminator="\n")
-    head = [f"{result.parameter} [{result.unit}]"]
+    head = [_heading(result)]
     head += [f"u {st.name} [{units.displacement}]" for st in m.stations]
     for seg in m.segments:
         head += [f"N {seg.name} from [{units.force}]", f"N {seg.name} to [{units.force}]",

@@ -16,7 +16,8 @@ from ..results import Solution
 from ..units import OutputUnits
 
 __all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS",
-           "checks_table", "checks_markdown"]
+           "checks_table", "checks_markdown", "checks_json", "checks_csv", "check_dict",
+           "check_csv_rows"]
 
 FORMATS = ("table", "json", "csv", "markdown")
 
@@ -169,7 +170,7 @@ def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
         data["envelope"] = envelope.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
         for case in data["cases"]:
-            case["checks"] = [e.to_dict(units) for e in checks.case(case["name"])]
+            case["checks"] = [check_dict(e, units) for e in checks.case(case["name"])]
         data["governing"] = checks.governing_dict()
     if review is not None:  # --- stated values (axialfe.review) ---
         reviewed = review.to_dict(units or solution.model.units)
@@ -178,11 +179,33 @@ def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
     return json.dumps(data, indent=2) + "\n"
 
 
+def check_dict(entry, units: OutputUnits) -> dict:
+    """The JSON form of a check entry with the amounts behind its utilisation and their unit."""
+    return {**entry.to_dict(units), **entry.amounts(units)}
+
+
+def check_csv_rows(checks, units: OutputUnits) -> list[list[str]]:
+    """CSV rows of the checks in the long table's columns: item ``check``, quantity
+    ``KIND AMOUNT`` (demand, capacity; required, actual, margin for deformation limits),
+    then ``KIND utilization`` and ``KIND result`` (pass, FAIL or review)."""
+    rows = []
+    for e in checks.entries:
+        amounts = e.amounts(units)
+        unit = amounts.pop("unit")
+        for key, value in amounts.items():
+            rows.append([e.case, "check", e.name, f"{e.kind} {key}", "",
+                         "" if value is None else repr(value), unit])
+        rows.append([e.case, "check", e.name, f"{e.kind} utilization", "",
+                     "" if e.utilization is None else repr(float(e.utilization)), "1"])
+        rows.append([e.case, "check", e.name, f"{e.kind} result", "", e.verdict, ""])
+    return rows
+
+
 def to_csv(solution: Solution, units: OutputUnits | None = None, review=None, envelope=None,
-           full_envelope=False) -> str:
-    """One long table: case, item, name, quantity, position, value, unit (with the stated
-    values of ``review``, a Review, and the rows of case ``envelope`` when given and the
-    solution has several cases or ``full_envelope``)."""
+           full_envelope=False, checks=None) -> str:
+    """One long table: case, item, name, quantity, position, value, unit (with the checks of
+    ``checks``, a CheckReport, the stated values of ``review``, a Review, and the rows of
+    case ``envelope`` when given and the solution has several cases or ``full_envelope``)."""
     units = units or solution.model.units
     data = solution.to_dict(units)
     u = data["units"]
@@ -213,6 +236,8 @@ def to_csv(solution: Solution, units: OutputUnits | None = None, review=None, en
             w.writerow([c, "gap", g["name"], "opening", "", repr(g["opening"]), u["displacement"]])
             w.writerow([c, "gap", g["name"], "force", "", repr(g["force"]), u["force"]])
         w.writerow([c, "case", c, "equilibrium_residual", "", repr(case["equilibrium_residual"]), "1"])
+    if checks is not None:  # --- design checks (axialfe.checks) ---
+        w.writerows(check_csv_rows(checks, units))
     if _envelope_shown(solution, envelope, full_envelope):  # --- axialfe.envelope ---
         from .envelopetext import envelope_csv_rows
 
@@ -280,7 +305,7 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
     """
     if fmt == "csv":
         return to_csv(solution, units, review=review, envelope=envelope,
-                      full_envelope=full_envelope)
+                      full_envelope=full_envelope, checks=checks)
     return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
         solution, units, checks=checks, review=review, envelope=envelope,
         full_envelope=full_envelope, notes=notes)
@@ -364,10 +389,19 @@ def _governing_lines(checks, units: OutputUnits):
 def checks_json(checks, units: OutputUnits, title: str) -> str:
     """The JSON form of ``axialfe check``: checks per case, governing entry, status."""
     return json.dumps({"title": title, "units": units.as_dict(),
-                       "cases": [{"name": c.case, "checks": [e.to_dict(units) for e in c]}
+                       "cases": [{"name": c.case, "checks": [check_dict(e, units) for e in c]}
                                  for c in checks.cases],
                        "governing": checks.governing_dict(), "status": checks.status,
                        "cautions": list(CAUTIONS)}, indent=2) + "\n"
+
+
+def checks_csv(checks, units: OutputUnits) -> str:
+    """The CSV form of ``axialfe check``: the long table's columns, the check rows only."""
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["case", "item", "name", "quantity", "end", "value", "unit"])
+    w.writerows(check_csv_rows(checks, units))
+    return buf.getvalue()
 
 
 def checks_table(checks, units: OutputUnits | None = None, title: str | None = None) -> str:

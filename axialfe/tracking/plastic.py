@@ -23,8 +23,17 @@ everything is affine in the parameter, so the next event (an elastic segment
 reaching a bound) is the root of an affine function; a segment whose rate
 solution leaves its bound ``unloads`` and keeps its plastic strain.
 
-Scope: prismatic plastic segments without distributed load or self-weight; no
-gaps yet (a model with gaps is refused with a message).
+Gaps and slack links are constraints of the same problem: a closed gap with a
+force keeps its opening (an equality, eliminated by a Schur complement), a gap
+just reached or closed without force may close or open (complementarity, with
+its force rate as the unknown), and an open gap's opening or a closed gap's
+force reaching zero is one more affine root.  Where perfectly plastic segments
+form a mechanism at a fixed parameter, the model moves along it until a gap
+arrests it (the motion found from the null space of the rate problem); with no
+gap in reach the model ``collapses``.
+
+Scope: prismatic plastic segments without distributed load or self-weight;
+every part held by a support (a part held only by gaps is refused).
 """
 
 from __future__ import annotations
@@ -34,9 +43,11 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import ModelError, SolveError, suggest
+from ..formatting import names as names_text
 from ..model import Model
 from ..model.cases import LoadState, load_states
 from ..results import CaseResult
+from .events import GAP_EVENTS
 from ..units import kelvin_to_temperature, temperature_to_kelvin, unit_factor
 
 __all__ = ["LEG_PARAMETERS", "OUTCOMES", "Leg", "PathEvent", "PathState", "PathResult",
@@ -67,7 +78,11 @@ class Leg:
 
 @dataclass(frozen=True)
 class PathEvent:
-    """``event`` ('yields', 'unloads', 'collapses') of ``name`` on leg ``leg`` at ``value``."""
+    """``event`` of ``name`` on leg ``leg`` at ``value``.
+
+    ``'yields'``, ``'unloads'`` (plastic flow starts, ends) and ``'collapses'`` for
+    segments; ``'closes'``, ``'opens'`` (contacts), ``'taut'``, ``'slack'`` (links).
+    """
 
     leg: int
     name: str
@@ -110,9 +125,10 @@ class PathResult:
         ``{"count", "outcome", "decided_at"}`` with ``--cycles``.
     collapsed_on : int or None
         The leg on which the model collapsed.
-    history : tuple of (leg, value, forces) tuples
-        The segment forces (N, per segment) at the start, every event and every
-        leg end, for plots.
+    history : tuple of (leg, value, forces, gap forces) tuples
+        The segment forces (N, per segment; NaN where not followed) and the gap
+        forces (N, signed as in results) at the start, every event and every leg
+        end, for plots.
     notes : tuple of str
     model : Model
     case : str
@@ -272,11 +288,24 @@ class _Tracker:
         self.h = np.array([mt.hardening_modulus for mt in mats]) * areas / asm.length[P]
         self.yield_elongation = (np.array([mt.yield_strength / mt.elastic_modulus for mt in mats])
                                  * asm.length[P])
-        # elastic forces of the plastic segments: affine in (load factor, uniform dT, factor)
-        self.N0 = self.elastic(self.state(0.0, _Thermal()))
-        self.NL = self.elastic(self.state(1.0, _Thermal())) - self.N0
-        self.NU = self.elastic(self.state(0.0, _Thermal("change", 1.0))) - self.N0
-        self.NF = self.elastic(self.state(0.0, _Thermal("factor", 1.0))) - self.N0
+        # the gaps: force per unit gap force (R) and opening per unit plastic elongation (Gp)
+        g = self.g = len(model.gaps)
+        if g and system.n_parts:
+            raise ModelError("the elastic-plastic path does not follow parts held only by gaps: "
+                             "give each part a support (a soft spring will do)",
+                             file=model.source, place="gaps")
+        UL = system.displacements(np.zeros((asm.n, g)), 0.0, np.eye(g)) if g else None
+        self.M = system.gap_matrix[0] if g else np.zeros((0, 0))
+        self.R = k[:, None] * self._elong(UL) if g else np.zeros((len(P), 0))
+        self.Gp = -(system.B @ self.U) if g else np.zeros((0, len(P)))
+        # the response X = (forces of the plastic segments, gap openings): affine in (load
+        # factor, uniform dT, factor on the field), plastic elongations and gap forces
+        self.A_p = np.vstack([self.S, self.Gp])
+        self.A_g = np.vstack([self.R, self.M])
+        self.X0 = self.elastic(self.state(0.0, _Thermal()))
+        self.XL = self.elastic(self.state(1.0, _Thermal())) - self.X0
+        self.XU = self.elastic(self.state(0.0, _Thermal("change", 1.0))) - self.X0
+        self.XF = self.elastic(self.state(0.0, _Thermal("factor", 1.0))) - self.X0
 
     def state(self, lam, thermal) -> LoadState:
         b = self.base
@@ -285,54 +314,158 @@ class _Tracker:
         return LoadState(b.name, b.forces * lam, dT, b.settlement * lam, b.q_factor * lam)
 
     def elastic(self, state):
+        """(forces of the plastic segments, gap openings) with no plastic strain, gaps open."""
         F, up, (delta0, _, _) = self.system.state_vectors(state)
         u = self.system.displacements(F, up)
-        return self.k * (self._elong(u) - delta0[self.P])
+        N = self.k * (self._elong(u) - delta0[self.P])
+        return np.concatenate([N, self.system.gap_problem(F, up)[0] if self.g else []])
 
-    def forces(self, lam, thermal, p):
+    def response(self, lam, thermal, p, gl):
+        """(forces of the plastic segments, gap openings) of a state."""
         dT_u = thermal.value if thermal.mode == "change" else 0.0
         f = thermal.value if thermal.mode == "factor" else 0.0
-        return self.N0 + lam * self.NL + dT_u * self.NU + f * self.NF + self.S @ p
+        X = (self.X0 + lam * self.XL + dT_u * self.XU + f * self.XF + self.A_p @ p
+             + self.A_g @ gl)
+        return X[:len(self.P)], X[len(self.P):]
 
-    def rates(self, side, dN_el):
-        """Plastic rates z of the segments at a bound (side != 0); None for a mechanism."""
+    def _reduced(self, side, held, touching, dX_el):
+        """The rate problem with the held gaps' equalities eliminated (a Schur complement).
+
+        The responses at the segments at a bound (forces) and at the gaps in
+        contact (openings) to ``y = (dp_C, dg_E, dg_T)`` are ``r + A y``; the held
+        gaps' openings stay zero, which gives ``dg_E``; what is left is the
+        complementarity problem ``w = q + M x`` in ``x = (z_C, dg_T)``.
+        """
+        nP = len(side)
+        C = np.flatnonzero(side != 0)
+        Eg = np.flatnonzero(held)
+        T = np.flatnonzero(touching & ~held)
+        s = side[C].astype(float)
+        rows = np.concatenate([C, nP + Eg, nP + T])
+        A = np.hstack([self.A_p[:, C], self.A_g[:, Eg], self.A_g[:, T]])[rows]
+        r = dX_el[rows]
+        nc, ne = len(C), len(Eg)
+        X = np.r_[0:nc, nc + ne:len(rows)]
+        Ei = np.arange(nc, nc + ne)
+        if ne:
+            try:
+                inv_rE = np.linalg.solve(A[np.ix_(Ei, Ei)], np.column_stack(
+                    [r[Ei], A[np.ix_(Ei, X)]]))
+            except np.linalg.LinAlgError:
+                raise SolveError("the contact state is not unique: closed gaps "
+                                 f"{names_text([self.model.gaps[j].name for j in Eg])} act "
+                                 "together on the same stations; remove the redundant gap",
+                                 file=self.model.source) from None
+            r_x = r[X] - A[np.ix_(X, Ei)] @ inv_rE[:, 0]
+            A_x = A[np.ix_(X, X)] - A[np.ix_(X, Ei)] @ inv_rE[:, 1:]
+        else:
+            inv_rE = np.zeros((0, 1 + len(X)))
+            r_x, A_x = r[X], A[np.ix_(X, X)]
+        sign = np.concatenate([s, np.ones(len(T))])         # y = sign * x
+        flip = np.concatenate([-s, np.ones(len(T))])        # w = flip * response (+ h z)
+        q = flip * r_x
+        M = flip[:, None] * A_x * sign[None, :]
+        M[:nc, :nc] += np.diag(self.h[C])
+        return C, Eg, T, nc, ne, X, Ei, inv_rE, sign, q, M
+
+    def _unpack(self, side, parts, x, dX_el):
+        """(z, w, dg, v) of a solution x of the reduced problem."""
+        C, Eg, T, nc, ne, X, Ei, inv_rE, sign, q, M = parts
+        nP = len(side)
+        wx = q + M @ x
+        y = np.zeros(nc + ne + len(T))
+        y[X] = sign * x
+        if ne:
+            y[Ei] = -(inv_rE[:, 0] + inv_rE[:, 1:] @ y[X])
+        z, w = np.zeros(nP), np.zeros(nP)
+        z[C], w[C] = x[:nc], wx[:nc]
+        dg = np.zeros(self.g)
+        dg[Eg], dg[T] = y[Ei], y[nc + ne:]
+        v = (dX_el + self.A_p @ (side * z) + self.A_g @ dg)[nP:]
+        return z, w, dg, v
+
+    def rates(self, side, held, touching, dX_el):
+        """The rates of plastic elongation and gap force per unit of the leg's parameter.
+
+        ``side`` marks the segments at a bound, ``held`` the closed gaps with a force
+        (their opening stays zero: an equality), ``touching`` the gaps closed with no
+        force or just reached (they may close or open: complementarity).  The
+        equalities are eliminated, the rest is one complementarity problem solved by
+        Lemke's method (:func:`axialfe.engine.pivoting.lemke`).
+
+        Returns ``(z, w, dg, v)``: plastic rates (>= 0) and the distance of each
+        segment's rate from its bound's, gap force rates and opening rates; all None
+        for a ray (a mechanism).
+        """
         from ..engine import pivoting
 
-        C = np.flatnonzero(side != 0)
-        z = np.zeros(len(side))
-        w = np.zeros(len(side))
-        if not len(C):
-            return z, w
-        s = side[C].astype(float)
-        q = -s * dN_el[C]
-        M = -(s[:, None] * self.S[np.ix_(C, C)] * s[None, :]) + np.diag(self.h[C])
-        D = 1.0 / np.sqrt(self.k[C])
-        qs = D * q
-        scale = np.abs(qs).max(initial=0.0)
-        if scale == 0:
-            return z, w
-        zc, _, status = pivoting.lemke(D[:, None] * M * D[None, :], qs / scale,
-                                       100 * len(C) + 100)
-        if status == pivoting.RAY:
-            return None, None
-        if status != pivoting.SOLVED:
-            raise SolveError("the search for the yielding segments did not settle",
-                             file=self.model.source)
-        zc = np.maximum(zc, 0.0) * D * scale
-        zc = _least_norm(M, q, zc)
-        z[C] = zc
-        w[C] = q + M @ zc
-        return z, w
+        parts = self._reduced(side, held, touching, dX_el)
+        C, T, q, M = parts[0], parts[2], parts[-2], parts[-1]
+        x = np.zeros(len(q))
+        if len(q):
+            diag = np.diag(self.M)
+            D = np.concatenate([1.0 / np.sqrt(self.k[C]), 1.0 / np.sqrt(np.maximum(
+                diag[T], 1e-12 * max(diag.max(initial=0.0), 1e-300)))])
+            qs = D * q
+            scale = np.abs(qs).max(initial=0.0)
+            if scale > 0:
+                xs, _, status = pivoting.lemke(D[:, None] * M * D[None, :], qs / scale,
+                                               100 * len(q) + 100)
+                if status == pivoting.RAY:
+                    return None, None, None, None
+                if status != pivoting.SOLVED:
+                    raise SolveError("the search for the yielding segments did not settle",
+                                     file=self.model.source)
+                x = _least_norm(M, q, np.maximum(xs, 0.0) * D * scale)
+        return self._unpack(side, parts, x, dX_el)
 
-    def result(self, lam, thermal, p) -> CaseResult:
+    def mechanism(self, side, held, touching, dX_el):
+        """The motion of a mechanism at a fixed parameter, or None.
+
+        Where the rate problem has no solution, the segments at their bound
+        can flow at constant forces while the load does work.  Returns
+        ``(dp, dg, v)`` of one such motion (plastic elongations, gap forces,
+        openings, per unit of total plastic flow), which leaves the forces of the
+        flowing segments and the openings of the gaps in contact unchanged.
+        """
+        from scipy.linalg import null_space
+        from scipy.optimize import linprog
+
+        parts = self._reduced(side, held, touching, dX_el)
+        nc, q, M = parts[3], parts[-2], parts[-1]
+        if not nc:
+            return None
+        basis = null_space(M[:nc, :nc], rcond=1e-9)
+        if not basis.shape[1]:
+            return None
+        # x = basis @ c >= 0, sum x = 1, the gaps in contact not closing (M_TC x >= 0), the
+        # load doing work (q_C . x < 0): the motion on which it does the most
+        nb = basis.shape[1]
+        A_ub = np.vstack([-basis, -(M[nc:, :nc] @ basis)])
+        res = linprog(q[:nc] @ basis, A_ub=A_ub, b_ub=np.zeros(len(A_ub)),
+                      A_eq=basis.sum(axis=0)[None, :], b_eq=[1.0], bounds=[(None, None)] * nb,
+                      method="highs")
+        if res.status != 0 or res.fun >= -1e-12 * max(np.abs(q).max(initial=0.0), 1e-300):
+            return None
+        x = np.zeros(len(q))
+        x[:nc] = np.maximum(basis @ res.x, 0.0)
+        z, _, dg, _ = self._unpack(side, parts, x, np.zeros_like(dX_el))
+        dp = side * z
+        v = (self.A_p @ dp + self.A_g @ dg)[len(side):]
+        return dp, dg, v
+
+    def signed(self, gl):
+        """Gap forces with the sign of results (compression of a contact negative)."""
+        return self.system.cons.force_sign * gl if self.g else np.zeros(0)
+
+    def result(self, lam, thermal, p, gl, closed) -> CaseResult:
         state = self.state(lam, thermal)
         F, up, (delta0, G, W) = self.system.state_vectors(state)
         full = np.zeros(len(self.model.segments))
         full[self.P] = p
         F = F + _nodal(self.asm, full)
-        u = self.system.displacements(F, up)
-        return self.system.recover(state, u, F, np.zeros(0), (delta0 + full, G, W),
-                                   np.zeros(0, dtype=bool))
+        u = self.system.displacements(F, up, gl if self.g else None)
+        return self.system.recover(state, u, F, gl, (delta0 + full, G, W), closed)
 
 
 def _current(leg, lam, thermal, reference):
@@ -381,8 +514,8 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     Raises
     ------
     ModelError
-        For a model with gaps, a plastic taper or distributed load, a leg that
-        starts away from the current value.
+        For a part held only by gaps, a plastic taper or distributed load, a leg
+        that starts away from the current value.
     SolveError
         When the rate problem does not settle.
 
@@ -403,14 +536,11 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     """
     from ..engine.preload import resolve_preloads
 
-    if model.gaps:
-        raise ModelError("the elastic-plastic path does not follow gaps yet: use 'axialfe "
-                         "sweep' for the gap events of a linear-elastic model",
-                         file=model.source, place="gaps")
     model = resolve_preloads(model)
     base = _pick_case(model, case)
     tr = _Tracker(model, base)
     P, names = tr.P, [model.segments[i].name for i in tr.P]
+    gap_names = [gp.name for gp in model.gaps]
     reference = model.reference_temperature
     if any(g.parameter == "temperature" for g in legs) and reference is None:
         raise ModelError("a leg of absolute temperature needs settings.reference_temperature",
@@ -425,13 +555,23 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     p = np.zeros(len(P))
     side = np.zeros(len(P), dtype=int)      # at the tension (+1) or compression (-1) bound
     flowing = np.zeros(len(P), dtype=bool)  # yielding on the last interval
-    N = tr.forces(lam, thermal, p)
+    # the gaps at the start: the exact contact search of the unloaded state
+    if tr.g:
+        F0, up0, _ = tr.system.state_vectors(tr.state(lam, thermal))
+        gl, _, closed = tr.system.contact(F0, up0, base.name, with_state=True)
+        gl, closed = np.maximum(gl, 0.0), np.array(closed, dtype=bool)
+    else:
+        gl, closed = np.zeros(0), np.zeros(0, dtype=bool)
+    N, o = tr.response(lam, thermal, p, gl)
+    o_scale = max(np.abs(o).max(initial=0.0), tr.system.clearance.max(initial=0.0), 1e-300)
+    touching = ~closed & (o <= 1e-12 * o_scale)   # open gaps that may close as the path moves
+    pending = {}                                  # gap -> (leg, value) where its measure hit zero
     over = (N - tr.h * p > tr.Nt * (1 + 1e-12)) | (N - tr.h * p < -tr.Nc * (1 + 1e-12))
     if over.any():
         raise ModelError(f"segment '{names[int(np.flatnonzero(over)[0])]}' is beyond its yield "
                          "strength at the start of the path (from misfit, preload or "
                          "self-weight)", file=model.source)
-    events, states, history = [], [], [(0, 0.0, _full(model, P, N))]
+    events, states, history = [], [], [(0, 0.0, _full(model, P, N), tr.signed(gl))]
     activity = []          # per leg: the sum of |plastic elongation| it made, per segment
     plastic_at_end = []
     collapsed_on = None
@@ -461,52 +601,115 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             else:
                 d_th = (temperature_to_kelvin(leg.stop, leg.unit)
                         - temperature_to_kelvin(leg.start, leg.unit))
-        dN_el = d_lam * tr.NL + d_th * (tr.NU if mode == "change" else tr.NF)
+        dX_el = d_lam * tr.XL + d_th * (tr.XU if mode == "change" else tr.XF)
         moved = np.zeros(len(P))
         t = 0.0
 
         def at(t_):
             return lam0 + t_ * d_lam, _Thermal(mode, th0.value + t_ * d_th)
 
-        for _ in range(10_000 + 100 * len(P)):
-            z, w = tr.rates(side, dN_el)
-            if z is None:   # no rate solution: a mechanism
+        for _ in range(10_000 + 100 * (len(P) + tr.g)):
+            held = closed & (gl > 0)
+            contact = touching | (closed & ~held)
+            z, w, dg, v = tr.rates(side, held, contact, dX_el)
+            if z is None and tr.g:
+                # a mechanism: it moves at the fixed parameter until a gap arrests it
+                motion = tr.mechanism(side, held, contact, dX_el)
+                if motion is not None:
+                    dp, dg, v = motion
+                    dN = tr.S @ dp + tr.R @ dg
+                    excess = N - tr.h * p
+                    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+                        g_root = np.where(~closed & ~touching & (v < 0), -o / v,
+                                          np.where(closed & (dg < 0), -gl / dg, np.inf))
+                        bound = np.where((side == 0) & (dN > 0), (tr.Nt - excess) / dN,
+                                         np.where((side == 0) & (dN < 0),
+                                                  (-tr.Nc - excess) / dN, np.inf))
+                    reach = float(np.maximum(np.concatenate([g_root, bound]), 0.0)
+                                  .min(initial=np.inf))
+                    if np.isfinite(reach):
+                        for j in np.flatnonzero((side != 0) & ~flowing):
+                            events.append(PathEvent(leg.index, names[j], "yields",
+                                                    leg.value(t)))
+                        flowing = side != 0
+                        p = p + dp * reach
+                        moved += np.abs(dp) * reach
+                        g_hit = np.isclose(g_root, reach, rtol=1e-12, atol=0.0)
+                        gl = np.where(g_hit & closed, 0.0, np.maximum(gl + dg * reach, 0.0))
+                        touching = touching | (g_hit & ~closed)
+                        for j in np.flatnonzero(g_hit):
+                            pending[j] = (leg.index, leg.value(t))
+                        hit = np.isclose(bound, reach, rtol=1e-12, atol=0.0)
+                        side = np.where(hit, np.where(dN > 0, 1, -1), side)
+                        N, o = tr.response(lam, thermal, p, gl)
+                        history.append((leg.index, leg.value(t), _full(model, P, N),
+                                        tr.signed(gl)))
+                        continue
+            if z is None:   # no rate solution and no gap to arrest it: the model collapses
                 for j in np.flatnonzero((side != 0) & ~flowing):
                     events.append(PathEvent(leg.index, names[j], "yields", leg.value(t)))
                 collapsed_on = leg.index
                 events.append(PathEvent(leg.index, ", ".join(n for n, s in zip(names, side) if s),
                                         "collapses", leg.value(t)))
                 break
-            tol_w = 1e-10 * max(np.abs(dN_el).max(initial=0.0), 1e-300)
+            tol_w = 1e-10 * max(np.abs(dX_el[:len(P)]).max(initial=0.0), 1e-300)
             leave = (side != 0) & (z <= 0) & (w > tol_w)
-            for j in np.flatnonzero(leave & flowing):
+            # the gaps in contact: closed where their force grows, open where they part (a
+            # gap event exactly at a leg's end belongs to that leg: `pending`)
+            tol_v = 1e-10 * max(np.abs(dX_el[len(P):]).max(initial=0.0),
+                                np.abs(v).max(initial=0.0), 1e-300)
+            tol_g = 1e-10 * max(np.abs(dg).max(initial=0.0), 1e-300)
+            decided = contact & ((dg > tol_g) | (v > tol_v))
+            now_closed = np.where(decided, dg > tol_g, closed)
+            for j in np.flatnonzero(now_closed != closed):
+                leg_at, value = pending.get(j, (leg.index, leg.value(t)))
+                events.append(PathEvent(leg_at, gap_names[j],
+                                        GAP_EVENTS[(model.gaps[j].kind, bool(now_closed[j]))],
+                                        value))
+            for j in np.flatnonzero(decided):
+                pending.pop(j, None)
+            closed, touching = now_closed, touching & ~decided
+            # plastic flow ends where a segment leaves its bound or stops flowing at it (a
+            # gap that closes takes the load off it)
+            for j in np.flatnonzero(flowing & ~(z > 0)):
                 events.append(PathEvent(leg.index, names[j], "unloads", leg.value(t)))
             for j in np.flatnonzero((z > 0) & ~flowing):
                 events.append(PathEvent(leg.index, names[j], "yields", leg.value(t)))
             side = np.where(leave, 0, side)
             flowing = z > 0
+            dg = np.where(closed, dg, 0.0)
             dp = side * z
-            dN = dN_el + tr.S @ dp
+            dN = dX_el[:len(P)] + tr.S @ dp + tr.R @ dg
             slope = dN - tr.h * dp
             excess = N - tr.h * p
-            # roots of the elastic segments reaching a bound
-            with np.errstate(divide="ignore", invalid="ignore"):
+            # roots of the elastic segments reaching a bound, of a closed gap's force and an
+            # open gap's opening reaching zero
+            with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
                 up = np.where((side == 0) & (slope > 0), (tr.Nt - excess) / slope, np.inf)
                 down = np.where((side == 0) & (slope < 0), (-tr.Nc - excess) / slope, np.inf)
+                g_root = np.where(closed & (dg < 0), -gl / dg,
+                                  np.where(~closed & ~touching & (v < 0), -o / v, np.inf))
             root = np.maximum(np.minimum(up, down), 0.0)
-            t_next = min(float(root.min(initial=np.inf)) + t, 1.0)
+            g_root = np.maximum(g_root, 0.0)
+            t_next = min(float(min(root.min(initial=np.inf), g_root.min(initial=np.inf))) + t,
+                         1.0)
             if t_next >= 1.0 - _SAME:
                 t_next = 1.0
             hit = (root + t <= t_next + _SAME) & np.isfinite(root)
+            g_hit = (g_root + t <= t_next + _SAME) & np.isfinite(g_root)
             step = t_next - t
             p = p + dp * step
+            gl = np.where(g_hit & closed, 0.0, np.maximum(gl + dg * step, 0.0))
             moved += np.abs(dp) * step
             t = t_next
             lam, thermal = at(t)
-            N = tr.forces(lam, thermal, p)
+            N, o = tr.response(lam, thermal, p, gl)
             for j in np.flatnonzero(hit):
                 side[j] = 1 if up[j] <= down[j] else -1
-            history.append((leg.index, leg.value(t), _full(model, P, N)))
+            for j in np.flatnonzero(g_hit):
+                pending[j] = (leg.index, leg.value(t))
+                touching[j] = touching[j] or not closed[j]
+            history.append((leg.index, leg.value(t), _full(model, P, N), tr.signed(gl)))
             if t >= 1.0:
                 break
         else:
@@ -515,9 +718,8 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
         activity.append(moved)
         plastic = np.zeros(len(model.segments))
         plastic[P] = p / tr.asm.length[P] if len(P) else 0.0
-        if True:
-            states.append(PathState(leg.index, leg.value(t), tr.result(lam, thermal, p), plastic,
-                                    tr.U @ p if len(P) else np.zeros(len(model.stations))))
+        states.append(PathState(leg.index, leg.value(t), tr.result(lam, thermal, p, gl, closed),
+                                plastic, tr.U @ p if len(P) else np.zeros(len(model.stations))))
         plastic_at_end.append(p.copy())
         if collapsed_on is not None:
             left = [g.index for g in legs if g.index > leg.index]

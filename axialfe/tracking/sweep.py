@@ -4,7 +4,8 @@ Between two changes of state the response is an affine function of the swept
 parameter s, so the path is tracked interval by interval: for the gap state of
 an interval the gap forces, openings and stresses are affine in s, each event
 (a gap closing or opening, a link going taut or slack, a segment reaching its
-yield strength) is the root of one of those affine functions, and the state
+yield strength or its buckling capacity) is the root of one of those functions
+(affine, or convex and bracketed), and the state
 after an event comes from the exact gap search just past it.  One factorisation
 serves the whole sweep.
 """
@@ -21,16 +22,16 @@ from ..model.cases import LoadState, load_states
 from ..model import Model
 from ..results import CaseResult
 from ..engine.contact import solve_gaps
-from .events import affine_roots, yield_excess, yield_roots
+from .events import GAP_EVENTS, affine_roots, buckle_excess, buckle_roots, yield_excess, yield_roots
 from ..engine.system import System
 from ..units import (kelvin_to_temperature, parse_quantity, number_and_unit,
                     temperature_to_kelvin, unit_factor)
 
-__all__ = ["PARAMETERS", "Event", "SweepResult", "sweep", "parse_range"]
+__all__ = ["PARAMETERS", "DIMENSIONLESS", "Event", "SweepResult", "sweep", "parse_range"]
 
-PARAMETERS = ("temperature_change", "temperature", "load_factor")
-_GAP_EVENTS = {("contact", True): "closes", ("contact", False): "opens",
-               ("slack", True): "taut", ("slack", False): "slack"}
+PARAMETERS = ("temperature_change", "temperature", "temperature_factor", "load_factor")
+# the sweeps of a plain number (no unit)
+DIMENSIONLESS = ("temperature_factor", "load_factor")
 
 
 @dataclass(frozen=True)
@@ -38,7 +39,7 @@ class Event:
     """A change of state at parameter ``value`` (in the sweep's unit).
 
     ``event`` is ``closes`` or ``opens`` (contacts), ``taut`` or ``slack``
-    (links) or ``yields`` (segments).
+    (links), ``yields`` or ``buckles`` (segments).
     """
 
     name: str
@@ -106,6 +107,8 @@ class SweepResult:
         The case swept.
     exact : callable, optional
         The exact result at any value of the range (set by :func:`sweep`).
+    replaced : str
+        Which thermal inputs of the case the sweep replaced (or scaled, or none).
     """
 
     parameter: str
@@ -117,6 +120,25 @@ class SweepResult:
     model: Model
     case: str
     exact: object = field(default=None, compare=False, repr=False)
+    replaced: str = ""
+
+    def grouped_events(self) -> list[tuple[tuple[str, ...], str, float]]:
+        """The events with identical ``event`` at one value (to rounding of the range) as one
+        ``(names, event, value)``, in order along the range; the names in the model's order."""
+        span = abs(float(self.values[-1]) - float(self.values[0])) if len(self.values) else 0.0
+        tol = 1e-9 * max(span, 1e-300)
+        out: list[tuple[list[str], str, float]] = []
+        for e in self.events:
+            for group in out:
+                if group[1] == e.event and abs(group[2] - e.value) <= tol:
+                    group[0].append(e.name)
+                    break
+            else:
+                out.append(([e.name], e.event, e.value))
+        rank = {n: i for i, n in enumerate([g.name for g in self.model.gaps]
+                                           + [s.name for s in self.model.segments])}
+        return [(tuple(sorted(names, key=lambda n: rank.get(n, len(rank)))), event, value)
+                for names, event, value in out]
 
     def result_at(self, value: float) -> CaseResult:
         """The exact result at any ``value`` of the range (events included)."""
@@ -131,7 +153,8 @@ class SweepResult:
         """Plain numbers in ``units``; ``steps`` may wrap :attr:`results` (a progress bar)."""
         units = units or self.model.units
         return {"title": self.model.title, "units": units.as_dict(), "parameter": self.parameter,
-                "unit": self.unit, "case": self.case, "values": self.values.tolist(),
+                "unit": self.unit, "case": self.case, "replaced": self.replaced,
+                "values": self.values.tolist(),
                 "events": [{"name": e.name, "event": e.event, "value": e.value} for e in self.events],
                 "notes": list(self.notes),
                 "cases": [r.to_dict(units) for r in (self.results if steps is None else steps)]}
@@ -159,9 +182,10 @@ def parse_range(text: str, parameter: str) -> tuple[float, float, str]:
         (a, ua), (b, ub) = number_and_unit(parts[0]), number_and_unit(parts[1])
     except ModelError as exc:
         raise ModelError(exc.message, place=where) from None
-    if parameter == "load_factor":
+    if parameter in DIMENSIONLESS:
         if ua or ub:
-            raise ModelError(f"a load factor is a plain number: got '{text}'", place=where)
+            word = "load" if parameter == "load_factor" else "temperature"
+            raise ModelError(f"a {word} factor is a plain number: got '{text}'", place=where)
         return a, b, "1"
     unit = ua or ub
     if not unit:
@@ -203,10 +227,11 @@ def _at(pair, s):
 class _Tracker:
     """Follows the piecewise-affine path of one case along the internal parameter s."""
 
-    def __init__(self, system: System, base: LoadState, parameter: str, from_user):
+    def __init__(self, system: System, base: LoadState, parameter: str, from_user, mask=None):
         self.system = system
         self.base = base
         self.parameter = parameter
+        self.mask = mask            # the segments a temperature sweep acts on (None: all)
         self.from_user = from_user  # the user's parameter value to the internal s
         s0, s1 = self.state(0.0), self.state(1.0)
         F0, up0, t0 = system.state_vectors(s0)
@@ -226,7 +251,10 @@ class _Tracker:
     def state(self, s) -> LoadState:
         if self.parameter == "load_factor":
             return self.base.scaled_loads(s)
-        return self.base.with_temperature(s)
+        swept = (self.base.dT * s if self.parameter == "temperature_factor"
+                 else np.full(self.base.dT.shape, float(s)))
+        return self.base.with_temperature(swept if self.mask is None
+                                          else np.where(self.mask, swept, self.base.dT))
 
     def gap_measures(self, closed, lam, shift):
         """Each gap's event measure, affine in s, as (value at s = 0, slope): the force of
@@ -344,19 +372,42 @@ class _Tracker:
         return self.intervals[-1]
 
 
+def _replaced(model, base, parameter, mask) -> str:
+    """What the sweep does to the case's thermal input, in words."""
+    def own(rows):
+        text = [f"'{model.segments[i].name}' {base.dT[i]:g} K" for i in rows[:6]]
+        return ", ".join(text) + (f" and {len(rows) - 6} more" if len(rows) > 6 else "")
+
+    rows = list(range(len(model.segments))) if mask is None else list(np.flatnonzero(mask))
+    if parameter == "load_factor":
+        return "replaces no thermal input (the factor scales the case's point and distributed loads)"
+    which = "every segment" if mask is None else "segments " + ", ".join(
+        f"'{model.segments[i].name}'" for i in rows)
+    rest = "" if mask is None or mask.all() else "; the others keep the case's own"
+    if parameter == "temperature_factor":
+        return (f"scales the case's own temperature changes of {which} ({own(rows)}){rest}; "
+                "replaces none")
+    swept = "change" if parameter == "temperature_change" else "temperature"
+    return (f"replaces the thermal input of {which} ({own(rows)} in case '{base.name}') by the "
+            f"swept {swept}{rest}")
+
+
 def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
-          unit: str | None = None, case: str | None = None) -> SweepResult:
+          unit: str | None = None, case: str | None = None,
+          segments: Sequence[str] | None = None,
+          buckling_capacity=None) -> SweepResult:
     """Solve a case along a parameter range and find its events exactly.
 
     Parameters
     ----------
     model : Model
-    parameter : {'temperature_change', 'temperature', 'load_factor'}
+    parameter : {'temperature_change', 'temperature', 'temperature_factor', 'load_factor'}
         ``temperature_change`` replaces every segment's thermal input by the
         swept change; ``temperature`` sweeps an absolute temperature against
-        ``settings.reference_temperature``; ``load_factor`` scales the point
-        and distributed loads of the case (temperatures, self-weight, misfit
-        and settlements are held).
+        ``settings.reference_temperature``; ``temperature_factor`` scales the
+        case's own temperature change of each segment; ``load_factor`` scales
+        the point and distributed loads of the case (temperatures, self-weight,
+        misfit and settlements are held).
     start, stop : float
         The range in ``unit`` (it may decrease).
     steps : int
@@ -366,6 +417,13 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         temperature unit, or None for a load factor.
     case : str, optional
         The case or combination to sweep (default: the first).
+    segments : sequence of str, optional
+        A temperature sweep acts on these segments only; the others keep the
+        case's own temperature change (default: every segment).
+    buckling_capacity : array of float, optional
+        Each segment's buckling capacity in N (inf or NaN where it has none), as
+        the checks compute it (:func:`axialfe.checks.buckling.buckling_capacities`):
+        with it, the sweep finds where each compressed segment ``buckles``.
 
     Raises
     ------
@@ -391,6 +449,19 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         raise ModelError(f"unknown case '{case}'", place="--case", hint=suggest(case, names),
                          options=names)
 
+    mask = None
+    if segments is not None:
+        if parameter == "load_factor":
+            raise ModelError("chooses the segments of a temperature sweep; a load-factor sweep "
+                             "scales the case's loads", place="--segments")
+        seg_names = [seg.name for seg in model.segments]
+        mask = np.zeros(len(seg_names), dtype=bool)
+        for name in segments:
+            if name not in seg_names:
+                raise ModelError(f"unknown segment '{name}'", place="--segments",
+                                 hint=suggest(name, seg_names))
+            mask[seg_names.index(name)] = True
+
     if parameter == "temperature_change":
         unit = unit or "K"
         factor = unit_factor(unit, "temperature_difference")
@@ -409,13 +480,17 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         to_internal = to_user = lambda v: float(v)  # noqa: E731
 
     notes: list[str] = []
-    if parameter != "load_factor" and np.ptp(base.dT) > 0:
+    acted = base.dT if mask is None else base.dT[mask]
+    if parameter == "temperature_factor" and not np.any(acted):
+        notes.append(f"case '{base.name}' has no temperature change on the segments swept: the "
+                     "factor changes nothing")
+    if parameter in ("temperature_change", "temperature") and mask is None and np.ptp(base.dT) > 0:
         own = [f"'{seg.name}' ({dt:g} K)" for seg, dt in zip(model.segments, base.dT)]
         notes.append("the swept temperature replaces every segment's own thermal input, which "
                      f"in case '{base.name}' varies by segment: " + ", ".join(own[:6])
                      + (f" and {len(own) - 6} more" if len(own) > 6 else ""))
     system = System(model)
-    tracker = _Tracker(system, base, parameter, to_internal)
+    tracker = _Tracker(system, base, parameter, to_internal, mask)
     s_start, s_stop = to_internal(start), to_internal(stop)
     direction = 1.0 if s_stop >= s_start else -1.0
     span = abs(s_stop - s_start)
@@ -424,6 +499,10 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     gaps = model.gaps
     yield_strength = np.array([seg.material.yield_strength or np.inf for seg in model.segments])
     yielded = np.zeros(len(model.segments), dtype=bool)
+    capacity = (np.full(len(model.segments), np.inf) if buckling_capacity is None else
+                np.where(np.isfinite(np.asarray(buckling_capacity, dtype=float)),
+                         np.asarray(buckling_capacity, dtype=float), np.inf))
+    buckled = np.zeros(len(model.segments), dtype=bool)
     events: list[Event] = []
 
     shown_unit = "" if unit == "1" else f" {unit}"
@@ -457,10 +536,12 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
                 if (first_root - s_stop) * direction < 0:
                     s_next = float(first_root)
                     hitting = ahead & (np.abs(root - s_next) <= 1e-9 * max(span, 1e-12))
-        # yield events inside [s, s_next]: the peak of |sigma| along each segment
-        if np.isfinite(yield_strength).any():
+        # the fields at s = 0 and 1 of this interval's state, for the convex event sources
+        if np.isfinite(yield_strength).any() or np.isfinite(capacity).any():
             f0 = tracker.result(iv_probe, 0.0).fields
             f1 = tracker.result(iv_probe, 1.0).fields
+        # yield events inside [s, s_next]: the peak of |sigma| along each segment
+        if np.isfinite(yield_strength).any():
             if first:
                 already = yield_excess(f0, f1, s, yield_strength) >= -1e-12 * yield_strength
                 for j in np.flatnonzero(already & ~yielded):
@@ -475,6 +556,23 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
                 notes.append(f"segment '{model.segments[j].name}' reaches its yield strength at "
                              f"{parameter} = {to_user(s_y):.6g}{shown_unit}; beyond it the sweep stays "
                              "linear-elastic and the results are not valid for a yielded part")
+        # buckling events inside [s, s_next]: the largest compression along each segment
+        if np.isfinite(capacity).any():
+            if first:
+                already = buckle_excess(f0, f1, s, capacity) >= -1e-12 * capacity
+                for j in np.flatnonzero(already & ~buckled):
+                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its "
+                                 "buckling capacity at the start of the range")
+                buckled |= already
+            roots = buckle_roots(f0, f1, s, s_next, capacity, ~buckled)
+            for j in np.flatnonzero(np.isfinite(roots)):
+                s_b = float(roots[j])
+                events.append(Event(model.segments[j].name, "buckles", to_user(s_b)))
+                buckled[j] = True
+                notes.append(f"segment '{model.segments[j].name}' reaches its buckling capacity "
+                             f"at {parameter} = {to_user(s_b):.6g}{shown_unit}; beyond it the "
+                             "sweep follows straight bars and the results are not valid for a "
+                             "buckled member")
         first = False
         tracker.intervals.append(replace(iv_probe, s_to=s_next))
         if s_next == s_stop:
@@ -485,7 +583,7 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         except SolveError as exc:
             raise lost(exc, s_next) from None
         for j in np.flatnonzero(new_closed != closed):
-            events.append(Event(gaps[j].name, _GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
+            events.append(Event(gaps[j].name, GAP_EVENTS[(gaps[j].kind, bool(new_closed[j]))],
                                 to_user(s_next)))
         closed, s = new_closed, s_next
     else:
@@ -496,4 +594,5 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     grid = np.linspace(start, stop, steps)
     return SweepResult(parameter=parameter, unit=unit, values=grid, results=_Steps(tracker, grid),
                        events=tuple(events), notes=tuple(notes), model=model, case=base.name,
-                       exact=tracker.result_at)
+                       exact=tracker.result_at,
+                       replaced=_replaced(model, base, parameter, mask))

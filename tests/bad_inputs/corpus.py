@@ -60,6 +60,9 @@ BASE = {
     "combinations": [{"name": "both", "factors": {"hot": 1.35, "cold": 1.0}}],
     "checks": {"safety_factor": 1.5, "effective_length_factor": 1.0, "column_curve": "johnson"},
     "limits": [{"at": "c", "displacement": "5 mm"}, {"gap": "g2", "min_opening": "0.1 mm"}],
+    # last, so that adding it moved no line of the entries before it
+    "project": {"name": "corpus job", "number": "C-1", "prepared_by": "A. Writer",
+                "checked_by": "B. Reader", "revision": "0", "date": "2026-01-05"},
 }
 
 # a path in BASE: ("segments", 0, "misfit")
@@ -138,7 +141,8 @@ def _paths():
     """Every (path, Key) of BASE that the schema describes."""
     from axialfe.io import schema as S
 
-    tops = {"settings": S.SETTINGS, "units": S.UNITS, "checks": S.CHECKS}
+    tops = {"settings": S.SETTINGS, "units": S.UNITS, "checks": S.CHECKS,
+            "project": S.PROJECT}
     arrays = {"segments": S.SEGMENT, "supports": S.SUPPORT, "gaps": S.GAP, "cases": S.CASE,
               "combinations": S.COMBINATION, "limits": S.LIMIT}
     for top, table in tops.items():
@@ -173,7 +177,8 @@ def _get(data, path):
 _WRONG = {"name": [5, ["x"], "INLINE"], "text": [5, ["x"]], "number": ["1.5", [1]],
           "boolean": ["yes", 1], "quantity": [[20], True, "INLINE"],
           "quantity_or_table": [[20], False], "quantity_or_map": [[1], True],
-          "names": [5, "c"], "array": [5], "map": [5, "x"], "table": [5]}
+          "names": [5, "c"], "array": [5], "map": [5, "x"], "table": [5],
+          "date": [5, datetime.time(12, 30), datetime.datetime(2026, 1, 5, 9, 0)]}
 _OUT = {"length": "m", "area": "m^2", "second_moment": "m^4", "force": "N", "stress": "Pa",
         "thermal_expansion": "1/K", "force_per_length": "N/m", "density": "kg/m^3",
         "acceleration": "m/s^2", "stiffness": "N/m", "temperature_difference": "K",
@@ -276,6 +281,8 @@ def hostile_cases():
     add("name:int-combination", _with(combinations__0__name=3))
     add("name:list-combination", _with(combinations__0__name=["g"]))
     add("name:table-title", _with(title=Inline({"a": 1})))
+    add("project:not-a-table", _with(project="job 12"))
+    add("project:misspelt-key", base.replace('checked_by = "B. Reader"', 'checkedby = "B. Reader"'))
     add("name:int-title", _with(title=5))
     add("name:shape-list", _with(sections__rod__shape=["round"]))
     add("name:system-list", _with(units__system=["SI"]))
