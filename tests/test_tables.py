@@ -163,8 +163,8 @@ BAD = [
      "and 100000 m: got '1e12 mm'"),
     ("st.csv", STATIONS.replace("250", "600"), "seg.csv:3: segments[2] ('s1-s2'): stations 's1' "
      "and 's2' stand at the same position; a segment needs a length"),
-    ("st.csv", b"name,x [mm]\ns0,0\n\xff\n", "st.csv: not UTF-8 text: invalid start byte at "
-     "byte 17"),
+    ("st.csv", b"name,x [mm]\ns0,0\n\xff\n", "m.toml:12: cannot read the table file 'st.csv': "
+     "UnicodeDecodeError: 'utf-8' codec can't decode byte 0xff in position 17: invalid start byte"),
 ]
 
 
@@ -192,7 +192,7 @@ PATHS = [
     ('file = "link.csv"', "m.toml:14: file: 'link.csv' leaves the model's folder: a table file "
      "must lie in it or below it"),
     ('file = "none.csv"', "m.toml:14: file: the table file 'none.csv' does not exist"),
-    ('file = "sub"', "m.toml:14: file: 'sub' is a folder, not a table file"),
+    ('file = "sub"', "m.toml:14: file: this is a folder, not a table file 'sub'"),
 ]
 
 

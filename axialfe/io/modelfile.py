@@ -22,8 +22,9 @@ from ..model.parts import BEHAVIOURS
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Project, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
-from . import limits, schema
+from . import schema
 from .physical import check_absolute_temperatures, check_segment_lengths
+from .source import decode, read_text
 from .tables import expand_tables
 from .schema import check_range, check_types, keys_of
 
@@ -762,19 +763,7 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
     text = text[1:] if text.startswith("\ufeff") else text  # a byte-order mark is no content
-    limits.check_text(text, source)
-    try:
-        with gc_paused():
-            data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        m = re.search(r"line (\d+)", str(exc))
-        end = "end of document" in str(exc)  # TOML's own count: the last line
-        raise ModelError(f"not valid TOML: {exc}", file=source,
-                         line=int(m.group(1)) if m else (text.count("\n") + 1 if end else None)
-                         ) from exc
-    except RecursionError:  # a backstop: the scan above refuses deep nesting first
-        raise ModelError(f"arrays and tables nest deeper than {limits.MAX_DEPTH} levels",
-                         file=source) from None
+    data = decode(text, source)
     with gc_paused():
         reader = _Reader(data, source, text, symbolic)
         # [stations] file = ... and [segments] file = ...: the tables they name, as entries
@@ -782,16 +771,14 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
         return reader.model()
 
 
+def states_claims(model: Model, path) -> bool:
+    """False when ``model`` was read from ``path`` and its reader saw no ``claims`` or
+    ``claims_file`` there (the file then need not be read again for them)."""
+    return not (model.source == str(path) and model.lines
+                and not {"claims", "claims_file"} & model.lines.keys())
+
+
 def read_model(path, symbolic: bool = False) -> Model:
     """Read a model file (TOML); see :func:`parse_model`."""
     path = Path(path)
-    try:
-        text = limits.read_input(path)
-    except FileNotFoundError:
-        raise ModelError("the model file does not exist", file=str(path)) from None
-    except IsADirectoryError:
-        raise ModelError("this is a folder, not a model file", file=str(path)) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ModelError(f"cannot read the model file: {exc.__class__.__name__}: {exc}",
-                         file=str(path)) from exc
-    return parse_model(text, str(path), symbolic)
+    return parse_model(read_text(path, "model file"), str(path), symbolic)

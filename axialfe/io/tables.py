@@ -20,7 +20,7 @@ forms by the same code and reads them to the same model.
 A table file is untrusted input like the model file: it must lie in the model
 file's folder or below it (an absolute path, or one that leaves the folder
 through ``..`` or a link, is refused), it is a regular file within the size
-limit (:mod:`axialfe.io.limits`), and nothing in it is evaluated.  Errors are
+limit (:mod:`axialfe.io.source`), and nothing in it is evaluated.  Errors are
 located as ``FILE.csv:LINE: column: message``.
 """
 
@@ -33,8 +33,8 @@ from pathlib import Path, PurePath
 
 from ..errors import ModelError, suggest
 from ..units import parse_quantity
-from . import limits
 from .schema import FILE_TABLE, SEGMENT, STATION, check_types
+from .source import read_text
 
 __all__ = ["Row", "expand_tables"]
 
@@ -88,23 +88,6 @@ def _locate(name: str, model_source: str | None, line: int | None) -> Path:
     return path
 
 
-def _read(path: Path, model_source, line) -> str:
-    try:
-        return limits.read_input(path)
-    except FileNotFoundError:
-        raise ModelError(f"the table file '{path}' does not exist", file=model_source,
-                         line=line, place="file") from None
-    except IsADirectoryError:
-        raise ModelError(f"'{path}' is a folder, not a table file", file=model_source,
-                         line=line, place="file") from None
-    except UnicodeDecodeError as exc:
-        raise ModelError(f"not UTF-8 text: {exc.reason} at byte {exc.start}",
-                         file=str(path)) from None
-    except OSError as exc:
-        raise ModelError(f"cannot read the table file: {exc.__class__.__name__}: {exc}",
-                         file=str(path)) from exc
-
-
 def _header(cells, table, shown):
     """The columns of a header row: ``[(key, unit or None, header text)]``."""
     values = _value_columns(table)
@@ -155,7 +138,7 @@ def read_table(path: Path, table: str, shown: str, model_source=None, line=None)
     ``model_source`` and ``line`` locate the key that names the file (for a file
     that cannot be read).
     """
-    text = _read(path, model_source, line)
+    text = read_text(path, f"table file '{path}'", file=model_source, line=line, place="file")
     lines = text.splitlines()
     reader = csv.reader(lines, strict=True)
     try:

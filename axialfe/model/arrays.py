@@ -23,7 +23,7 @@ import numpy as np
 from .._gcpause import gc_paused
 from ..errors import ModelError
 
-__all__ = ["ModelArrays", "gather", "from_arrays"]
+__all__ = ["ModelArrays", "gather", "from_arrays", "frozen"]
 
 _FIELDS = operator.attrgetter("section", "end_section", "material", "start", "end", "misfit",
                               "distributed_load", "temperature_change", "preload")
@@ -70,13 +70,14 @@ class ModelArrays:
         for name in self.__dataclass_fields__:
             value = getattr(self, name)
             # an array its maker handed over read-only is kept; any other is copied
-            value = value.view() if _frozen(value) else np.array(value)
+            value = value.view() if frozen(value) else np.array(value)
             value.setflags(write=False)
             object.__setattr__(self, name, value)
 
 
-def _frozen(value) -> bool:
-    """True for an ndarray that is read-only, as is every array it is a view of."""
+def frozen(value) -> bool:
+    """True for an ndarray that is read-only, as is every array it is a view of: nothing
+    can write it, so it may be kept without a copy (the model and the results do)."""
     while isinstance(value, np.ndarray):
         if value.flags.writeable:
             return False
