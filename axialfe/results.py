@@ -18,7 +18,7 @@ from .model import Model
 from .model.arrays import frozen as _frozen
 from .units import OutputUnits
 
-__all__ = ["CaseResult", "Solution", "RESIDUAL_BOUND", "certify"]
+__all__ = ["CaseResult", "Solution", "RESIDUAL_BOUND", "certify", "rounding_bounds"]
 
 # The largest station imbalance, relative to the largest force, a result may have
 # and still be called accurate (far above rounding, far below any error that matters).
@@ -145,6 +145,7 @@ class CaseResult:
         """Plain numbers in ``units`` (default: the model's), keyed as in the JSON output."""
         units = units or self.model.units
         fF, fL, fD, fS = (units.factor(k) for k in ("force", "length", "displacement", "stress"))
+        fT = units.factor("temperature")
         m = self.model
         stations = [{"name": st.name, "x": st.x / fL, "displacement": float(self.u[i] / fD)}
                     for i, st in enumerate(m.stations)]
@@ -153,7 +154,7 @@ class CaseResult:
                      "axial_force": (self.axial_force[i] / fF).tolist(),
                      "stress": (self.stress[i] / fS).tolist(),
                      "elongation": float(self.elongation[i] / fD),
-                     "temperature_change": float(self.temperature_change[i]),
+                     "temperature_change": float(self.temperature_change[i] / fT),
                      "thermal_strain": float(self.thermal_strain[i]),
                      "mechanical_strain": self.mechanical_strain[i].tolist(),
                      # a preload's misfit, as the solver found it (axialfe.engine.preload)
@@ -227,3 +228,24 @@ def certify(residual: float) -> tuple[str, str | None]:
     return "inaccurate", (f"the equilibrium residual {residual:.1e} exceeds {RESIDUAL_BOUND:.0e}: "
                           "the result does not balance and must not be used; check for segments "
                           "of widely different stiffness or a nearly singular model")
+
+
+# values within this many units of rounding of the largest of their kind are rounding noise
+_NOISE_ULPS = 1e3 * float(np.finfo(float).eps)
+
+
+def rounding_bounds(result: CaseResult) -> dict[str, float]:
+    """The magnitude below which a value of each kind is rounding noise in ``result`` (SI).
+
+    The bound is the one the recovery uses for the residual: 1000 units of rounding of
+    the largest value of the same kind in the case (displacements with elongations,
+    forces with reactions, loads and gap forces, stresses).  Output shows a value
+    below it as 0 (a symmetric station that does not move, not 1.7e-21 mm).
+    """
+    def largest(*arrays):
+        return max((float(np.abs(a).max(initial=0.0)) for a in arrays), default=0.0)
+
+    return {"displacement": _NOISE_ULPS * largest(result.u, result.elongation, result.gap_opening),
+            "force": _NOISE_ULPS * largest(result.axial_force, result.reactions, result.applied,
+                                           result.gap_force),
+            "stress": _NOISE_ULPS * largest(result.stress)}

@@ -360,9 +360,12 @@ def to_unit(value, unit: str, kind: str):
 
 
 _SYSTEMS = {
-    "SI": {"force": "N", "length": "mm", "displacement": "mm", "stress": "MPa"},
-    "US": {"force": "lbf", "length": "in", "displacement": "in", "stress": "psi"},
+    "SI": {"force": "N", "length": "mm", "displacement": "mm", "stress": "MPa", "temperature": "K"},
+    "US": {"force": "lbf", "length": "in", "displacement": "in", "stress": "psi",
+           "temperature": "degF"},
 }
+# the units of a temperature change in output, and their size in kelvin
+TEMPERATURE_UNITS = {"K": 1.0, "degF": 5.0 / 9.0}
 _KIND_OF = {"force": "force", "length": "length", "displacement": "length", "stress": "stress"}
 _KNOWN = {key: {system[key] for system in _SYSTEMS.values()} for key in _KIND_OF}
 
@@ -375,14 +378,20 @@ class OutputUnits:
     ----------
     force, length, displacement, stress : str
         Unit names that pint understands; each is checked for its dimension.
+    temperature : {'K', 'degF'}
+        The unit of temperature changes (a difference: 1 degF = 5/9 K).
     """
 
     force: str = "N"
     length: str = "mm"
     displacement: str = "mm"
     stress: str = "MPa"
+    temperature: str = "K"
 
     def __post_init__(self):
+        if self.temperature not in TEMPERATURE_UNITS:
+            raise UnitError(f"a temperature change is shown in K or degF: got '{self.temperature}'",
+                            options=tuple(TEMPERATURE_UNITS))
         for key, kind in _KIND_OF.items():
             # the units of the two systems are known good: checking them would start
             # pint for every model built in code
@@ -397,11 +406,14 @@ class OutputUnits:
         return cls(**{**_SYSTEMS[name], **{k: v for k, v in overrides.items() if v}})
 
     def factor(self, key: str) -> float:
-        """Return the SI value of one ``key`` unit (``force``, ``length``, ...)."""
+        """Return the SI value of one ``key`` unit (``force``, ``length``, ..., ``temperature``:
+        the size of its degree in kelvin)."""
+        if key == "temperature":
+            return TEMPERATURE_UNITS[self.temperature]
         return unit_factor(getattr(self, key), _KIND_OF[key])
 
     def as_dict(self) -> dict[str, str]:
-        return {k: getattr(self, k) for k in _KIND_OF}
+        return {**{k: getattr(self, k) for k in _KIND_OF}, "temperature": self.temperature}
 
 
 def temperature_to_kelvin(value: float, unit: str) -> float:

@@ -81,8 +81,8 @@ def test_table_report(bar):
         assert caution in out
     # reactions -P*b/L = -6000 N and -P*a/L = -3000 N (Gere and Goodno, 8th ed., 2.4)
     lines = [line.split() for line in out.splitlines()]
-    assert ["A", "fixed", "-6000"] in lines
-    assert ["B", "fixed", "-3000"] in lines
+    assert ["A", "fixed", "-6000", "6000", "pulls", "it", "toward", "+x"] in lines
+    assert ["B", "fixed", "-3000", "3000", "pushes", "it", "toward", "+x"] in lines
 
 
 def test_json_keys_of_the_spec(bar):
@@ -91,7 +91,8 @@ def test_json_keys_of_the_spec(bar):
     data = json.loads(result.stdout)
     assert {"title", "units", "cases"} <= set(data)
     assert data["title"] == "cli bar"
-    assert data["units"] == {"force": "N", "length": "mm", "displacement": "mm", "stress": "MPa"}
+    assert data["units"] == {"force": "N", "length": "mm", "displacement": "mm", "stress": "MPa",
+                             "temperature": "K"}
     [case] = data["cases"]
     assert case["name"] == "base"
     assert {"name", "stations", "segments", "reactions", "equilibrium_residual"} <= set(case)
@@ -123,9 +124,12 @@ def test_csv(bar):
     rows = list(csv.reader(io.StringIO(result.stdout)))
     assert rows[0] == ["case", "item", "name", "quantity", "end", "value", "unit"]
     by = {(r[1], r[2], r[3], r[4]): (float(r[5]), r[6]) for r in rows[1:]
-          if r[3] != "state" and r[1] != "check"}
+          if r[3] not in ("state", "direction") and r[1] != "check"}
     assert by[("segment", "CB", "axial_force", "to")] == (pytest.approx(-3000.0, rel=1e-9), "N")
     assert by[("reaction", "A", "force", "")] == (pytest.approx(-6000.0, rel=1e-9), "N")
+    assert by[("reaction", "A", "load_on_support", "")] == (pytest.approx(6000.0, rel=1e-9), "N")
+    assert ["base", "reaction", "A", "direction", "", "pulls the support at 'A' toward +x",
+            ""] in rows
     assert by[("station", "C", "displacement", "")] == (pytest.approx(0.3, rel=1e-9), "mm")
 
 
@@ -151,7 +155,8 @@ def test_unit_overrides(bar):
                  "--length-unit", "m", "--displacement-unit", "in")
     assert result.exit_code == 0, result.output
     data = json.loads(result.stdout)
-    assert data["units"] == {"force": "kN", "length": "m", "displacement": "in", "stress": "ksi"}
+    assert data["units"] == {"force": "kN", "length": "m", "displacement": "in", "stress": "ksi",
+                             "temperature": "K"}
     case = data["cases"][0]
     seg = {s["name"]: s for s in case["segments"]}
     assert seg["AC"]["axial_force"] == pytest.approx([6.0, 6.0], rel=1e-9)
@@ -168,7 +173,8 @@ def test_us_system_in_the_file(bar):
     bar.write_text(MODEL.replace('title = "cli bar"', 'title = "cli bar"\n[units]\nsystem = "US"'),
                    encoding="utf-8")
     data = json.loads(run("solve", bar, "--format", "json").stdout)
-    assert data["units"] == {"force": "lbf", "length": "in", "displacement": "in", "stress": "psi"}
+    assert data["units"] == {"force": "lbf", "length": "in", "displacement": "in", "stress": "psi",
+                             "temperature": "degF"}
     reac = {r["at"]: r["force"] for r in data["cases"][0]["reactions"]}
     assert reac["A"] == pytest.approx(-6000 / 4.4482216152605, rel=1e-9)  # NIST SP 811, B.8
 

@@ -165,8 +165,8 @@ def test_solve_json_carries_the_envelope(cli):
 
 def test_solve_table_summary_and_full_envelope(cli):
     out = cli("solve", STRUT).stdout
-    assert (" envelope over 5 cases (least and largest, with the case that gives each); "
-            "axialfe solve --envelope lists every item") in out
+    assert (" envelope over 5 cases (least and largest with their case; --envelope lists every "
+            "item)") in out
     lines = out.splitlines()
     head = lines.index(next(x for x in lines if x.startswith(" envelope over")))
     assert lines[head + 1].split() == ["quantity", "min", "case", "at", "max", "case", "at"]

@@ -448,3 +448,116 @@ def test_plot_sweep_of_a_real_sweep(tmp_path):
     at = int(np.flatnonzero(x == result.events[0].value)[0])
     assert x[at - 1] < x[at] < x[at + 1] and y[at] == pytest.approx(0.0, abs=1e-6)
     assert _lines(fig, "sweep-event-")[0].get_xdata()[0] == pytest.approx(close, rel=1e-9)
+
+
+# --- labels clear of one another and of the curves -------------------------------------
+def _boxes_and_curves(fig):
+    """Per axes: the renderer's box of every visible label, and points along every curve."""
+    renderer = fig.canvas.get_renderer()
+    out = []
+    for ax in fig.axes:
+        boxes = [(t.get_text(), t.get_window_extent(renderer)) for t in ax.texts
+                 if t.get_visible() and t.get_text().strip()]
+        points = []
+        for line in ax.lines:
+            xy = line.get_transform().transform(np.asarray(line.get_xydata(), dtype=float))
+            for a, b in zip(xy[:-1], xy[1:]):
+                if np.all(np.isfinite(a)) and np.all(np.isfinite(b)):
+                    n = int(max(2, np.hypot(*(b - a)) / 0.5))      # a point every half pixel
+                    points.append(a + np.linspace(0.0, 1.0, n)[:, None] * (b - a))
+        out.append((boxes, np.vstack(points) if points else np.zeros((0, 2))))
+    return out
+
+
+@pytest.mark.parametrize("path", EXAMPLES, ids=[p.name for p in EXAMPLES])
+def test_no_label_overlaps_a_label_or_a_curve(path):
+    import itertools
+
+    solution = solve(read_model(path))
+    for case in solution.cases[:2]:
+        fig = plot_case(case, "all")
+        for boxes, points in _boxes_and_curves(fig):
+            for (ta, a), (tb, b) in itertools.combinations(boxes, 2):
+                assert not a.overlaps(b), (case.name, ta, tb)
+            for text, box in boxes:
+                inside = ((points[:, 0] > box.x0 + 0.5) & (points[:, 0] < box.x1 - 0.5)
+                          & (points[:, 1] > box.y0 + 0.5) & (points[:, 1] < box.y1 - 0.5))
+                assert not inside.any(), (case.name, text)
+        legends = [ax.get_legend() for ax in fig.axes if ax.get_legend() is not None]
+        renderer = fig.canvas.get_renderer()
+        frames = [ax.get_window_extent(renderer) for ax in fig.axes]
+        for legend in legends:
+            box = legend.get_window_extent(renderer)
+            assert not any(box.overlaps(f) for f in frames)       # beside the diagrams
+
+
+def test_most_values_keep_their_label():
+    # the decluttering hides a label only where no place is free: on the stepped bar every
+    # station value is shown
+    case = solve(parse_model(STEPPED))["push"]
+    fig = plot_case(case, "force")
+    shown = [t.get_text() for t in fig.axes[1].texts if t.get_visible() and t.get_text()]
+    hidden = [t.get_text() for t in fig.axes[1].texts if not t.get_visible()]
+    assert hidden == [] and len(shown) >= 2
+
+
+def test_yield_strength_line_and_segments_beyond_it():
+    # A 20 mm steel rod (250 MPa, ASTM A36 minimum yield) pulled by 100 kN: 100e3 / 314.16 mm^2
+    # = 318.3 MPa, beyond yield; the line stands at 250 MPa over the rod's length.
+    text = """
+[sections.s]
+shape = "round"
+diameter = "20 mm"
+[stations]
+a = "0 mm"
+b = "500 mm"
+[[segments]]
+name = "rod"
+from = "a"
+to = "b"
+material = "structural-steel"
+section = "s"
+[[supports]]
+at = "a"
+[[loads]]
+at = "b"
+force = "100 kN"
+"""
+    case = solve(parse_model(text))["base"]
+    fig = plot_case(case, "stress")
+    ax = fig.axes[1]
+    yield_line, = [l for l in ax.lines if (l.get_gid() or "").startswith("yield-")]
+    np.testing.assert_allclose(yield_line.get_ydata(), [250.0, 250.0])
+    np.testing.assert_allclose(yield_line.get_xdata(), [0.0, 500.0])
+    beyond, = [l for l in ax.lines if (l.get_gid() or "").startswith("beyond-yield-")]
+    assert np.nanmin(beyond.get_ydata()) == pytest.approx(318.31, rel=1e-4)
+    assert "rod: beyond yield" in [t.get_text() for t in ax.texts if t.get_visible()]
+    # within yield, no mark
+    calm = solve(parse_model(text.replace('"100 kN"', '"10 kN"')))["base"]
+    ax = plot_case(calm, "stress").axes[1]
+    assert not [l for l in ax.lines if (l.get_gid() or "").startswith("beyond-yield-")]
+
+
+def test_sketch_writes_gap_state_and_force_and_loads_sit_on_their_part():
+    model = read_model(ROOT / "examples" / "shaft-end-float.toml")
+    case = solve(model)["base"]
+    sketch = plot_case(case, "force").axes[0]
+    texts = [t.get_text() for t in sketch.texts if t.get_visible()]
+    assert "end-float (contact): closed, -38.88 kN" in texts
+    # BOLT: the bolt and the sleeve side by side (two lanes), the stem beyond the nut in the
+    # bolt's lane; the load at the tip acts on the stem, so its arrow stands in that lane's
+    # middle (0.75 of the sketch's height, the upper of two lanes), not across both
+    from matplotlib.text import Annotation
+
+    bolt = solve(parse_model(BOLT))["base"]
+    sketch = plot_case(bolt, "force").axes[0]
+    arrow, = [t for t in sketch.texts if isinstance(t, Annotation) and not t.get_text()]
+    assert arrow.xy == pytest.approx((200.0 - 0.06 * 200.0, 0.75))
+    assert list(lanes(bolt.model)) == [0, 1, 0]
+
+
+def test_svg_text_stays_text(tmp_path):
+    path = tmp_path / "d.svg"
+    plot_case(solve(parse_model(BOLT))["base"], "all", path)
+    svg = path.read_text(encoding="utf-8")
+    assert "<text" in svg and "axial force" in svg

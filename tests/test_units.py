@@ -186,9 +186,17 @@ def test_unit_error_is_a_value_error():
 
 def test_output_systems():
     assert OutputUnits.system("SI").as_dict() == {"force": "N", "length": "mm",
-                                                 "displacement": "mm", "stress": "MPa"}
+                                                 "displacement": "mm", "stress": "MPa",
+                                                 "temperature": "K"}
     us = OutputUnits.system("US", force="kip")
-    assert us.as_dict() == {"force": "kip", "length": "in", "displacement": "in", "stress": "psi"}
+    assert us.as_dict() == {"force": "kip", "length": "in", "displacement": "in", "stress": "psi",
+                            "temperature": "degF"}
+    # a temperature change in degF is 5/9 of one in K
+    assert us.factor("temperature") == 5 / 9 and OutputUnits().factor("temperature") == 1.0
+    with pytest.raises(UnitError) as err:
+        OutputUnits(temperature="degC")
+    assert str(err.value) == ("a temperature change is shown in K or degF: got 'degC'; expected "
+                              "one of: 'K', 'degF'")
     assert close(us.factor("force"), 4448.2216152605)
     assert close(us.factor("length"), 0.0254)
 

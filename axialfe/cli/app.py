@@ -21,6 +21,21 @@ from ..errors import AxialfeError
 app = typer.Typer(add_completion=False, no_args_is_help=True,
                   help="Axially loaded bars and assemblies by the direct stiffness method.")
 
+
+def _show_version(value: bool):
+    if value:
+        from .. import __version__
+
+        typer.echo(f"axialfe {__version__}")
+        raise typer.Exit(0)
+
+
+@app.callback()
+def _main(version: Annotated[bool, typer.Option(
+        "--version", callback=_show_version, is_eager=True,
+        help="Print the version and exit.")] = False):
+    """Axially loaded bars and assemblies by the direct stiffness method."""
+
 EXIT_INPUT = 2
 EXIT_INACCURATE = 4
 # the exit code of a verdict: checks (and joints, fits) by their overall status, claims by
@@ -75,6 +90,15 @@ ForceUnit = Annotated[Optional[str], typer.Option("--force-unit", help="Unit of 
 LengthUnit = Annotated[Optional[str], typer.Option("--length-unit", help="Unit of positions and lengths.")]
 DispUnit = Annotated[Optional[str], typer.Option("--displacement-unit", help="Unit of displacements, e.g. mm, in.")]
 StressUnit = Annotated[Optional[str], typer.Option("--stress-unit", help="Unit of stresses, e.g. MPa, ksi.")]
+
+
+class TemperatureUnit(str, Enum):
+    K = "K"
+    degF = "degF"
+
+
+TempUnit = Annotated[Optional[TemperatureUnit], typer.Option(
+    "--temperature-unit", help="Unit of temperature changes: K, or degF (the US system's default).")]
 Output = Annotated[Optional[Path], typer.Option("--output", "-o", dir_okay=False,
                                                 help="Write to this file instead of the terminal.")]
 
@@ -108,14 +132,15 @@ def outputs(inputs, *named):
         check_output(path, [p for p in inputs if p is not None], option, others=given[:i])
 
 
-def output_units(model, force=None, length=None, displacement=None, stress=None):
+def output_units(model, force=None, length=None, displacement=None, stress=None,
+                 temperature=None):
     """The model's output units with the command line's overrides, each checked."""
     from ..errors import UnitError
     from ..units import OutputUnits
 
     base = model.units.as_dict()
     for key, value in (("force", force), ("length", length), ("displacement", displacement),
-                       ("stress", stress)):
+                       ("stress", stress), ("temperature", temperature)):
         if value:
             try:
                 OutputUnits(**{**base, key: value})
@@ -125,7 +150,7 @@ def output_units(model, force=None, length=None, displacement=None, stress=None)
     return OutputUnits(**base)
 
 
-def load(path, force=None, length=None, displacement=None, stress=None):
+def load(path, force=None, length=None, displacement=None, stress=None, temperature=None):
     """Read a model file and the units to report it in (the model's, with the overrides)."""
     from ..errors import ModelError
     from ..io.modelfile import read_model
@@ -139,7 +164,7 @@ def load(path, force=None, length=None, displacement=None, stress=None):
             raise ModelError("this is a fit file (it has a [fit] table): check it with "
                              f"'axialfe fit {path}'", file=str(path)) from None
         raise
-    return model, output_units(model, force, length, displacement, stress)
+    return model, output_units(model, force, length, displacement, stress, temperature)
 
 
 def stated_values(path, model, solution):
@@ -183,17 +208,22 @@ def solve(model: ModelPath,
           format: Annotated[Format, typer.Option("--format", "-f", help="Output format.")] = Format.table,
           output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
           displacement_unit: DispUnit = None, stress_unit: StressUnit = None,
+          temperature_unit: TempUnit = None,
           envelope: Annotated[bool, typer.Option(
               "--envelope", help="List the envelope of every station, segment, reaction and "
               "gap over the cases (least and largest, with the case of each); without it a "
-              "model of several cases gets a short summary.")] = False):
+              "model of several cases gets a short summary.")] = False,
+          brief: Annotated[bool, typer.Option(
+              "--brief", help="Print only each case's reactions and notes, and the governing "
+              "check (table format).")] = False):
     """Solve a model: displacements, segment forces and stresses, reactions, gaps, checks."""
     from ..output.text import render
     from ..engine.system import solve as run
 
     with user_errors(model):
         outputs([model], ("--output", output))
-        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit,
+                        temperature_unit.value if temperature_unit else None)
         solution = run(m)
         from ..checks import check_solution
         from ..checks.assumptions import assumption_notes
@@ -202,7 +232,8 @@ def solve(model: ModelPath,
         checks = check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution), envelope=envelope_of(solution),
-                    full_envelope=envelope, notes=assumption_notes(solution)), output)
+                    full_envelope=envelope, notes=assumption_notes(solution), brief=brief),
+             output)
         plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
@@ -272,7 +303,8 @@ def sweep(model: ModelPath,
               "--plot", dir_okay=False, help="Also draw gap forces and segment stresses against "
               "the parameter, events marked (.png or .svg).")] = None,
           force_unit: ForceUnit = None, length_unit: LengthUnit = None,
-          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+          displacement_unit: DispUnit = None, stress_unit: StressUnit = None,
+          temperature_unit: TempUnit = None):
     """Solve a case along a temperature or load range and report the exact events."""
     import numpy as np
 
@@ -297,7 +329,8 @@ def sweep(model: ModelPath,
                              "--temperature-factor or --load-factor")
         parameter, text = given[0]
         start, stop, unit = parse_range(text, parameter)
-        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
+        m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit,
+                        temperature_unit.value if temperature_unit else None)
         from ..io.physical import check_sweep_range
 
         check_sweep_range(m, parameter, start, stop, unit)
@@ -470,6 +503,8 @@ class CheckOnlyFormat(str, Enum):
 
 @app.command()
 def check(model: ModelPath,
+          case: Annotated[Optional[str], typer.Option(
+              "--case", help="Check this case or combination only (default: every one).")] = None,
           format: Annotated[CheckOnlyFormat, typer.Option(
               "--format", "-f", help="Output format (JSON and CSV give each check's demand and "
               "capacity, or required, actual and margin of a deformation limit, with the "
@@ -489,6 +524,10 @@ def check(model: ModelPath,
         outputs([model], ("--output", output))
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
+        if case is not None:  # one case: its checks, its status and its exit code
+            from ..results import Solution
+
+            solution = Solution(solution.model, (_pick_case(solution, case),))
         report = check_solution(solution)
         if format is CheckOnlyFormat.json:
             text = checks_json(report, units, title=m.title)

@@ -77,9 +77,9 @@ def _summary_rows(env: Envelope, units: OutputUnits):
     row(f"axial force [{u['force']}]", data["segments"][0::2], lambda e: e["name"])
     row(f"stress [{u['stress']}]", data["segments"][1::2], lambda e: e["name"])
     for e in data["reactions"]:
-        row(f"reaction at '{e['at']}' [{u['force']}]", [e], lambda e: e["at"])
+        row(f"reaction [{u['force']}]", [e], lambda e: e["at"])
     for e in data["gaps"][0::2]:
-        row(f"gap '{e['name']}' force [{u['force']}]", [e], lambda e: e["name"])
+        row(f"gap force [{u['force']}]", [e], lambda e: e["name"])
     return rows
 
 
@@ -88,7 +88,11 @@ def envelope_summary_lines(env: Envelope, units: OutputUnits, grid) -> list[str]
     largest value, the case and the item."""
     if not env.cases:
         return [" " + _title(env)]
-    out = [" " + _title(env) + "; axialfe solve --envelope lists every item"]
+    n = len(env.cases)
+    out = [f" envelope over {n} case{'s' if n != 1 else ''} (least and largest with their case; "
+           "--envelope lists every item)"]
+    if env.excluded:
+        out.append("   left out as inaccurate: " + ", ".join(f"'{c}'" for c in env.excluded))
     out += grid(["quantity", "min", "case", "at", "max", "case", "at"], _summary_rows(env, units))
     return out
 

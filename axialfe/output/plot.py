@@ -11,7 +11,17 @@ diagrams stacked over a shared x axis.  Segments that overlap along x
 (parallel parts such as a bolt inside a sleeve) go to separate *lanes*; each
 lane is one labelled line, series segments continue one another, and a jump of
 the value at a station shows as a vertical step.  Tension is shaded above the
-axis, compression below, in two colours of their own.
+axis, compression below, in two colours of their own.  The stress diagram
+carries each segment's yield strength as a line over its length, and marks the
+segments whose stress goes beyond it.  The sketch writes each gap's state and
+force, and draws each load on the part it acts on.
+
+No label overlaps another label or a curve: every value label is placed by
+:func:`declutter` at the first of a few positions around its point where its
+box, measured by the renderer, is clear of the labels already placed and of
+the diagram's curves, and is left out where none is (the tables have every
+value).  Text in an SVG stays text (``svg.fonttype = "none"``), so a diagram can
+be edited.
 """
 
 from __future__ import annotations
@@ -28,7 +38,7 @@ from ..results import CaseResult
 from ..units import OutputUnits
 
 __all__ = ["WHAT", "FIGURE_SUFFIXES", "Curve", "lanes", "diagram_data", "plot_case",
-           "plot_sweep", "save_figure"]
+           "plot_sweep", "save_figure", "declutter", "label_boxes", "curve_paths", "Diagram"]
 
 WHAT = ("force", "stress", "displacement", "all")
 FIGURE_SUFFIXES = (".png", ".svg")
@@ -43,6 +53,7 @@ LANE_COLOURS = ("#27303a", "#6a4f8c", "#3d7a4e", "#9a4a3f", "#4a6a9a", "#7a6a2a"
 LANE_STYLES = ("-", "--", "-.", ":", (0, (5, 1, 1, 1)), (0, (1, 1)))
 BLOCK_FACE = "#dfe3e6"
 SUPPORT_COLOUR = "#4d565e"
+YIELD = "#a2342a"          # the yield strength, and the segments beyond it
 
 _QUANTITY = {"force": ("axial force", "force"), "stress": ("stress", "stress"),
              "displacement": ("displacement", "displacement")}
@@ -238,6 +249,13 @@ def _lane_label(items, parallel):
     return _text(text)
 
 
+def _rank(artist, rank: int):
+    """Mark a label with its rank for :func:`declutter` (lower places first)."""
+    artist._axialfe_rank = rank
+    artist.set_in_layout(False)
+    return artist
+
+
 def _draw_diagram(ax, result, what, units, station_x):
     curves = diagram_data(result, what, units)
     model = result.model
@@ -268,18 +286,16 @@ def _draw_diagram(ax, result, what, units, station_x):
             for c in items:
                 if parallel[c.index]:
                     m = len(c.x) // 2
-                    ax.annotate(_text(c.segment), (0.5 * (c.x[0] + c.x[-1]), c.y[m]),
-                                xytext=(0, 6 + 9 * k), textcoords="offset points",
-                                ha="center", fontsize=7, color=colour, style="italic")
+                    _rank(ax.annotate(_text(c.segment), (0.5 * (c.x[0] + c.x[-1]), c.y[m]),
+                                      xytext=(0, 6 + 9 * k), textcoords="offset points",
+                                      ha="center", fontsize=7, color=colour, style="italic"), 1)
+    if what == "stress":
+        _draw_yield(ax, result, curves, units, label_all)
     name, key = _QUANTITY[what]
-    ax.set_ylabel(f"{name} [{getattr(units, key)}]", fontsize=8, color=INK)
-    if what != "displacement":
-        ax.text(0.995, 0.97, "tension +", transform=ax.transAxes, ha="right", va="top",
-                fontsize=7, color=TENSION)
-        ax.text(0.995, 0.03, "compression -", transform=ax.transAxes, ha="right", va="bottom",
-                fontsize=7, color=COMPRESSION)
-    if several:
-        ax.legend(fontsize=7, frameon=False, loc="upper left")
+    sense = "" if what == "displacement" else ", tension +"
+    ax.set_ylabel(f"{name} [{getattr(units, key)}]{sense}", fontsize=8, color=INK)
+    if several or what == "stress" and ax.get_legend_handles_labels()[0]:
+        ax.legend(fontsize=7, frameon=False, loc="upper left", bbox_to_anchor=(1.0, 1.0))
     ymin, ymax = ax.get_ylim()
     pad = 0.12 * max(ymax - ymin, 1e-300)
     ax.set_ylim(ymin - pad, ymax + pad)
@@ -287,10 +303,43 @@ def _draw_diagram(ax, result, what, units, station_x):
     return curves
 
 
+def _draw_yield(ax, result, curves, units, label_all):
+    """Each segment's yield strength as a line over its length (in tension above the axis,
+    in compression below, where the segment's stress has that sign), and the segments
+    whose stress goes beyond it marked."""
+    fS = units.factor("stress")
+    drawn = False
+    for c in curves:
+        mat = result.model.segments[c.index].material
+        if mat.yield_strength is None:
+            continue
+        fy_t = mat.yield_strength / fS
+        fy_c = (mat.compressive_yield_strength or mat.yield_strength) / fS
+        for sign, fy in ((1.0, fy_t), (-1.0, fy_c)):
+            if not np.any(sign * c.y > 0):
+                continue
+            line, = ax.plot([c.x[0], c.x[-1]], [sign * fy, sign * fy], color=YIELD,
+                            linewidth=0.9, linestyle=(0, (6, 2, 1, 2)),
+                            label=None if drawn else "yield strength")
+            line.set_gid(f"yield-{c.index}-{'t' if sign > 0 else 'c'}")
+            drawn = True
+            beyond = sign * c.y > fy
+            if np.any(beyond):
+                over = np.where(beyond, c.y, np.nan)
+                mark, = ax.plot(c.x, over, color=YIELD, linewidth=3.0, alpha=0.8,
+                                solid_capstyle="butt")
+                mark.set_gid(f"beyond-yield-{c.index}")
+                j = int(np.nanargmax(np.abs(over)))
+                _rank(ax.annotate(_text(f"{c.segment}: beyond yield"), (c.x[j], c.y[j]),
+                                  xytext=(0, 8 if sign > 0 else -14), textcoords="offset points",
+                                  ha="center", fontsize=7, color=YIELD, weight="bold"), 0)
+
+
 def _label_values(ax, items, colour, label_all, seen):
     """Label the value at each station end of each curve (both sides where it jumps).
 
     A value already labelled at the same point (by a coinciding lane) is not repeated.
+    The extremes rank before the other values, so that :func:`declutter` keeps them.
     """
     def fresh(point):
         for px, py in seen:
@@ -300,12 +349,18 @@ def _label_values(ax, items, colour, label_all, seen):
         seen.append(point)
         return True
 
+    ys = np.concatenate([c.y for c in items])
+    xs = np.concatenate([c.x for c in items])
+    extremes = {float(np.nanmax(ys)), float(np.nanmin(ys))}
+
+    def label(point, dx, ha):
+        rank = 2 if point[1] in extremes else 3
+        _rank(ax.annotate(_fmt(point[1]), point, xytext=(dx, 4 if point[1] >= 0 else -10),
+                          textcoords="offset points", ha=ha, fontsize=7, color=colour), rank)
+
     if not label_all:
-        ys = np.concatenate([c.y for c in items])
-        xs = np.concatenate([c.x for c in items])
         for j in {int(np.nanargmax(ys)), int(np.nanargmin(ys))}:
-            ax.annotate(_fmt(ys[j]), (xs[j], ys[j]), xytext=(0, 4), textcoords="offset points",
-                        ha="center", fontsize=7, color=colour)
+            label((xs[j], ys[j]), 0, "center")
         return
     prev = None
     for c in items:
@@ -313,19 +368,128 @@ def _label_values(ax, items, colour, label_all, seen):
         joined = prev is not None and math.isclose(prev[0], left[0], rel_tol=1e-12, abs_tol=1e-12)
         same = joined and math.isclose(prev[1], left[1], rel_tol=1e-6, abs_tol=1e-12)
         if not same and fresh(left):
-            ax.annotate(_fmt(left[1]), left, xytext=(3, 4 if left[1] >= 0 else -10),
-                        textcoords="offset points", ha="left", fontsize=7, color=colour)
+            label(left, 3, "left")
         if fresh(right):
-            ax.annotate(_fmt(right[1]), right, xytext=(-3, 4 if right[1] >= 0 else -10),
-                        textcoords="offset points", ha="right", fontsize=7, color=colour)
+            label(right, -3, "right")
         # a peak inside the segment (a taper) beyond both end values is labelled too
         inner = int(np.argmax(np.abs(c.y)))
         if 0 < inner < len(c.y) - 1 and abs(c.y[inner]) > max(abs(c.y[0]), abs(c.y[-1])) * (1 + 1e-9):
             peak = (c.x[inner], c.y[inner])
             if fresh(peak):
-                ax.annotate(_fmt(peak[1]), peak, xytext=(0, 4 if peak[1] >= 0 else -10),
-                            textcoords="offset points", ha="center", fontsize=7, color=colour)
+                label(peak, 0, "center")
         prev = right
+
+
+# --- labels clear of one another and of the curves ----------------------------
+_OFFSETS = ((0, 5), (0, -11), (5, 4), (-5, 4), (5, -10), (-5, -10), (0, 14), (0, -20),
+            (9, 13), (-9, 13), (9, -19), (-9, -19), (0, 24), (0, -30))
+# of a plain text: by (widths, heights), sideways and up or down
+_SHIFTS = ((0, 0), (0, -1), (0, 1), (-0.55, 0), (0.55, 0), (-0.55, -1), (0.55, -1), (0, -2),
+           (-0.55, 1), (0.55, 1), (0, 2), (-1.1, 0), (1.1, 0))
+
+
+def _curve_segments(ax):
+    """The line segments (display coordinates) of every curve of an axes: its Line2D
+    artists, the zero line and the lines of the sketch included."""
+    parts = []
+    for line in ax.lines:
+        if not line.get_visible():
+            continue
+        xy = line.get_transform().transform(np.asarray(line.get_xydata(), dtype=float))
+        if len(xy) < 2:
+            continue
+        a, b = xy[:-1], xy[1:]
+        ok = np.all(np.isfinite(a), axis=1) & np.all(np.isfinite(b), axis=1)
+        parts.append(np.hstack([a[ok], b[ok]]))
+    return np.vstack(parts) if parts else np.zeros((0, 4))
+
+
+def _crosses(box, segs) -> bool:
+    """Whether any segment (x0, y0, x1, y1 rows) meets the box (Liang-Barsky clipping)."""
+    if not len(segs):
+        return False
+    x0, y0, x1, y1 = segs.T
+    dx, dy = x1 - x0, y1 - y0
+    t0, t1 = np.zeros(len(x0)), np.ones(len(x0))
+    keep = np.ones(len(x0), dtype=bool)
+    for p, q in ((-dx, x0 - box.x0), (dx, box.x1 - x0), (-dy, y0 - box.y0), (dy, box.y1 - y0)):
+        flat = p == 0
+        keep &= ~(flat & (q < 0))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            t = np.where(flat, 0.0, q / np.where(flat, 1.0, p))
+        t0 = np.where(~flat & (p < 0), np.maximum(t0, t), t0)
+        t1 = np.where(~flat & (p > 0), np.minimum(t1, t), t1)
+    return bool(np.any(keep & (t0 <= t1)))
+
+
+def _moves(text):
+    """Ways to place ``text``: offsets of an annotation, vertical shifts of a plain text."""
+    from matplotlib.text import Annotation
+
+    if isinstance(text, Annotation) and text.anncoords == "offset points":
+        base = text.xyann
+
+        def offset(dx, dy):
+            def move():
+                text.xyann = (dx, dy) if (dx, dy) != (0, 0) else base
+                text.set_ha("center" if dx == 0 else "left" if dx > 0 else "right")
+                text.set_va("bottom" if dy > 0 else "top" if dy < 0 else "center")
+            return move
+
+        first = [lambda: None]
+        return first + [offset(dx, dy) for dx, dy in _OFFSETS]
+    x, y = text.get_position()
+    transform = text.get_transform()
+    origin = transform.transform((x, y))
+
+    def shift(kx, ky):
+        def move():
+            box = text.get_window_extent(text.figure.canvas.get_renderer())
+            step = np.array([kx * box.width, ky * box.height * 1.15])
+            text.set_position(transform.inverted().transform(origin + step))
+        return move
+
+    return [shift(kx, ky) for kx, ky in _SHIFTS]
+
+
+def declutter(fig) -> int:
+    """Place every label of ``fig`` clear of the other labels and of the curves.
+
+    Labels are the non-empty texts of each axes, placed in order of their rank
+    (see ``_rank``; unranked texts first, as they come): each at the first of its
+    positions whose box, as the renderer measures it, stays inside the axes and
+    meets no label placed before and no curve (:class:`~matplotlib.lines.Line2D`)
+    of the axes.  A label with no such position is hidden.  The layout is frozen
+    afterwards, so the boxes stay where they were measured.
+
+    Returns
+    -------
+    int
+        The number of labels hidden.
+    """
+    fig.draw_without_rendering()
+    renderer = fig.canvas.get_renderer()
+    hidden = 0
+    for ax in fig.axes:
+        segs = _curve_segments(ax)
+        frame = ax.get_window_extent(renderer)
+        placed = []
+        texts = [t for t in ax.texts if t.get_visible() and t.get_text().strip()]
+        texts.sort(key=lambda t: getattr(t, "_axialfe_rank", -1))
+        for text in texts:
+            for move in _moves(text):
+                move()
+                box = text.get_window_extent(renderer)
+                if (box.x0 >= frame.x0 and box.x1 <= frame.x1 and box.y0 >= frame.y0
+                        and box.y1 <= frame.y1 and not any(box.overlaps(b) for b in placed)
+                        and not _crosses(box, segs)):
+                    placed.append(box)
+                    break
+            else:
+                text.set_visible(False)
+                hidden += 1
+    fig.set_layout_engine("none")
+    return hidden
 
 
 def _draw_sketch(ax, result, units):
@@ -353,8 +517,8 @@ def _draw_sketch(ax, result, units):
                        (xa, centre + h0 / 2)])
         edges.append(LANE_COLOURS[lane[i] % len(LANE_COLOURS)])
         if few:
-            ax.text(0.5 * (xa + xb), centre, _text(seg.name), ha="center", va="center",
-                    fontsize=7, color=INK, clip_on=True)
+            _rank(ax.text(0.5 * (xa + xb), centre, _text(seg.name), ha="center", va="center",
+                          fontsize=7, color=INK, clip_on=True), 0)
     ax.add_collection(PolyCollection(blocks, closed=True, facecolors=BLOCK_FACE, edgecolors=edges,
                                      linewidths=0.9 if len(blocks) <= 400 else 0.0))
     lo, hi = xs.min(), xs.max()
@@ -379,7 +543,8 @@ def _draw_sketch(ax, result, units):
         if sup.kind == "settlement":
             ax.annotate("", (wall + side * 0.03 * span, 0.95), (wall, 0.95),
                         arrowprops={"arrowstyle": "->", "color": SUPPORT_COLOUR, "lw": 0.8})
-    for gap in model.gaps:
+    fF, fD = units.factor("force"), units.factor("displacement")
+    for j, gap in enumerate(model.gaps):
         x = xs[idx[gap.stations[0]]]
         if len(gap.stations) == 2:
             xo = xs[idx[gap.stations[1]]]
@@ -388,28 +553,33 @@ def _draw_sketch(ax, result, units):
         else:
             off = (0.02 if gap.side == "+x" else -0.02) * span
             ax.plot([x + off, x + off], [0.15, 0.85], color=INK, linewidth=2.4)
-        ax.text(x, 1.02, _text(f"{gap.name} ({gap.kind})"), ha="center", va="bottom",
-                fontsize=6.5, color=INK)
-    fF = units.factor("force")
+        state = (f"closed, {_fmt(result.gap_force[j] / fF)} {units.force}"
+                 if result.gap_closed[j] else
+                 f"open {_fmt(result.gap_opening[j] / fD)} {units.displacement}")
+        _rank(ax.text(x, 1.02, _text(f"{gap.name} ({gap.kind}): {state}"), ha="center",
+                      va="bottom", fontsize=6.5, color=INK), 1)
     for j, force in enumerate(result.applied):
         if force == 0:
             continue
         x = xs[j]
+        # on the part it acts on: the lane of a segment that ends at the station
+        on = [c for c, seg in zip(centres, model.segments)
+              if model.stations[j].name in (seg.start, seg.end)]
+        y = on[0] if on else 0.5
         d = 0.06 * span * (1.0 if force > 0 else -1.0)
-        ax.annotate("", (x + d, 0.5), (x, 0.5),
+        ax.annotate("", (x + d, y), (x, y),
                     arrowprops={"arrowstyle": "-|>", "color": INK, "lw": 1.4,
                                 "mutation_scale": 9})
-        ax.text(x + d, 0.58, f"{_fmt(force / fF)} {units.force}", ha="center", va="bottom",
-                fontsize=7, color=INK,
-                bbox={"boxstyle": "round,pad=0.15", "facecolor": "white", "edgecolor": "none",
-                      "alpha": 0.8})
+        _rank(ax.annotate(f"{_fmt(force / fF)} {units.force}", (x + d, y), xytext=(0, 6),
+                          textcoords="offset points", ha="center", va="bottom", fontsize=7,
+                          color=INK), 1)
     if len(model.stations) <= _LABEL_LIMIT:
         at: dict[float, list[str]] = {}
         for st, x in zip(model.stations, xs):
             at.setdefault(float(x), []).append(st.name)
         for x, names in at.items():
-            ax.text(x, -0.04, _text(", ".join(names)), ha="center", va="top", fontsize=6.5,
-                    color=MUTED)
+            _rank(ax.text(x, -0.04, _text(", ".join(names)), ha="center", va="top",
+                          fontsize=6.5, color=MUTED), 2)
     ax.set_ylim(-0.2, 1.15)
     ax.set_xlim(lo - 0.08 * span, hi + 0.08 * span)
     ax.set_yticks([])
@@ -460,6 +630,10 @@ def plot_case(result: CaseResult, what: str = "all", path=None, units: OutputUni
              "stress": "stress", "displacement": "displacement"}[what]
     fig.suptitle(_text(f"{model.title}: {title}, case '{result.name}'"), fontsize=10, color=INK,
                  x=0.01, ha="left")
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    FigureCanvasAgg(fig)
+    declutter(fig)
     if path is not None:
         save_figure(fig, path, dpi)
     return fig
@@ -483,8 +657,11 @@ def save_figure(fig, path, dpi: int = DPI):
     meta = {"Date": None} if fmt == "svg" else {}
     from ..io.files import atomic_path
 
+    import matplotlib
+
     try:
-        with atomic_path(path) as tmp:  # a failing write leaves no partial figure
+        with atomic_path(path) as tmp, matplotlib.rc_context({"svg.fonttype": "none"}):
+            # a failing write leaves no partial figure; SVG text stays text, to be edited
             fig.savefig(tmp, format=fmt, dpi=max(dpi, DPI), metadata=meta)
     except OSError as exc:
         raise ModelError(f"cannot write the figure: {exc}", file=str(path)) from exc

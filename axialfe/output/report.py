@@ -324,8 +324,11 @@ def _svg(result, units) -> str:
     buf = io.BytesIO()
     from matplotlib.backends.backend_svg import FigureCanvasSVG
 
+    import matplotlib
+
     FigureCanvasSVG(fig)
-    fig.savefig(buf, format="svg", metadata={"Date": None})
+    with matplotlib.rc_context({"svg.fonttype": "none"}):   # text stays text
+        fig.savefig(buf, format="svg", metadata={"Date": None})
     text = buf.getvalue().decode("utf-8")
     text = text[text.index("<svg"):]
     return text.replace("<svg ", '<svg role="img" style="max-width:100%;height:auto" ', 1)

@@ -88,21 +88,25 @@ def _summary(review) -> str:
             + ("" if review.differ else " (every stated value agrees)"))
 
 
-def review_lines(review, units: OutputUnits) -> list[str]:
-    """The review as terminal lines: the table, the slips found, the counts."""
-    from .text import _grid
+def review_lines(review, units: OutputUnits, width=None) -> list[str]:
+    """The review as terminal lines: the table, the slips found, the counts (with ``width``,
+    the table split and the text wrapped to fit it)."""
+    from .text import _grid, _wrapped
 
-    out = [f" {REVIEW_TITLE} (difference = claimed - computed; agrees when |difference| is at "
-           "most the tolerance)"]
-    out += _grid(list(_HEADERS), review_rows(review, units))
+    def text(line, first="", rest="   "):
+        return [first + line] if width is None else _wrapped(line, width, first, rest)
+
+    out = text(f"{REVIEW_TITLE} (difference = claimed - computed; agrees when |difference| is "
+               "at most the tolerance)", " ")
+    out += _grid(list(_HEADERS), review_rows(review, units), width=width)
     slips = _slip_lines(review, units)
     if slips:
-        out += ["", " likely slips behind the values that differ (each reproduces the claimed "
-                "value within its tolerance)"]
+        out += [""] + text("likely slips behind the values that differ (each reproduces the "
+                           "claimed value within its tolerance)", " ")
         for head, lines in slips:
-            out.append(f"  {head}")
-            out += [f"    {line}" for line in lines]
-    out += ["", _summary(review), f"note: {REVIEW_CAUTION}"]
+            out += text(head, "  ", "      ")
+            out += [part for line in lines for part in text(line, "    ", "      ")]
+    out += [""] + text(_summary(review)) + text(f"note: {REVIEW_CAUTION}", "", "  ")
     return out
 
 

@@ -35,19 +35,65 @@ def _g(value, digits=6):
     return number(value, digits, plain=False)
 
 
-def _grid(headers, rows, indent="  "):
-    """Align a table as text: names left, numbers right."""
+def terminal_width() -> int:
+    """The width tables are fitted to: the terminal's when the output is one, else 100."""
+    import shutil
+    import sys
+
+    try:
+        tty = sys.stdout.isatty()
+    except (AttributeError, ValueError):
+        tty = False
+    return max(shutil.get_terminal_size((100, 24)).columns, 60) if tty else 100
+
+
+def _grid(headers, rows, indent="  ", width=None):
+    """Align a table as text: names left, numbers right.
+
+    With ``width``, a table wider than that is split into blocks of columns that fit,
+    one under the other, each repeating the first column (the item's name).
+    """
     cells = [[str(c) for c in r] for r in rows]
     widths = [max(len(h), *(len(r[i]) for r in cells)) if cells else len(h)
               for i, h in enumerate(headers)]
     numeric = [all(_is_number(r[i]) for r in cells) and bool(cells) for i in range(len(headers))]
 
-    def line(parts):
-        return indent + "  ".join(p.rjust(w) if num else p.ljust(w)
-                                  for p, w, num in zip(parts, widths, numeric)).rstrip()
+    def block(columns):
+        def line(parts):
+            return indent + "  ".join(parts[i].rjust(widths[i]) if numeric[i]
+                                      else parts[i].ljust(widths[i]) for i in columns).rstrip()
 
-    out = [line(headers), indent + "  ".join("-" * w for w in widths)]
-    out += [line(r) for r in cells]
+        out = [line(list(headers)), indent + "  ".join("-" * widths[i] for i in columns)]
+        return out + [line(r) for r in cells]
+
+    blocks, current = [], [0]
+    for i in range(1, len(headers)):
+        wide = len(indent) + sum(widths[j] + 2 for j in current) + widths[i]
+        if width is not None and wide > width and len(current) > 1:
+            blocks.append(current)
+            current = [0]
+        current.append(i)
+    blocks.append(current)
+    out = []
+    for n, columns in enumerate(blocks):
+        out += ([""] if n else []) + block(columns)
+    return out
+
+
+def _wrapped(text, width, first, rest):
+    import textwrap
+
+    return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
+                         break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+
+
+def _footnotes(notes, width, title=" notes:"):
+    """Notes as numbered footnotes, each wrapped to ``width``."""
+    if not notes:
+        return []
+    out = [title]
+    for n, text in enumerate(notes, 1):
+        out += _wrapped(text, width, f"  {n:>2}. ", "      ")
     return out
 
 
@@ -63,19 +109,27 @@ def _case_tables(case: dict, units: dict):
     """Yield (title, headers, rows) for one case in the JSON layout."""
     F, L, D, S = units["force"], units["length"], units["displacement"], units["stress"]
     yield ("stations", ["station", f"x [{L}]", f"displacement [{D}]"],
-           [[s["name"], _g(s["x"]), _g(s["displacement"])] for s in case["stations"]])
+           [[s["name"], _g(s["x"]), _g(s["displacement"])]
+            for s in sorted(case["stations"], key=lambda s: s["x"])])   # in order of x
     heated = any(s["temperature_change"] for s in case["segments"])
     yield ("segments", ["segment", "from", "to", f"L [{L}]", f"N from [{F}]", f"N to [{F}]",
                         f"stress from [{S}]", f"stress to [{S}]", f"elongation [{D}]"]
-           + (["dT [K]"] if heated else []),
+           + ([f"dT [{units.get('temperature', 'K')}]"] if heated else []),
            [[s["name"], s["from"], s["to"], _g(s["length"]), _g(s["axial_force"][0]),
              _g(s["axial_force"][1]), _g(s["stress"][0]), _g(s["stress"][1]),
              _g(s["elongation"])] + ([_g(s["temperature_change"])] if heated else [])
             for s in case["segments"]])
     if case["reactions"]:
-        yield ("reactions (force of the support on the bar, + toward +x)",
-               ["at", "support", f"force [{F}]"],
-               [[r["at"], r["kind"], _g(r["force"])] for r in case["reactions"]])
+        if "load_on_support" in case["reactions"][0]:   # added by _data
+            yield ("reactions (force of the support on the bar, + toward +x; the load on the "
+                   "support is its opposite)",
+                   ["at", "support", f"force [{F}]", f"load on support [{F}]", "direction"],
+                   [[r["at"], r["kind"], _g(r["force"]), _g(r["load_on_support"]),
+                     r.get("_direction", r["direction"])] for r in case["reactions"]])
+        else:
+            yield ("reactions (force of the support on the bar, + toward +x)",
+                   ["at", "support", f"force [{F}]"],
+                   [[r["at"], r["kind"], _g(r["force"])] for r in case["reactions"]])
     if case["gaps"]:
         yield ("gaps (force + in tension)", ["gap", "kind", "state", f"opening [{D}]", f"force [{F}]"],
                [[g["name"], g["kind"], g["state"], _g(g["opening"]), _g(g["force"])]
@@ -94,15 +148,46 @@ def summary_line(model) -> str:
     return ", ".join(parts)
 
 
-def _data(solution: Solution, units: OutputUnits, notes=None) -> dict:
-    """The solution's plain numbers in ``units``, each case's ``notes`` (from
-    :func:`axialfe.checks.assumptions.assumption_notes`) added to its own, in ``units``."""
-    data = solution.to_dict(units)
-    if notes:
-        from ..checks.entries import note_text
+def _data(solution: Solution, units: OutputUnits, notes=None, zero_noise=False) -> dict:
+    """The solution's plain numbers in ``units``: each case's ``notes`` (from
+    :func:`axialfe.checks.assumptions.assumption_notes`) added to its own, and each
+    reaction's load on the support with its direction in words
+    (:func:`axialfe.supports.support_loads`); with ``zero_noise`` a value below the
+    rounding bound of its kind (:func:`axialfe.results.rounding_bounds`) is 0."""
+    from ..results import rounding_bounds
+    from ..supports import support_loads
 
-        for case in data["cases"]:
+    data = solution.to_dict(units)
+    f = {k: units.factor(k) for k in ("force", "displacement", "stress")}
+    for result, case in zip(solution.cases, data["cases"]):
+        if notes:
+            from ..checks.entries import note_text
+
             case["notes"] = case["notes"] + [note_text(n, units) for n in notes.get(case["name"], ())]
+        for r, load in zip(case["reactions"], support_loads(result)):
+            r["load_on_support"] = load.load / f["force"]
+            r["direction"] = load.words
+            r["_direction"] = load.short          # the table's column (dropped from JSON)
+        if zero_noise:
+            bound = {k: v / f[k] for k, v in rounding_bounds(result).items()}
+
+            def clean(value, kind):
+                if isinstance(value, list):
+                    return [clean(v, kind) for v in value]
+                return 0.0 if abs(value) <= bound[kind] else value
+
+            for st in case["stations"]:
+                st["displacement"] = clean(st["displacement"], "displacement")
+            for seg in case["segments"]:
+                seg["axial_force"] = clean(seg["axial_force"], "force")
+                seg["stress"] = clean(seg["stress"], "stress")
+                seg["elongation"] = clean(seg["elongation"], "displacement")
+            for r in case["reactions"]:
+                r["force"] = clean(r["force"], "force")
+                r["load_on_support"] = clean(r["load_on_support"], "force")
+            for g in case["gaps"]:
+                g["force"] = clean(g["force"], "force")
+                g["opening"] = clean(g["opening"], "displacement")
     return data
 
 
@@ -112,15 +197,26 @@ def _envelope_shown(solution: Solution, envelope, full: bool) -> bool:
 
 
 def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
-             review=None, envelope=None, full_envelope=False, notes=None) -> str:
+             review=None, envelope=None, full_envelope=False, notes=None, brief=False,
+             width=None) -> str:
     """The readable terminal report (with the checks of ``checks``, a CheckReport, the
     review of stated values ``review`` and the ``envelope``, an Envelope, when given: its
     short summary after the cases when there are several, every item when
     ``full_envelope``), and each case's ``notes``: where its result leaves the
-    assumptions of the solve)."""
+    assumptions of the solve).
+
+    Tables fit ``width`` columns (default :func:`terminal_width`), notes are numbered
+    footnotes under their case, and the cautions close the report once.  ``brief``
+    prints only each case's reactions and notes, and the governing check.
+    """
     units = units or solution.model.units
-    data = _data(solution, units, notes)
+    width = width or terminal_width()
+    data = _data(solution, units, notes, zero_noise=True)
     model = solution.model
+
+    def grid(headers, rows):
+        return _grid(headers, rows, width=width)
+
     out = [f"axialfe: {data['title']}",
            f"model: {summary_line(model)}",
            "units: " + ", ".join(f"{k} {v}" for k, v in data["units"].items()),
@@ -128,35 +224,40 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
     for case in data["cases"]:
         out.append(f"== case '{case['name']}' ==")
         for title, headers, rows in _case_tables(case, data["units"]):
-            out.append(f" {title}")
-            out += _grid(headers, rows)
+            if brief and not title.startswith("reactions"):
+                continue
+            out += _wrapped(title, width, " ", "   ")
+            out += grid(headers, rows)
             out.append("")
-        out.append(f" equilibrium residual: {case['equilibrium_residual']:.2e} "
-                   "(largest out-of-balance station force / largest force)")
+        if not brief:
+            out.append(f" equilibrium residual: {case['equilibrium_residual']:.2e} "
+                       "(largest out-of-balance station force / largest force)")
         if case["status"] != "ok":
-            out.append(f" INACCURATE: {case['message']}")
-        for note in case.get("notes", []):
-            out.append(f" note: {note}")
-        for seg in case["segments"]:  # --- preloads (axialfe.engine.preload) ---
+            out += _wrapped(f"INACCURATE: {case['message']}", width, " ", "   ")
+        out += _footnotes(case.get("notes", []), width)
+        for seg in case["segments"] if not brief else ():  # --- preloads (axialfe.engine.preload) ---
             if "preload_misfit" in seg:
-                out.append(f" preload: '{seg['name']}' has the misfit {_g(seg['preload_misfit'])} "
-                           f"{data['units']['length']}, found to give its preload when installed")
+                out += _wrapped(f"preload: '{seg['name']}' has the misfit "
+                                f"{_g(seg['preload_misfit'])} {data['units']['length']}, found to "
+                                "give its preload when installed", width, " ", "   ")
         out.append("")
-        if checks is not None:  # --- design checks (axialfe.checks) ---
-            out += _check_lines(checks.case(case["name"]), units)
+        if checks is not None and not brief:  # --- design checks (axialfe.checks) ---
+            out += _check_lines(checks.case(case["name"]), units, width=width)
             out.append("")
-    if _envelope_shown(solution, envelope, full_envelope):  # --- axialfe.envelope ---
+    if _envelope_shown(solution, envelope, full_envelope) and not brief:  # --- axialfe.envelope ---
         from .envelopetext import envelope_lines, envelope_summary_lines
 
-        out += (envelope_lines(envelope, units, _grid) if full_envelope
-                else envelope_summary_lines(envelope, units, _grid) + [""])
+        out += (envelope_lines(envelope, units, grid) if full_envelope
+                else envelope_summary_lines(envelope, units, grid) + [""])
     if checks is not None:
-        out += _governing_lines(checks, units)
+        lines = _governing_lines(checks, units)
+        out += [part for text in (lines[:1] if brief else lines)
+                for part in _wrapped(text, width, "", "  ")]
         out.append("")
-    if review is not None:  # --- stated values (axialfe.review) ---
+    if review is not None and not brief:  # --- stated values (axialfe.review) ---
         from .reviewtext import review_lines
 
-        out += review_lines(review, units) + [""]
+        out += review_lines(review, units, width=width) + [""]
     out.append("cautions:")
     out += [f" - {c}" for c in CAUTIONS]
     return "\n".join(out) + "\n"
@@ -166,6 +267,9 @@ def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
             review=None, envelope=None, full_envelope=False, notes=None) -> str:
     units = units or solution.model.units
     data = _data(solution, units, notes)
+    for case in data["cases"]:
+        for r in case["reactions"]:
+            r.pop("_direction", None)
     if envelope is not None:  # --- axialfe.envelope: always, for one case too ---
         data["envelope"] = envelope.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
@@ -207,7 +311,7 @@ def to_csv(solution: Solution, units: OutputUnits | None = None, review=None, en
     ``checks``, a CheckReport, the stated values of ``review``, a Review, and the rows of
     case ``envelope`` when given and the solution has several cases or ``full_envelope``)."""
     units = units or solution.model.units
-    data = solution.to_dict(units)
+    data = _data(solution, units)
     u = data["units"]
     buf = io.StringIO()
     w = csv.writer(buf, lineterminator="\n")
@@ -226,10 +330,13 @@ def to_csv(solution: Solution, units: OutputUnits | None = None, review=None, en
             w.writerow([c, "segment", s["name"], "elongation", "", repr(s["elongation"]),
                         u["displacement"]])
             w.writerow([c, "segment", s["name"], "temperature_change", "",
-                        repr(s["temperature_change"]), "K"])
+                        repr(s["temperature_change"]), u["temperature"]])
             w.writerow([c, "segment", s["name"], "thermal_strain", "", repr(s["thermal_strain"]), "1"])
         for r in case["reactions"]:
             w.writerow([c, "reaction", r["at"], "force", "", repr(r["force"]), u["force"]])
+            w.writerow([c, "reaction", r["at"], "load_on_support", "", repr(r["load_on_support"]),
+                        u["force"]])
+            w.writerow([c, "reaction", r["at"], "direction", "", r["direction"], ""])
         for g in case["gaps"]:
             w.writerow([c, "gap", g["name"], "kind", "", g["kind"], ""])
             w.writerow([c, "gap", g["name"], "state", "", g["state"], ""])
@@ -256,7 +363,7 @@ def _md_escape(text) -> str:
 def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=None,
                 review=None, envelope=None, full_envelope=False, notes=None) -> str:
     units = units or solution.model.units
-    data = _data(solution, units, notes)
+    data = _data(solution, units, notes, zero_noise=True)
     out = [f"# {_md_escape(data['title'])}", "",
            "Units: " + ", ".join(f"{k} {v}" for k, v in data["units"].items())
            + ". Forces and displacements + toward +x; axial force and stress + in tension.", ""]
@@ -290,7 +397,8 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
 
 
 def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None,
-           checks=None, review=None, envelope=None, full_envelope=False, notes=None) -> str:
+           checks=None, review=None, envelope=None, full_envelope=False, notes=None,
+           brief=False) -> str:
     """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
 
     The table, JSON and Markdown forms carry the design checks (``checks``, a
@@ -301,12 +409,16 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
     are several cases or ``full_envelope``) and the notes of each case where its
     result leaves the assumptions of the solve (``notes``, from
     :func:`axialfe.checks.assumptions.assumption_notes`; not in CSV), each when
-    given: output computes nothing.
+    given: output computes nothing.  ``brief`` (table only) keeps each case's reactions
+    and notes and the governing check.
     """
     if fmt == "csv":
         return to_csv(solution, units, review=review, envelope=envelope,
                       full_envelope=full_envelope, checks=checks)
-    return {"table": to_table, "json": to_json, "markdown": to_markdown}[fmt](
+    if fmt == "table":
+        return to_table(solution, units, checks=checks, review=review, envelope=envelope,
+                        full_envelope=full_envelope, notes=notes, brief=brief)
+    return {"json": to_json, "markdown": to_markdown}[fmt](
         solution, units, checks=checks, review=review, envelope=envelope,
         full_envelope=full_envelope, notes=notes)
 
@@ -339,11 +451,12 @@ def _wrap(text, first="", rest="   "):
                          break_on_hyphens=False) or [first.rstrip()]
 
 
-def _check_lines(case_checks, units: OutputUnits, title=True):
-    """Lines of the checks table of one case: notes numbered in the table, in full under it."""
-    out = _wrap(f"checks of case '{case_checks.case}' (utilization = demand x safety factor / "
-                "capacity; review: the tool cannot decide)",
-                " ", "   ") if title else []
+def _check_lines(case_checks, units: OutputUnits, title=True, width=WIDTH):
+    """Lines of the checks table of one case: notes numbered in the table, in full under it,
+    every line within ``width``."""
+    out = _wrapped(f"checks of case '{case_checks.case}' (utilization = demand x safety factor / "
+                   "capacity; review: the tool cannot decide)",
+                   width, " ", "   ") if title else []
     if not len(case_checks):
         return out + ["  (no checks)"]
     notes = {}                      # note text -> its number (one number for a repeated note)
@@ -353,11 +466,11 @@ def _check_lines(case_checks, units: OutputUnits, title=True):
         if cells[-1]:
             cells[-1] = str(notes.setdefault(cells[-1], len(notes) + 1))
         rows.append(cells)
-    lines = _grid(list(_CHECK_HEADERS), rows)
+    lines = _grid(list(_CHECK_HEADERS), rows, width=width)
     if notes:
         lines.append("  notes:")
         for text, n in notes.items():
-            lines += _wrap(text, f"  {n:>2}. ", "      ")
+            lines += _wrapped(text, width, f"  {n:>2}. ", "      ")
     return out + lines
 
 
@@ -407,15 +520,16 @@ def checks_csv(checks, units: OutputUnits) -> str:
 def checks_table(checks, units: OutputUnits | None = None, title: str | None = None) -> str:
     """The checks of every case, the governing entry and the cautions, as text."""
     units = units or OutputUnits()
-    out = _wrap(f"axialfe check: {title}", "", "  ") if title else []
+    width = terminal_width()
+    out = _wrapped(f"axialfe check: {title}", width, "", "  ") if title else []
     if title:
         out.append("units: " + ", ".join(f"{k} {v}" for k, v in units.as_dict().items()))
         out.append("")
     for c in checks.cases:
-        out += _check_lines(c, units)
+        out += _check_lines(c, units, width=width)
         out.append("")
-    out += [line for text in _governing_lines(checks, units) for line in _wrap(text, "", "  ")]
-    out += ["", "cautions:"] + [line for c in CAUTIONS for line in _wrap(c, " - ", "   ")]
+    out += [line for text in _governing_lines(checks, units) for line in _wrapped(text, width, "", "  ")]
+    out += ["", "cautions:"] + [line for c in CAUTIONS for line in _wrapped(c, width, " - ", "   ")]
     return "\n".join(out) + "\n"
 
 
