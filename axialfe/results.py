@@ -18,7 +18,7 @@ from .model import Model
 from .model.arrays import frozen as _frozen
 from .units import OutputUnits
 
-__all__ = ["CaseResult", "Solution", "RESIDUAL_BOUND", "certify", "rounding_bounds"]
+__all__ = ["CaseResult", "Solution", "RESIDUAL_BOUND", "certify", "rounding_bounds", "TABLES"]
 
 # The largest station imbalance, relative to the largest force, a result may have
 # and still be called accurate (far above rounding, far below any error that matters).
@@ -27,6 +27,64 @@ RESIDUAL_BOUND = 1e-9
 _ARRAYS = ("u", "axial_force", "stress", "mechanical_strain", "elongation", "elastic_elongation",
            "thermal_elongation", "thermal_strain", "temperature_change", "length", "reactions",
            "applied", "gap_force", "gap_opening", "gap_closed")
+
+
+# the tables of a result (to_frame, _repr_html_): name, the rows of a to_dict, its columns as
+# (heading, key, unit kind or None); the unit is written into the heading
+_TABLES = {
+    "stations": (("station", "name", None), ("x", "x", "length"),
+                 ("displacement", "displacement", "displacement")),
+    "segments": (("segment", "name", None), ("from", "from", None), ("to", "to", None),
+                 ("length", "length", "length"), ("N from", ("axial_force", 0), "force"),
+                 ("N to", ("axial_force", 1), "force"), ("stress from", ("stress", 0), "stress"),
+                 ("stress to", ("stress", 1), "stress"),
+                 ("elongation", "elongation", "displacement"),
+                 ("temperature change", "temperature_change", "K")),
+    "reactions": (("at", "at", None), ("kind", "kind", None), ("force", "force", "force")),
+    "gaps": (("gap", "name", None), ("kind", "kind", None), ("state", "state", None),
+             ("opening", "opening", "displacement"), ("force", "force", "force")),
+}
+TABLES = tuple(_TABLES)
+
+
+def _heading(title: str, kind, units: dict) -> str:
+    if kind is None:
+        return title
+    return f"{title} [{'K' if kind == 'K' else units[kind]}]"
+
+
+def _cell(row: dict, key):
+    return row[key[0]][key[1]] if isinstance(key, tuple) else row[key]
+
+
+def _pandas():
+    try:
+        import pandas
+    except ImportError as exc:  # an optional extra
+        raise ImportError("results as DataFrames need pandas: pip install 'axialfe[frames]'") from exc
+    return pandas
+
+
+def _html_tables(data: dict, units: dict, caption: str) -> str:
+    """The tables of one case's ``to_dict`` as small HTML (every text escaped)."""
+    import html
+
+    from .formatting import number
+
+    out = [f"<div><p><strong>{html.escape(caption)}</strong></p>"]
+    for table, columns in _TABLES.items():
+        rows = data[table]
+        if not rows:
+            continue
+        head = "".join(f"<th>{html.escape(_heading(t, k, units))}</th>" for t, _, k in columns)
+        body = "".join(
+            "<tr>" + "".join(
+                f"<td>{html.escape(number(v, 6) if isinstance(v, float) else str(v))}</td>"
+                for v in (_cell(r, key) for _, key, _ in columns)) + "</tr>" for r in rows)
+        out.append(f"<table><caption>{table}</caption><thead><tr>{head}</tr></thead>"
+                   f"<tbody>{body}</tbody></table>")
+    out.append("</div>")
+    return "".join(out)
 
 
 @dataclass(frozen=True, repr=False)
@@ -181,6 +239,47 @@ class CaseResult:
                 f" max |u| = {np.abs(self.u).max():.6g} m,"
                 f" residual = {self.equilibrium_residual:.1e}>")
 
+    def _repr_html_(self) -> str:
+        """The case as HTML tables, in the model's units (shown by Jupyter)."""
+        units = self.model.units
+        status = "" if self.status == "ok" else f" \u2014 {self.status.upper()}: {self.message}"
+        return _html_tables(self.to_dict(units), units.as_dict(),
+                            f"case '{self.name}' of '{self.model.title}' (residual "
+                            f"{self.equilibrium_residual:.1e}){status}")
+
+    def to_frame(self, table: str = "segments", units: OutputUnits | None = None):
+        """One table of the case as a pandas DataFrame, units in the column names.
+
+        Parameters
+        ----------
+        table : {'stations', 'segments', 'reactions', 'gaps'}
+        units : OutputUnits, optional
+            Default: the model's.
+
+        Returns
+        -------
+        pandas.DataFrame
+            One row per station, segment, support or gap, in model order; e.g.
+            the columns of ``'segments'``: ``segment``, ``from``, ``to``,
+            ``length [mm]``, ``N from [N]``, ``N to [N]``, ``stress from [MPa]``,
+            ``stress to [MPa]``, ``elongation [mm]``, ``temperature change [K]``.
+
+        Raises
+        ------
+        ImportError
+            Without pandas (``pip install 'axialfe[frames]'``).
+        """
+        if table not in _TABLES:
+            raise ModelError(f"unknown table '{table}'", hint=suggest(table, TABLES),
+                             options=TABLES)
+        pandas = _pandas()
+        units = units or self.model.units
+        u = units.as_dict()
+        columns = _TABLES[table]
+        rows = self.to_dict(units)[table]
+        return pandas.DataFrame([[_cell(r, key) for _, key, _ in columns] for r in rows],
+                                columns=[_heading(t, k, u) for t, _, k in columns])
+
 
 @dataclass(frozen=True, repr=False)
 class Solution:
@@ -219,6 +318,55 @@ class Solution:
 
     def __repr__(self) -> str:
         return f"<Solution of '{self.model.title}': cases {', '.join(self.names)}>"
+
+    def _repr_html_(self) -> str:
+        """Every case as HTML tables, in the model's units (shown by Jupyter)."""
+        return "".join(c._repr_html_() for c in self.cases)
+
+    def to_frames(self, units: OutputUnits | None = None, checks=None) -> dict:
+        """The results of every case as pandas DataFrames, units in the column names.
+
+        Parameters
+        ----------
+        units : OutputUnits, optional
+            Default: the model's.
+        checks : CheckReport, optional
+            The design checks (:func:`axialfe.checks.check_solution`), for a
+            ``'checks'`` frame: the checks belong to a higher floor, so they are
+            passed in.
+
+        Returns
+        -------
+        dict of str to pandas.DataFrame
+            ``'stations'``, ``'segments'``, ``'reactions'``, ``'gaps'`` (each with a
+            first column ``case``, the rows of :meth:`CaseResult.to_frame` for every
+            case in turn) and, with ``checks``, ``'checks'``: case, check, name,
+            demand, capacity, their unit, utilization, result and note.
+        """
+        pandas = _pandas()
+        units = units or self.model.units
+        frames = {}
+        for table in _TABLES:
+            parts = []
+            for case in self.cases:
+                frame = case.to_frame(table, units)
+                frame.insert(0, "case", case.name)
+                parts.append(frame)
+            frames[table] = pandas.concat(parts, ignore_index=True)
+        if checks is not None:
+            rows = []
+            for case in checks.cases:
+                for entry in case:
+                    f = units.factor(entry.quantity)
+                    rows.append([case.case, entry.kind, entry.name,
+                                 None if entry.demand is None else entry.demand / f,
+                                 None if entry.capacity is None else entry.capacity / f,
+                                 getattr(units, entry.quantity), entry.utilization,
+                                 entry.verdict, entry.note_in(units)])
+            frames["checks"] = pandas.DataFrame(rows, columns=[
+                "case", "check", "name", "demand", "capacity", "unit", "utilization", "result",
+                "note"])
+        return frames
 
 
 def certify(residual: float) -> tuple[str, str | None]:

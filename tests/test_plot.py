@@ -502,27 +502,13 @@ def test_most_values_keep_their_label():
 
 
 def test_yield_strength_line_and_segments_beyond_it():
-    # A 20 mm steel rod (250 MPa, ASTM A36 minimum yield) pulled by 100 kN: 100e3 / 314.16 mm^2
-    # = 318.3 MPa, beyond yield; the line stands at 250 MPa over the rod's length.
-    text = """
-[sections.s]
-shape = "round"
-diameter = "20 mm"
-[stations]
-a = "0 mm"
-b = "500 mm"
-[[segments]]
-name = "rod"
-from = "a"
-to = "b"
-material = "structural-steel"
-section = "s"
-[[supports]]
-at = "a"
-[[loads]]
-at = "b"
-force = "100 kN"
-"""
+    # A 20 mm steel rod, 500 mm long (250 MPa, ASTM A36 minimum yield) pulled by 100 kN:
+    # 100e3 / 314.16 mm^2 = 318.3 MPa, beyond yield; the line stands at 250 MPa over the rod's
+    # length.  Pulled by 4 kN (12.7 MPa) it is not marked.
+    from test_report import SMALL        # the same rod, pulled by 4 kN there
+
+    text = SMALL.replace('force = "4 kN"', 'force = "100 kN"')
+    assert '"100 kN"' in text
     case = solve(parse_model(text))["base"]
     fig = plot_case(case, "stress")
     ax = fig.axes[1]
@@ -531,9 +517,9 @@ force = "100 kN"
     np.testing.assert_allclose(yield_line.get_xdata(), [0.0, 500.0])
     beyond, = [l for l in ax.lines if (l.get_gid() or "").startswith("beyond-yield-")]
     assert np.nanmin(beyond.get_ydata()) == pytest.approx(318.31, rel=1e-4)
-    assert "rod: beyond yield" in [t.get_text() for t in ax.texts if t.get_visible()]
+    assert "a-b: beyond yield" in [t.get_text() for t in ax.texts if t.get_visible()]
     # within yield, no mark
-    calm = solve(parse_model(text.replace('"100 kN"', '"10 kN"')))["base"]
+    calm = solve(parse_model(SMALL))["base"]
     ax = plot_case(calm, "stress").axes[1]
     assert not [l for l in ax.lines if (l.get_gid() or "").startswith("beyond-yield-")]
 

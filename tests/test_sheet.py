@@ -16,13 +16,16 @@ E, ALPHA = 200e9, 12e-6
 A = 400e-6
 
 # A steel bar 2 m long between rigid walls, loaded at its middle and heated (invented numbers).
-WALLS = """
+STEEL = """
 [materials.steel]
 elastic_modulus = "200 GPa"
 thermal_expansion = "12e-6 /K"
 [sections.s]
 shape = "area"
 area = "400 mm^2"
+"""
+
+WALLS = STEEL + """
 [stations]
 left = "0 m"
 mid = "1 m"
@@ -71,13 +74,7 @@ def test_thermal_part_of_a_bar_between_walls():
     np.testing.assert_array_equal(cold.other, sol["cold-load"].axial_force)
 
 
-GAPPED = """
-[materials.steel]
-elastic_modulus = "200 GPa"
-thermal_expansion = "12e-6 /K"
-[sections.s]
-shape = "area"
-area = "400 mm^2"
+GAPPED = STEEL + """
 [stations]
 left = "0 m"
 tip = "1 m"

@@ -38,7 +38,7 @@ from ..results import CaseResult
 from ..units import OutputUnits
 
 __all__ = ["WHAT", "FIGURE_SUFFIXES", "Curve", "lanes", "diagram_data", "plot_case",
-           "plot_sweep", "save_figure", "declutter", "label_boxes", "curve_paths", "Diagram"]
+           "plot_sweep", "save_figure", "declutter", "Diagram"]
 
 WHAT = ("force", "stress", "displacement", "all")
 FIGURE_SUFFIXES = (".png", ".svg")
@@ -637,6 +637,44 @@ def plot_case(result: CaseResult, what: str = "all", path=None, units: OutputUni
     if path is not None:
         save_figure(fig, path, dpi)
     return fig
+
+
+class Diagram:
+    """The diagrams of one case, for a notebook: Jupyter shows it inline as PNG.
+
+    Parameters
+    ----------
+    result : CaseResult
+    what : {'force', 'stress', 'displacement', 'all'}
+    units : OutputUnits, optional
+
+    Attributes
+    ----------
+    figure : matplotlib.figure.Figure
+        The figure :func:`plot_case` draws (no pyplot, no global state).
+
+    Examples
+    --------
+    In a notebook, ``Diagram(solution["base"])`` as the last line of a cell draws
+    it; ``Diagram(case, "stress").save("stress.svg")`` writes it.
+    """
+
+    def __init__(self, result: CaseResult, what: str = "all", units: OutputUnits | None = None):
+        self.figure = plot_case(result, what, None, units)
+
+    def _repr_png_(self) -> bytes:
+        import io
+
+        buf = io.BytesIO()
+        self.figure.savefig(buf, format="png", dpi=100)
+        return buf.getvalue()
+
+    def save(self, path, dpi: int = DPI):
+        """Write the diagram as PNG or SVG by the suffix of ``path``."""
+        save_figure(self.figure, path, dpi)
+
+    def __repr__(self) -> str:
+        return f"<Diagram: {self.figure._suptitle.get_text()}>"
 
 
 def _suffix(path) -> str:

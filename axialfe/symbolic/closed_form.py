@@ -129,6 +129,36 @@ class ClosedForm:
         return (f"<ClosedForm of '{self.model.title}', case '{self.case}': "
                 f"{len(self.displacements)} stations, {len(self.axial_forces)} segments>")
 
+    def _repr_latex_(self) -> str:
+        """Every closed form as one LaTeX ``aligned`` block (shown by Jupyter): reactions,
+        displacements, forces and stresses at the ``from`` end, gap forces."""
+        import sympy
+
+        def name(text):
+            return r"\text{" + _latex_text(text) + "}"
+
+        lines = []
+        for key, expr in self.reactions.items():
+            lines.append(f"R_{{{name(key)}}} &= {sympy.latex(expr)}")
+        for key, expr in self.displacements.items():
+            lines.append(f"u_{{{name(key)}}} &= {sympy.latex(expr)}")
+        for key, (expr, _) in self.axial_forces.items():
+            lines.append(f"N_{{{name(key)}}} &= {sympy.latex(expr)}")
+        for key, (expr, _) in self.stresses.items():
+            lines.append(f"\\sigma_{{{name(key)}}} &= {sympy.latex(expr)}")
+        for key, expr in self.gap_forces.items():
+            lines.append(f"F_{{{name(key)}}} &= {sympy.latex(expr)}")
+        return "$$\\begin{aligned}" + " \\\\ ".join(lines) + "\\end{aligned}$$"
+
+
+_LATEX_SPECIAL = {"\\": r"\textbackslash{}", "{": r"\{", "}": r"\}", "$": r"\$", "&": r"\&",
+                  "#": r"\#", "%": r"\%", "_": r"\_", "^": r"\^{}", "~": r"\~{}"}
+
+
+def _latex_text(text: str) -> str:
+    """Model text made safe inside ``\\text{...}``: LaTeX's special characters escaped."""
+    return "".join(_LATEX_SPECIAL.get(ch, ch) for ch in str(text))
+
 
 # --- the symbols and their assumptions ----------------------------------------
 def _positive_fields(model: Model):
