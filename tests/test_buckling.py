@@ -317,7 +317,7 @@ def test_a_stiffer_part_of_a_mixed_run_names_the_weaker_one():
     # the starter's stepped rod: both parts over the run 'left'..'right'
     from importlib import resources
 
-    model = parse_model(resources.files("axialfe.cli").joinpath("starter.toml")
+    model = parse_model(resources.files("axialfe.cli").joinpath("templates", "stepped-bar.toml")
                         .read_text(encoding="utf-8"))
     thick, thin = buckling(model)
     assert thick.note_in(SHOWN).endswith("; the run also holds the weaker segment 'thin-part': this "

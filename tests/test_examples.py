@@ -13,7 +13,7 @@ import pytest
 from typer.testing import CliRunner
 
 from axialfe.cli import app
-from axialfe.io.modelfile import read_model
+from axialfe.io.modelfile import builtin_materials, read_model
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "examples"
 FILES = sorted(EXAMPLES.glob("*.toml"))
@@ -168,3 +168,47 @@ def test_pipe_guides_brace_the_pipe():
     entries = [c for c in json.loads(result.stdout)["cases"][0]["checks"] if c["kind"] == "buckling"]
     assert [c["buckling_length"] for c in entries] == pytest.approx([8.0, 8.0, 8.0], rel=1e-12)
     assert all(c["ok"] is False for c in entries)
+
+
+@pytest.mark.parametrize("template", ["stepped-bar", "bolt-sleeve", "pipe-anchors"])
+def test_every_template_solves_decided(tmp_path, template):
+    path = tmp_path / f"{template}.toml"
+    made = runner.invoke(app, ["init", str(path), "--template", template])
+    assert made.exit_code == 0, made.output
+    result = runner.invoke(app, ["check", str(path)])
+    assert result.exit_code == 0, result.output
+    assert "0 fail, 0 need review (overall: pass)" in result.stdout
+    assert runner.invoke(app, ["solve", str(path)]).exit_code == 0
+
+
+def test_templates_against_hand_values(tmp_path):
+    from axialfe import read_model, solve as run_model
+
+    steel = builtin_materials()["structural-steel"]
+    E, alpha = steel.elastic_modulus, steel.thermal_expansion
+    for name in ("bolt-sleeve", "pipe-anchors"):
+        runner.invoke(app, ["init", str(tmp_path / f"{name}.toml"), "--template", name])
+    bolt = run_model(read_model(tmp_path / "bolt-sleeve.toml"))
+    # installed, the bolt carries its preload and the sleeve the same in compression
+    assert bolt["installed"].force("bolt-thread")[0] == pytest.approx(8e3, rel=1e-9)
+    assert bolt["installed"].force("sleeve")[0] == pytest.approx(-8e3, rel=1e-9)
+    # the pipe: free growth alpha*dT*L against the pipe and the east anchor's spring in series
+    # (common practice: a restrained thermal bar), so N = -alpha*dT*L/(L/(E*A) + 1/k) while the
+    # stop stays open, and the guide moves alpha*dT*L_1 + N*L_1/(E*A)
+    pipe = run_model(read_model(tmp_path / "pipe-anchors.toml"))
+    area = math.pi / 4 * (0.1143 ** 2 - (0.1143 - 2 * 0.00602) ** 2)
+    n = -alpha * 20 * 8.0 / (8.0 / (E * area) + 1 / 5e6)
+    assert pipe["warm"].force("run-west")[0] == pytest.approx(n, rel=1e-9)
+    guide = alpha * 20 * 4.0 + n * 4.0 / (E * area)
+    assert pipe["warm"].gap("guide-stop")["opening"] == pytest.approx(1.5e-3 - guide, rel=1e-9)
+    assert pipe["hot"].gap("guide-stop")["state"] == "closed"
+
+
+def test_unknown_template_is_one_line(tmp_path):
+    import subprocess
+    import sys
+
+    res = subprocess.run([sys.executable, "-m", "axialfe", "init", str(tmp_path / "x.toml"),
+                          "--template", "pipe"], capture_output=True, text=True)
+    assert res.returncode == 2 and len(res.stderr.strip().splitlines()) == 1
+    assert res.stderr.startswith("error: Invalid value for '--template'")

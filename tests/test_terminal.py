@@ -149,3 +149,105 @@ def test_check_one_case(cli):
     bad = cli("check", STRUT, "--case", "dead+sno")
     assert bad.exit_code == 2
     assert bad.output.strip() == "error: --case: unknown case 'dead+sno'; did you mean 'dead+snow'?"
+
+
+# --- model-file conveniences: dotted names, gap sides, an inverted contact ---------------------
+INVERTED = """title = "inverted"
+[materials.m]
+elastic_modulus = "200 GPa"
+thermal_expansion = "12e-6 /K"
+[sections.s]
+shape = "area"
+area = "100 mm^2"
+[stations]
+wall = "0 mm"
+end = "1000 mm"
+cover = "1000 mm"
+wall2 = "1100 mm"
+[[segments]]
+name = "shaft"
+from = "wall"
+to = "end"
+material = "m"
+section = "s"
+temperature_change = "50 K"
+[[segments]]
+name = "cover"
+from = "cover"
+to = "wall2"
+material = "m"
+section = "s"
+[[supports]]
+at = "wall"
+[[supports]]
+at = "wall2"
+[[gaps]]
+name = "float"
+GAP
+clearance = "0.2 mm"
+"""
+
+
+def _file(tmp_path, text, name="m.toml"):
+    path = tmp_path / name
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+def test_gap_sides_are_between_in_order(tmp_path, cli):
+    # The shaft grows alpha*dT*L = 12e-6 * 50 K * 1 m = 0.6 mm toward the cover: 0.2 mm closes
+    # the float and the other 0.4 mm is shared by the shaft and the cover in series
+    # (k = E*A/L: 20 kN/mm and 200 kN/mm), so the contact force is 0.4 mm / (1/20 + 1/200) mm/kN
+    # = 7.273 kN (common practice: compatibility of a closed gap).
+    sides = json.loads(cli("solve", _file(tmp_path, INVERTED.replace(
+        "GAP", 'minus_side = "end"\nplus_side = "cover"')), "-f", "json").stdout)
+    between = json.loads(cli("solve", _file(tmp_path, INVERTED.replace(
+        "GAP", 'between = ["end", "cover"]'), "b.toml"), "-f", "json").stdout)
+    force = sides["cases"][0]["gaps"][0]["force"]
+    assert force == pytest.approx(-0.4e-3 / (1 / 20e6 + 1 / 200e6), rel=1e-9)
+    assert sides["cases"][0]["gaps"] == between["cases"][0]["gaps"]
+    assert sides["warnings"] == []
+
+
+def test_gap_side_errors(tmp_path, cli):
+    one = cli("solve", _file(tmp_path, INVERTED.replace("GAP", 'minus_side = "end"')))
+    assert one.exit_code == 2
+    assert one.output.strip().endswith("gaps[1] ('float'): a gap with 'minus_side' needs "
+                                       "'plus_side' too (the stations on the -x and the +x side "
+                                       "of the gap)")
+    both = cli("solve", _file(tmp_path, INVERTED.replace(
+        "GAP", 'minus_side = "end"\nplus_side = "cover"\nbetween = ["end", "cover"]')))
+    assert both.exit_code == 2 and both.output.strip().endswith(
+        "gaps[1] ('float'): 'minus_side' names a station of a gap between two; give it instead "
+        "of 'between' or 'at', not with them")
+    typo = cli("solve", _file(tmp_path, INVERTED.replace(
+        "GAP", 'minus_side = "edn"\nplus_side = "cover"')))
+    assert typo.exit_code == 2 and typo.output.strip().endswith(
+        "gaps[1] ('float'): unknown station 'edn'; did you mean 'end'?")
+
+
+def test_an_inverted_contact_is_warned_of(tmp_path, cli):
+    # Given the wrong way round, the float opens by the shaft's 0.6 mm growth: 0.8 mm open,
+    # more than the 0.6 mm the stations ever move relative to each other.
+    path = _file(tmp_path, INVERTED.replace("GAP", 'between = ["cover", "end"]'))
+    data = json.loads(cli("solve", path, "-f", "json").stdout)
+    assert data["cases"][0]["gaps"][0]["opening"] == pytest.approx(0.8, rel=1e-9)
+    assert data["warnings"] == [
+        "gap 'float' is open in every case by more than its stations ever move relative to each "
+        "other (at least 0.8 mm open, at most 0.6 mm of movement, always apart): it is likely "
+        "inverted; between = ['cover', 'end'] closes as u('cover') - u('end') reaches the "
+        "clearance; swap them, or give minus_side and plus_side"]
+    assert "\nwarning: gap 'float' is open in every case" in cli("solve", path).stdout
+
+
+def test_a_dotted_table_name_says_to_quote_it(tmp_path, cli):
+    text = INVERTED.replace("[materials.m]", "[materials.bolt-8.8]").replace(
+        'material = "m"', 'material = "bolt-8.8"').replace("GAP", 'between = ["end", "cover"]')
+    res = cli("solve", _file(tmp_path, text))
+    assert res.exit_code == 2
+    assert res.output.strip() == (
+        f"error: {tmp_path / 'm.toml'}:2: materials: the header [materials.bolt-8.8] reads as "
+        "nested tables 'bolt-8' and '8': a name with a dot must be quoted, "
+        '[materials."bolt-8.8"]')
+    quoted = text.replace("[materials.bolt-8.8]", '[materials."bolt-8.8"]')
+    assert cli("solve", _file(tmp_path, quoted, "q.toml")).exit_code == 0

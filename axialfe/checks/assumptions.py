@@ -21,6 +21,11 @@ Each case gets a note (kept in SI, with its quantities as data for
   is bonded in the model, where a real one would open (model it as a contact
   gap of zero clearance).
 
+Across the cases, :func:`model_warnings` warns of a contact that looks inverted:
+open in every case, its stations moving apart in every case, and by more than
+they ever move relative to each other (its ``between`` order, or its side, is
+likely the wrong way round).
+
 The notes read results and compute; they print nothing (see :mod:`axialfe.output`).
 """
 
@@ -33,7 +38,7 @@ from ..results import Solution
 from .buckling import buckling_capacities
 from .entries import quantity_text
 
-__all__ = ["assumption_notes", "NOT_ELASTIC"]
+__all__ = ["assumption_notes", "model_warnings", "NOT_ELASTIC"]
 
 NOT_ELASTIC = "linear-elastic results are not valid beyond first yield"
 # a stress, force or area this far past its bound only is rounding, not a finding
@@ -173,3 +178,51 @@ def assumption_notes(solution: Solution,
                              "zero clearance")
         out[case.name] = tuple(notes)
     return out
+
+
+def model_warnings(solution: Solution) -> tuple[str, ...]:
+    """Warnings about the model that only all its cases together show (quantities as data).
+
+    A contact is likely inverted when, in every case whose result is accurate, it is
+    open, its stations move apart (the closure u(a) - u(b) of ``between = [a, b]``, or
+    the station's travel toward an ``at`` stop, is negative), and the opening is larger
+    than the largest relative movement of its stations in any case.  A gap whose
+    stations do not move (rounding noise) gets no warning.
+
+    Examples
+    --------
+    >>> from axialfe.model import Material, Section, Station, Segment, Support, Load, Gap, Model
+    >>> from axialfe.engine.system import solve
+    >>> rod = Segment("rod", "wall", "tip", Material("s", 200e9), Section("a", "area", (("area", 1e-4),)))
+    >>> m = Model((Station("wall", 0.0), Station("tip", 1.0)), (rod,), (Support("wall"),),
+    ...           (Load("tip", 1e3),), gaps=(Gap("stop", ("tip",), 1e-4, side="-x"),))
+    >>> len(model_warnings(solve(m)))   # the tip moves away from a stop on its -x side
+    1
+    """
+    from ..results import rounding_bounds
+
+    used = [c for c in solution.cases if c.status == "ok"]
+    out = []
+    if not used:
+        return ()
+    for j, gap in enumerate(solution.model.gaps):
+        if gap.kind != "contact":
+            continue
+        opening = [float(c.gap_opening[j]) for c in used]
+        closure = [gap.clearance - o for o in opening]          # how far the parts approach
+        moved = max(abs(d) for d in closure)
+        noise = max(rounding_bounds(c)["displacement"] for c in used)
+        if (all(not c.gap_closed[j] for c in used) and moved > noise
+                and all(d < 0 for d in closure) and min(opening) > moved):
+            if len(gap.stations) == 2:
+                a, b = gap.stations
+                how = (f"between = ['{a}', '{b}'] closes as u('{a}') - u('{b}') reaches the "
+                       "clearance; swap them, or give minus_side and plus_side")
+            else:
+                how = (f"side = '{gap.side}' puts the stop on that side of '{gap.stations[0]}'; "
+                       "check the side")
+            out.append(f"gap '{gap.name}' is open in every case by more than its stations ever "
+                       f"move relative to each other (at least {_q(min(opening), 'displacement')} "
+                       f"open, at most {_q(moved, 'displacement')} of movement, always apart): "
+                       f"it is likely inverted; {how}")
+    return tuple(out)

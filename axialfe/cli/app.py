@@ -226,20 +226,30 @@ def solve(model: ModelPath,
                         temperature_unit.value if temperature_unit else None)
         solution = run(m)
         from ..checks import check_solution
-        from ..checks.assumptions import assumption_notes
+        from ..checks.assumptions import assumption_notes, model_warnings
         from ..envelope import envelope as envelope_of
 
         checks = check_solution(solution)
         emit(render(solution, format.value, units, checks=checks,
                     review=stated_values(model, m, solution), envelope=envelope_of(solution),
-                    full_envelope=envelope, notes=assumption_notes(solution), brief=brief),
-             output)
+                    full_envelope=envelope, notes=assumption_notes(solution), brief=brief,
+                    warnings=model_warnings(solution)), output)
         plastic_notes(solution, units)
     exit_if_inaccurate((f"case '{c.name}'", c.message) for c in solution.inaccurate)
 
 
+class Template(str, Enum):
+    stepped_bar = "stepped-bar"
+    bolt_sleeve = "bolt-sleeve"
+    pipe_anchors = "pipe-anchors"
+
+
 @app.command()
 def init(path: Annotated[Path, typer.Argument(dir_okay=False, help="Where to write the starter model.")],
+         template: Annotated[Template, typer.Option(
+             "--template", help="The starter: stepped-bar (a stepped bar between walls, loaded and "
+             "heated), bolt-sleeve (a bolt and sleeve with preload and temperature) or "
+             "pipe-anchors (a pipe between anchors with a guide gap).")] = Template.stepped_bar,
          force: Annotated[bool, typer.Option("--force", help="Overwrite an existing file.")] = False):
     """Write a commented starter model that solves as it is."""
     from importlib import resources
@@ -252,7 +262,8 @@ def init(path: Annotated[Path, typer.Argument(dir_okay=False, help="Where to wri
             from ..errors import ModelError
 
             raise ModelError("the file exists already; use --force to overwrite it", file=str(path))
-        text = resources.files("axialfe.cli").joinpath("starter.toml").read_text(encoding="utf-8")
+        text = (resources.files("axialfe.cli").joinpath("templates", f"{template.value}.toml")
+                .read_text(encoding="utf-8"))
         write_text(path, text)
         typer.echo(f"wrote {path}; solve it with: axialfe solve {path}")
 

@@ -41,6 +41,9 @@ _KEYS = {
     "checks": keys_of(schema.CHECKS), "station": keys_of(schema.STATION),
     "limit": keys_of(schema.LIMIT),
 }
+# the tables whose keys are names of their own (a dotted name in a header must be quoted)
+_NAMED_TABLES = {"materials": set(keys_of(schema.MATERIAL)),
+                 "sections": set(keys_of(schema.SECTION))}
 _SECTION_KINDS = {"diameter": "length", "outer_diameter": "length", "wall_thickness": "length",
                   "inner_diameter": "length", "width": "length", "height": "length",
                   "area": "area", "second_moment": "second_moment"}
@@ -54,11 +57,13 @@ class _Locator:
     def __init__(self, text: str):
         self.lines = text.split("\n")   # lines as TOML counts them: only "\n" ends one
         self.headers = []  # (0-based line, name, is_array)
+        self.raw_headers = []  # (0-based line, the header's text between the brackets)
         for i, line in enumerate(self.lines):
             m = self._HEADER.match(line)
             if m:
                 name = re.sub(r"\s*\.\s*", ".", m.group(2).replace('"', "").replace("'", ""))
                 self.headers.append((i, name, bool(m.group(1))))
+                self.raw_headers.append((i, m.group(2)))
         self._by_name = {}  # name -> positions in headers, in file order (one pass, so
         for h, (_, name, _) in enumerate(self.headers):   # locating is linear overall)
             self._by_name.setdefault(name, []).append(h)
@@ -95,6 +100,19 @@ class _Locator:
             if found:
                 return found
         return start + 1
+
+    _PART = re.compile(r"\s*(\"[^\"]*\"|'[^']*'|[^.\"']+?)\s*(?:\.|$)")
+
+    def dotted_name(self, tables) -> tuple[int, str, list[str]] | None:
+        """The first header ``[TABLE.a.b]`` of one of ``tables`` (a map of named entries) whose
+        third part is none of ``tables[TABLE]`` (its entries' keys): a name with a dot in it,
+        unquoted.  Returns (1-based line, table, the parts after it), or None."""
+        for i, raw in self.raw_headers:
+            parts = self._PART.findall(raw)
+            if (len(parts) > 2 and parts[0] in tables and not parts[1][:1] in "\"'"
+                    and parts[2] not in tables[parts[0]]):
+                return i + 1, parts[0], parts[1:]
+        return None
 
     def table_keys(self, table) -> dict:
         """The 1-based line of every key of table ``table``, in one pass."""
@@ -381,12 +399,25 @@ class _Reader:
                       hint=suggest(value, options))
         return value
 
+    def dotted_names(self):
+        """Refuse a dotted name in a table header (``[materials.bolt-8.8]``), which TOML reads
+        as nested tables: one located line that says to quote the name."""
+        found = self.locator.dotted_name(_NAMED_TABLES) if self.locator else None
+        if found is not None:
+            line, table, parts = found
+            name = ".".join(parts)
+            raise ModelError(f"the header [{table}.{name}] reads as nested tables "
+                             + " and ".join(f"'{p}'" for p in parts) + ": a name with a dot "
+                             f'must be quoted, [{table}."{name}"]', place=table,
+                             file=self.source, line=line)
+
     # --- the whole model ------------------------------------------------
     def model(self) -> Model:
         data = self.data
         if isinstance(data.get("bolt"), dict):  # axialfe.joints reads these
             self.fail("this is a bolted-joint file (it has a [bolt] table): run 'axialfe "
                       "joint' on it", "bolt", place="top level")
+        self.dotted_names()
         check_types(data, self._schema_fail)
         for key in data:
             if key not in _TOP_KEYS:
@@ -522,17 +553,30 @@ class _Reader:
             place = f"gaps[{i}]" + (f" ('{entry['name']}')" if isinstance(entry, dict)
                                     and isinstance(entry.get("name"), str) else "")
             self.keys(entry, _KEYS["gap"], "gaps", i, place)
+            sides = [k for k in ("minus_side", "plus_side") if k in entry]
+            if sides:  # the two stations by their side: between = [minus_side, plus_side]
+                if "between" in entry or "at" in entry:
+                    self.fail(f"'{sides[0]}' names a station of a gap between two; give it "
+                              "instead of 'between' or 'at', not with them", "gaps", i, sides[0],
+                              place=place)
+                if len(sides) == 1:
+                    other = "plus_side" if sides[0] == "minus_side" else "minus_side"
+                    self.fail(f"a gap with '{sides[0]}' needs '{other}' too (the stations on the "
+                              "-x and the +x side of the gap)", "gaps", i, sides[0], place=place)
+                entry = {**entry, "between": [entry["minus_side"], entry["plus_side"]]}
             if ("between" in entry) == ("at" in entry):
-                self.fail("a gap needs either 'between' (two stations) or 'at' (one station "
-                          "against ground)", "gaps", i, place=place)
+                self.fail("a gap needs either 'between' (two stations), 'minus_side' and "
+                          "'plus_side', or 'at' (one station against ground)", "gaps", i,
+                          place=place)
             if "clearance" not in entry:
                 self.fail("a gap needs 'clearance' (it may be '0 mm')", "gaps", i, place=place)
             if "between" in entry:
                 pair = entry["between"]
                 if not isinstance(pair, list) or len(pair) != 2:
                     self.fail("'between' takes two station names", "gaps", i, "between", place=place)
-                names = tuple(self.name_ref(s, station_names, "station", "gaps", i, "between", place)
-                              for s in pair)
+                keys = ("minus_side", "plus_side") if sides else ("between", "between")
+                names = tuple(self.name_ref(s, station_names, "station", "gaps", i, k, place)
+                              for s, k in zip(pair, keys))
             else:
                 names = (self.name_ref(entry["at"], station_names, "station", "gaps", i, "at", place),)
                 if "side" not in entry:

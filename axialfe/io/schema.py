@@ -180,6 +180,7 @@ LOAD = Table({
 }, "load")
 GAP = Table({
     "name": Key("name"), "between": Key("names"), "at": Key("name"), "side": Key("name"),
+    "minus_side": Key("name"), "plus_side": Key("name"),
     "clearance": _q("length", low=-100, high=100, unit="m", required=True,
                     missing="a gap needs 'clearance' (it may be '0 mm')"),
     "kind": Key("name", default="contact"),

@@ -196,9 +196,15 @@ def _envelope_shown(solution: Solution, envelope, full: bool) -> bool:
     return envelope is not None and (full or len(solution.cases) > 1)
 
 
+def _warning_texts(warnings, units):
+    from ..checks.entries import note_text
+
+    return [note_text(w, units) for w in warnings or ()]
+
+
 def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
              review=None, envelope=None, full_envelope=False, notes=None, brief=False,
-             width=None) -> str:
+             width=None, warnings=None) -> str:
     """The readable terminal report (with the checks of ``checks``, a CheckReport, the
     review of stated values ``review`` and the ``envelope``, an Envelope, when given: its
     short summary after the cases when there are several, every item when
@@ -244,6 +250,10 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
         if checks is not None and not brief:  # --- design checks (axialfe.checks) ---
             out += _check_lines(checks.case(case["name"]), units, width=width)
             out.append("")
+    for text in _warning_texts(warnings, units):  # --- model warnings (checks.assumptions) ---
+        out += _wrapped(f"warning: {text}", width, "", "  ")
+    if warnings:
+        out.append("")
     if _envelope_shown(solution, envelope, full_envelope) and not brief:  # --- axialfe.envelope ---
         from .envelopetext import envelope_lines, envelope_summary_lines
 
@@ -264,12 +274,14 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
 
 
 def to_json(solution: Solution, units: OutputUnits | None = None, checks=None,
-            review=None, envelope=None, full_envelope=False, notes=None) -> str:
+            review=None, envelope=None, full_envelope=False, notes=None, warnings=None) -> str:
     units = units or solution.model.units
     data = _data(solution, units, notes)
     for case in data["cases"]:
         for r in case["reactions"]:
             r.pop("_direction", None)
+    if warnings is not None:  # --- model warnings (checks.assumptions) ---
+        data["warnings"] = _warning_texts(warnings, units)
     if envelope is not None:  # --- axialfe.envelope: always, for one case too ---
         data["envelope"] = envelope.to_dict(units)
     if checks is not None:  # --- design checks (axialfe.checks) ---
@@ -361,7 +373,8 @@ def _md_escape(text) -> str:
 
 
 def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=None,
-                review=None, envelope=None, full_envelope=False, notes=None) -> str:
+                review=None, envelope=None, full_envelope=False, notes=None,
+                warnings=None) -> str:
     units = units or solution.model.units
     data = _data(solution, units, notes, zero_noise=True)
     out = [f"# {_md_escape(data['title'])}", "",
@@ -381,6 +394,8 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
             out += [f"- Note: {_md_escape(n)}" for n in case["notes"]] + [""]
         if checks is not None:  # --- design checks (axialfe.checks) ---
             out += checks_markdown(checks.case(case["name"]), units)
+    if warnings:  # --- model warnings (checks.assumptions) ---
+        out += [f"**Warning:** {_md_escape(t)}" for t in _warning_texts(warnings, units)] + [""]
     if _envelope_shown(solution, envelope, full_envelope):  # --- axialfe.envelope ---
         from .envelopetext import envelope_markdown
 
@@ -398,7 +413,7 @@ def to_markdown(solution: Solution, units: OutputUnits | None = None, checks=Non
 
 def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = None,
            checks=None, review=None, envelope=None, full_envelope=False, notes=None,
-           brief=False) -> str:
+           brief=False, warnings=None) -> str:
     """Return the solution as text in ``fmt`` (one of :data:`FORMATS`).
 
     The table, JSON and Markdown forms carry the design checks (``checks``, a
@@ -410,17 +425,19 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
     result leaves the assumptions of the solve (``notes``, from
     :func:`axialfe.checks.assumptions.assumption_notes`; not in CSV), each when
     given: output computes nothing.  ``brief`` (table only) keeps each case's reactions
-    and notes and the governing check.
+    and notes and the governing check; ``warnings`` (from
+    :func:`axialfe.checks.assumptions.model_warnings`) are about the model as a whole.
     """
     if fmt == "csv":
         return to_csv(solution, units, review=review, envelope=envelope,
                       full_envelope=full_envelope, checks=checks)
     if fmt == "table":
         return to_table(solution, units, checks=checks, review=review, envelope=envelope,
-                        full_envelope=full_envelope, notes=notes, brief=brief)
+                        full_envelope=full_envelope, notes=notes, brief=brief,
+                        warnings=warnings)
     return {"json": to_json, "markdown": to_markdown}[fmt](
         solution, units, checks=checks, review=review, envelope=envelope,
-        full_envelope=full_envelope, notes=notes)
+        full_envelope=full_envelope, notes=notes, warnings=warnings)
 
 
 # --- design checks (axialfe.checks) -----------------------------------------

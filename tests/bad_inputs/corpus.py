@@ -52,7 +52,8 @@ BASE = {
                  {"at": "e", "kind": "spring", "stiffness": "50 kN/mm"},
                  {"at": "e", "kind": "settlement", "displacement": "0 mm"}],
     "gaps": [{"name": "g1", "between": ["c", "d"], "clearance": "0.1 mm", "kind": "contact"},
-             {"name": "g2", "at": "b", "side": "+x", "clearance": "2 mm"}],
+             {"name": "g2", "at": "b", "side": "+x", "clearance": "2 mm"},
+             {"name": "g3", "minus_side": "b", "plus_side": "e", "clearance": "5 mm"}],
     "cases": [{"name": "hot", "loads": [{"at": "b", "force": "5 kN"}],
                "temperature_change": {"s1": "30 K", "s2": "20 K"},
                "settlements": [{"at": "e", "displacement": "0.01 mm"}]},
@@ -371,6 +372,14 @@ def hostile_cases():
         {"name": "g2", "between": ["c", "d"], "clearance": "0 mm"}]))
     add("conflict:temperature-both", _with(segments__1__temperature_change="1 K"))
     add("conflict:gap-both", _with(gaps__0__at="c"))
+    add("conflict:gap-side-alone", _with(gaps=[
+        {"name": "g1", "minus_side": "c", "clearance": "0.1 mm"}]))
+    add("conflict:gap-side-and-between", _with(gaps=[
+        {"name": "g1", "minus_side": "c", "plus_side": "d", "between": ["c", "d"],
+         "clearance": "0.1 mm"}]))
+    add("conflict:gap-side-unknown", _with(gaps=[
+        {"name": "g1", "minus_side": "c", "plus_side": "dd", "clearance": "0.1 mm"}]))
+    add("toml:dotted-material-name", base.replace("[materials.steel-a]", "[materials.steel-a.1]"))
     add("conflict:gap-side-missing", _without("gaps__1__side"))
     add("conflict:tube-both", _with(sections__pipe__inner_diameter="30 mm"))
     add("conflict:wall-too-thick", _with(sections__pipe__wall_thickness="30 mm"))
