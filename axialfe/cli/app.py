@@ -275,9 +275,17 @@ def materials():
 
     for name, entry in _builtin_table().items():
         typer.echo(f"{name}: {entry.get('description', '')}")
-        for key in ("elastic_modulus", "thermal_expansion", "yield_strength", "density",
-                    "poissons_ratio"):
-            typer.echo(f"    {key:18s} {entry.get(key, '(not given)')}")
+        for key in ("elastic_modulus", "thermal_expansion", "mean_thermal_expansion",
+                    "thermal_expansion_total", "yield_strength", "density", "poissons_ratio"):
+            value = entry.get(key, "(not given)")
+            if isinstance(value, dict):       # a table against temperature
+                rows = [f"{t} {v}" for t, v in value.items() if t != "reference"]
+                start = f"from {value['reference']}: " if "reference" in value else ""
+                value = f"{start}{rows[0]} ... {rows[-1]} ({len(rows)} entries)"
+            elif key not in entry and (key != "thermal_expansion" or any(
+                    k in entry for k in ("mean_thermal_expansion", "thermal_expansion_total"))):
+                continue
+            typer.echo(f"    {key:18s} {value}")
         typer.echo(f"    source             {entry['source']}")
     typer.echo("\nA model's own [materials] entry of the same name takes precedence. Values are "
                "typical: verify against your material certificate.")
