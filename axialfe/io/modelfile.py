@@ -777,14 +777,12 @@ class _Reader:
         if self.locator is None:
             return {}
         lines = {f"stations.{k}": v for k, v in self.locator.table_keys("stations").items()}
-<<<<<<< HEAD
         if self.rows:  # stations from a table file: the line that names the file
             named = self.line("stations", None, "file")
             lines.update({f"stations.{k}": named for t, k in self.rows if t == "stations"})
         for key in ("claims", "claims_file"):  # so that a file stating none is not read twice
             if key in self.data:
                 lines[key] = self.line(None, None, key)
-=======
         materials = self.data.get("materials")
         for name in (materials if isinstance(materials, dict) else {}):
             line = self.line(f"materials.{name}")
@@ -794,7 +792,6 @@ class _Reader:
             for key in (entry if isinstance(entry, dict) else {}):
                 if isinstance(entry[key], dict):   # a table against temperature
                     lines[f"materials.{name}.{key}"] = self.line(f"materials.{name}", None, key)
->>>>>>> main
         for table in ("gaps", "segments"):
             entries = self.data.get(table, [])
             # entries from a table file: the line that names the file, found once
