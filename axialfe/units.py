@@ -38,6 +38,7 @@ KINDS: dict[str, tuple[str, str]] = {
     "temperature_difference": ("K", "60 K"),
     "temperature": ("K", "95 degC"),
     "torque": ("N*m", "100 N*m"),
+    "strain": ("m/m", "0.94 mm/m"),
 }
 
 _NUMBER = re.compile(r"^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")

@@ -122,6 +122,7 @@ def test_pipe_against_hand_solution():
 # moment of area and a yield strength.  The closed-form examples give areas only.
 CHECK_STATUS = {
     "bolt-and-sleeve-heated": ("pass", 0),
+    "bolt-hot-housing-tables": ("fail", 1),     # hot, the bolt passes its yield strength there
     "heated-rod-hand-check": ("fail", 1),       # the slender aluminium rod buckles
     "closed-form-heated-bar-gap": ("undecided", 3),
     "closed-form-stepped-rod-load": ("undecided", 3),

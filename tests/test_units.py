@@ -142,7 +142,7 @@ def test_wrong_dimension_names_both():
 def test_dimensionless_unit_refused():
     with pytest.raises(UnitError) as err:
         parse_quantity("3 %", "length")
-    assert str(err.value) == "'%' is not a unit of length, e.g. '40 mm'"
+    assert str(err.value) == "'%' is a unit of strain, not of length, e.g. '40 mm'"
 
 
 def test_unknown_unit_refused():

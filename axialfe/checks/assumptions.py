@@ -111,7 +111,7 @@ def assumption_notes(solution: Solution,
     model = solution.model
     settings = settings or model.checks
     segments = model.segments
-    capacities = None
+    capacities = capacities_of = None
     clamped = _clamped_parts(model)
     clamp_scale = max((abs(s.preload) for s in segments if s.preload is not None), default=0.0)
     # the end area each segment presents at each of its stations
@@ -127,8 +127,10 @@ def assumption_notes(solution: Solution,
         peak, t_peak = case.fields.stress_peak()
         n_low, _, n_high, _ = case.fields.force_range()
         x_peak = case.fields.position(t_peak)
+        # properties at the case's temperatures where the model gives tables
+        own = case.model.segments if case.model is not None else segments
         for i, seg in enumerate(segments):                       # --- yield ---
-            strength, word = _strength(seg.material, peak[i] < 0)
+            strength, word = _strength(own[i].material, peak[i] < 0)
             if strength is not None and abs(peak[i]) > strength * (1 + _ROUNDING):
                 notes.append(f"segment '{seg.name}' reaches {_q(peak[i], 'stress')} (at x = "
                              f"{_q(x_peak[i], 'length')}), beyond its {word} "
@@ -136,8 +138,9 @@ def assumption_notes(solution: Solution,
         for i, seg in enumerate(segments):                       # --- buckling ---
             if n_low[i] >= 0:
                 continue
-            if capacities is None:
-                capacities = buckling_capacities(model, settings)
+            if capacities is None or case.model is not capacities_of:
+                capacities_of = case.model if case.model is not None else model
+                capacities = buckling_capacities(capacities_of, settings)
             capacity = capacities[i][0]
             if capacity is not None and -n_low[i] > capacity * (1 + _ROUNDING):
                 notes.append(f"segment '{seg.name}' carries a compression of "

@@ -18,9 +18,10 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..errors import SolveError
+from ..errors import ModelError, SolveError
 from ..model import Model
 from ..model.cases import LoadState, load_states
+from ..model.temperature import at_temperature, basis_note, has_tables
 from ..results import CaseResult, Solution
 from .active_set import active_set, ground_gaps
 from .assembly import Assembly, assemble, element_loads
@@ -307,6 +308,23 @@ def solve(model: Model, method: str = "auto") -> Solution:
     """
     from .preload import resolve_preloads  # it solves models itself
 
+    preloaded = [seg.name for seg in model.segments if seg.preload is not None]
+    if preloaded and has_tables(model):
+        raise ModelError("a preload in a model with properties against temperature is not "
+                         "solved: give the misfit instead, or constant properties",
+                         file=model.source, line=model.line_of(f"segments.{preloaded[0]}"),
+                         place=f"segments ('{preloaded[0]}')")
     model = resolve_preloads(model)  # a preload is a force: find its misfit first
+    if has_tables(model):
+        return Solution(model, tuple(_solve_at_temperature(model, s, method)
+                                     for s in load_states(model)))
     system = System(model, method=method)
     return Solution(model, tuple(system.solve_state(s) for s in load_states(model)))
+
+
+def _solve_at_temperature(model, state, method):
+    """One case of a model with tables: its own system at its segments' temperatures."""
+    import dataclasses
+
+    result = System(at_temperature(model, state), method=method).solve_state(state)
+    return dataclasses.replace(result, notes=result.notes + (basis_note(model),))

@@ -95,6 +95,10 @@ class _FitReader:
                 self.r.fail(f"unknown material '{name}'", table, None, "material", place=table,
                             hint=suggest(name, [*own, *builtins]), options=[*own, *builtins])
             mat = builtins[name]
+        if mat.tabled:
+            self.r.fail(f"material '{name}' gives properties against temperature; a fit takes "
+                        "constant properties: give its values as constants", table, None,
+                        "material", place=table)
         if mat.poissons_ratio is None:
             self.r.fail(f"material '{name}' needs 'poissons_ratio' for a fit (give it in "
                         f"[materials.{name}])", table, None, "material", place=table)

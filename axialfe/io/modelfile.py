@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import dataclasses
 import functools
+from collections.abc import Mapping
 import re
 import tomllib
 from importlib import resources
@@ -18,7 +19,7 @@ from pathlib import Path
 
 from .._gcpause import gc_paused
 from ..errors import ModelError, suggest
-from ..model.parts import BEHAVIOURS
+from ..model.parts import BEHAVIOURS, MODULUS_AT
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Project, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
@@ -143,11 +144,33 @@ def _builtin_table():
     return tomllib.loads(text)
 
 
-def builtin_materials() -> dict[str, Material]:
+class _BuiltinMaterials(Mapping):
+    """The built-in materials by name, each read when first asked for (a table against
+    temperature in degF needs pint, which a model naming other materials never loads)."""
+
+    def __init__(self):
+        self._table = _builtin_table()
+        self._read = {}
+
+    def __getitem__(self, name):
+        if name not in self._read:
+            entry = self._table[name]                  # KeyError for an unknown name
+            self._read[name] = _Reader({}, None, None).material(name, entry, builtin=True)
+        return self._read[name]
+
+    def __contains__(self, name):
+        return name in self._table
+
+    def __iter__(self):
+        return iter(self._table)
+
+    def __len__(self):
+        return len(self._table)
+
+
+def builtin_materials() -> Mapping:
     """Return the built-in materials by name (values in SI, each with its source)."""
-    reader = _Reader({}, None, None)
-    return {name: reader.material(name, entry, builtin=True)
-            for name, entry in _builtin_table().items()}
+    return _BuiltinMaterials()
 
 
 class _Reader:
@@ -299,7 +322,8 @@ class _Reader:
         if "elastic_modulus" not in entry:
             self.fail("a material needs 'elastic_modulus'", table, place=place)
         kwargs = {k: self.quantity(entry[k], kind, table=table, key=k, place=place)
-                  for k, kind in kinds.items() if k in entry}
+                  for k, kind in kinds.items() if k in entry and not isinstance(entry[k], dict)}
+        kwargs.update(self.property_tables(entry, table, place))
         for k in ("proof_strength", "tensile_strength"):  # stated for the record, checked only
             if k in entry:
                 self.quantity(entry[k], "stress", table=table, key=k, place=place)
@@ -312,6 +336,68 @@ class _Reader:
             kwargs["poissons_ratio"] = self.number(entry["poissons_ratio"], table=table,
                                                    key="poissons_ratio", place=place)
         return self.build(Material, {"name": name, **kwargs}, table, place=place, raw=entry)
+
+    def property_tables(self, entry, table, place):
+        """Material properties given against temperature, as ``Material`` keywords.
+
+        ``elastic_modulus`` and ``yield_strength`` as ``{ "20 degC" = "203 GPa", ... }``;
+        the expansion as ``mean_thermal_expansion`` (mean coefficients) or
+        ``thermal_expansion_total`` (total strains), each with ``reference``.
+        """
+        out = {}
+        for key, field, kind in (("elastic_modulus", "modulus_table", "stress"),
+                                 ("yield_strength", "yield_table", "stress")):
+            if isinstance(entry.get(key), dict):
+                tab = self.property_table(entry[key], kind, table, key, place, False)
+                out[field] = tab
+                out[key] = tab.values[0]
+        given = [k for k in ("thermal_expansion", "mean_thermal_expansion",
+                             "thermal_expansion_total") if k in entry]
+        if len(given) > 1:
+            self.fail(f"give the expansion once: '{given[0]}' or '{given[1]}'", table,
+                      key=given[1], place=place)
+        for key, kind, unit in (("mean_thermal_expansion", "mean", "thermal_expansion"),
+                                ("thermal_expansion_total", "total", "strain")):
+            if key in entry:
+                out["expansion_table"] = self.property_table(entry[key], unit, table, key, place,
+                                                             True)
+                out["expansion_kind"] = kind
+        return out
+
+    def property_table(self, value, kind, table, key, place, with_reference):
+        """One table against temperature (temperatures as keys), located at ``key``."""
+        from ..model import PropertyTable
+
+        rows, reference = [], None
+        for name, item in value.items():
+            if name == "reference":
+                if not with_reference:
+                    self.fail(f"{key}: only an expansion table has a 'reference'", table, key=key,
+                              place=place)
+                reference = self.table_temperature(item, table, key, place)
+                continue
+            T = self.table_temperature(name, table, key, place)
+            v = self.quantity(item, kind, table=table, key=key, place=place)
+            rows.append((T, v))
+        if with_reference and reference is None:
+            self.fail(f"{key}: give the table's 'reference' temperature (its values count from "
+                      "there), e.g. reference = \"20 degC\"", table, key=key, place=place)
+        rows.sort()
+        try:
+            return PropertyTable(tuple(r[0] for r in rows), tuple(r[1] for r in rows), reference)
+        except ModelError as exc:
+            self.fail(f"{key}: {exc.message}", table, key=key, place=place)
+
+    def table_temperature(self, value, table, key, place):
+        """A temperature of a table (a key of it, or its reference), located at ``key``."""
+        try:
+            T = parse_quantity(value, "temperature")
+        except ModelError as exc:
+            self.fail(f"{key}: {exc.message}", table, key=key, place=place)
+        if not 0 < T <= 1e5:
+            self.fail(f"{key}: a temperature must lie above absolute zero and at most 100000 K: "
+                      f"got '{value}'", table, key=key, place=place)
+        return T
 
     def section(self, name, entry):
         table = f"sections.{name}"
@@ -422,6 +508,11 @@ class _Reader:
                      if "reference_temperature" in settings else None)
         default_dt = self.temperature_pair(settings, reference, "settings", None, "settings")
         gravity = q(settings["gravity"], "acceleration", key="gravity") if "gravity" in settings else 0.0
+        modulus_at = settings.get("modulus_at", "temperature")
+        if modulus_at not in MODULUS_AT:
+            self.fail(f"unknown modulus_at '{modulus_at}'", "settings", key="modulus_at",
+                      place="settings", hint=suggest(str(modulus_at), MODULUS_AT),
+                      options=MODULUS_AT)
         behaviour = settings.get("behaviour")
         if behaviour is not None and behaviour not in BEHAVIOURS:
             self.fail(f"unknown behaviour '{behaviour}'", "settings", key="behaviour",
@@ -649,7 +740,8 @@ class _Reader:
                          supports=tuple(supports), loads=loads, gaps=tuple(gaps),
                          cases=tuple(cases), combinations=tuple(combinations),
                          temperature_change=default_dt, gravity=gravity,
-                         reference_temperature=reference, units=units, title=str(title),
+                         reference_temperature=reference, modulus_at=modulus_at,
+                         units=units, title=str(title),
                          source=self.source, checks=checks, limits=tuple(limits),
                          symbols=tuple(self.symbols.values()), lines=self.name_lines(),
                          project=project)
@@ -665,11 +757,20 @@ class _Reader:
         return Project(**{k: v if isinstance(v, str) else v.isoformat() for k, v in entry.items()})
 
     def name_lines(self) -> dict:
-        """The lines of ``'stations.<name>'``, ``'gaps.<name>'`` and ``'segments.<name>'``
+        """The lines of ``'stations.<name>'``, ``'materials.<name>'``, ``'gaps.<name>'`` and ``'segments.<name>'``
         (for solver messages), found in one pass over each table."""
         if self.locator is None:
             return {}
         lines = {f"stations.{k}": v for k, v in self.locator.table_keys("stations").items()}
+        materials = self.data.get("materials")
+        for name in (materials if isinstance(materials, dict) else {}):
+            line = self.line(f"materials.{name}")
+            if line is not None:
+                lines[f"materials.{name}"] = line
+            entry = materials[name]
+            for key in (entry if isinstance(entry, dict) else {}):
+                if isinstance(entry[key], dict):   # a table against temperature
+                    lines[f"materials.{name}.{key}"] = self.line(f"materials.{name}", None, key)
         for table in ("gaps", "segments"):
             entries = self.data.get(table, [])
             for i, entry in enumerate(entries if isinstance(entries, list) else [], 1):

@@ -127,6 +127,7 @@ SETTINGS = Table({
     "temperature": _q("temperature", **_TEMPERATURE),
     "gravity": _q("acceleration", low=-1e3, high=1e3, unit="m/s^2"),
     "behaviour": Key("name"),
+    "modulus_at": Key("name"),
 }, "settings")
 UNITS = Table({
     "system": Key("name", default="SI"),
@@ -137,12 +138,19 @@ UNITS = Table({
 # where it was not checked against the text)
 SOURCES = Table({k: Key("text") for k in (
     "elastic_modulus", "thermal_expansion", "yield_strength", "density", "poissons_ratio",
-    "compressive_yield_strength", "hardening_modulus", "proof_strength", "tensile_strength")},
+    "compressive_yield_strength", "hardening_modulus", "proof_strength", "tensile_strength",
+    "mean_thermal_expansion", "thermal_expansion_total")},
     "sources")
 MATERIAL = Table({
-    "elastic_modulus": _q("stress", low=1e3, high=1e13, unit="Pa", required=True),
+    # a modulus or a strength: a quantity, or a table against temperature
+    "elastic_modulus": Key("quantity_or_map", kind="stress", required=True,
+                           range=Range(1e3, 1e13, unit="Pa")),
     "thermal_expansion": _q("thermal_expansion", low=-1e-3, high=1e-3, unit="1/K"),
-    "yield_strength": _q("stress", low=1e3, high=1e11, unit="Pa"),
+    "mean_thermal_expansion": Key("map", item=Key("quantity", kind="thermal_expansion"),
+                                  range=Range(-1e-3, 1e-3, unit="1/K")),
+    "thermal_expansion_total": Key("map", item=Key("quantity", kind="strain"),
+                                   range=Range(-0.1, 0.1, unit="")),
+    "yield_strength": Key("quantity_or_map", kind="stress", range=Range(1e3, 1e11, unit="Pa")),
     "density": _q("density", low=0, high=1e5, low_open=True, unit="kg/m^3"),
     "source": Key("text"), "description": Key("text"),
     "poissons_ratio": _n(low=0, high=0.5),

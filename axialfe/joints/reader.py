@@ -94,13 +94,19 @@ class _JointReader(_Reader):
     def find_material(self, name, materials, table, index, place):
         name = self.text(name, table=table, index=index, key="material", place=place)
         if name in materials:
-            return materials[name]
-        builtins = builtin_materials()
-        if name not in builtins:
-            self.fail(f"unknown material '{name}'", table, index, "material", place=place,
-                      hint=suggest(name, [*materials, *builtins]),
-                      options=[*materials, *builtins])
-        return builtins[name]
+            mat = materials[name]
+        else:
+            builtins = builtin_materials()
+            if name not in builtins:
+                self.fail(f"unknown material '{name}'", table, index, "material", place=place,
+                          hint=suggest(name, [*materials, *builtins]),
+                          options=[*materials, *builtins])
+            mat = builtins[name]
+        if mat.tabled:
+            self.fail(f"material '{name}' gives properties against temperature; a joint takes "
+                      "constant properties: give its values as constants", table, index,
+                      "material", place=place)
+        return mat
 
     def joint(self) -> Joint:
         data = self.data

@@ -4,7 +4,9 @@
 - ``element``: stiffness, load integrals, end forces and nodal loads, generic over
   the number type (numpy arrays or sympy scalars);
 - ``backends``: the few operations that differ between the two (``NUMERIC``, ``exact()``);
-- ``fields``: N(t), A(t), sigma(t), u(t) inside segments and the extremes of |sigma|.
+- ``fields``: N(t), A(t), sigma(t), u(t) inside segments and the extremes of |sigma|;
+- ``thermal``: the free thermal strain (constant, mean or total expansion) and tables
+  against temperature.
 
 This floor is pure arithmetic: it imports no other part of axialfe.
 """

@@ -5,13 +5,15 @@
   combinations, check settings, limits, the project of a title block, the whole
   ``Model``);
 - ``cases``: the one rule of what each case and combination puts on the model,
-  as arrays (``LoadState``).
+  as arrays (``LoadState``);
+- ``temperature``: a model's tables against temperature evaluated at each
+  segment's temperature in a case.
 
-This floor imports only ``errors`` and ``units``.
+This floor imports only ``errors``, ``units`` and ``mechanics``.
 """
 
 from .parts import (BASE_CASE, Case, CheckSettings, Combination, Gap, Limit, Load, Material,
-                    Model, Project, Section, Segment, Station, Support)
+                    Model, Project, PropertyTable, Section, Segment, Station, Support)
 
 __all__ = ["Material", "Section", "Station", "Segment", "Support", "Load", "Gap", "Case",
-           "Combination", "CheckSettings", "Limit", "Project", "Model", "BASE_CASE"]
+           "Combination", "CheckSettings", "Limit", "Project", "Model", "PropertyTable", "BASE_CASE"]

@@ -20,10 +20,12 @@ from ..units import OutputUnits
 
 __all__ = [
     "Material", "Section", "Station", "Segment", "Support", "Load", "Gap",
-    "Case", "Combination", "Project", "Model", "BASE_CASE", "COLUMN_CURVES",
+    "Case", "Combination", "Project", "Model", "PropertyTable", "BASE_CASE", "COLUMN_CURVES",
+    "MODULUS_AT",
 ]
 
 BASE_CASE = "base"
+MODULUS_AT = ("temperature", "reference")   # where tabled moduli are evaluated
 SHAPES = sections.SHAPES
 SUPPORT_KINDS = ("fixed", "spring", "settlement")
 GAP_KINDS = ("contact", "slack")
@@ -67,6 +69,41 @@ def _name(value, what, place):
 
 
 @dataclass(frozen=True)
+class PropertyTable:
+    """A property against temperature: ascending temperatures (K) and values (SI).
+
+    ``reference`` (K) is the temperature an expansion table counts from (its
+    mean coefficients or total strains are from there); None for a modulus or
+    a strength.  Between entries the value is interpolated linearly; outside
+    them it is not defined (:mod:`axialfe.mechanics.thermal`).
+    """
+
+    temperatures: tuple
+    values: tuple
+    reference: float | None = None
+
+    def __post_init__(self):
+        t, v = tuple(float(x) for x in self.temperatures), tuple(float(x) for x in self.values)
+        object.__setattr__(self, "temperatures", t)
+        object.__setattr__(self, "values", v)
+        if len(t) < 2 or len(t) != len(v):
+            raise ModelError("a table against temperature needs at least two entries")
+        if not all(math.isfinite(x) for x in t + v) or t[0] <= 0:
+            raise ModelError("a table against temperature needs finite values above absolute "
+                             "zero")
+        if any(b <= a for a, b in zip(t, t[1:])):
+            raise ModelError("a table against temperature must not give one temperature twice")
+        if self.reference is not None and not (math.isfinite(self.reference)
+                                               and self.reference > 0):
+            raise ModelError("a table's reference temperature must lie above absolute zero")
+
+    @property
+    def span(self):
+        """(first, last) temperature of the table, K."""
+        return self.temperatures[0], self.temperatures[-1]
+
+
+@dataclass(frozen=True)
 class Material:
     """A linear-elastic material.
 
@@ -93,6 +130,13 @@ class Material:
         In Pa; the yield strength in compression when it differs.
     hardening_modulus : float
         Plastic modulus H in Pa (slope of stress against plastic strain).
+    modulus_table, yield_table : PropertyTable, optional
+        E and f_y against temperature; ``elastic_modulus`` and ``yield_strength``
+        then hold the table's first value (the solvers evaluate the table at each
+        segment's temperature, :func:`axialfe.model.temperature.at_temperature`).
+    expansion_table : PropertyTable, optional
+        The expansion against temperature, from the table's reference:
+        ``expansion_kind`` 'mean' (mean coefficients, 1/K) or 'total' (strains).
     """
 
     name: str
@@ -105,10 +149,22 @@ class Material:
     behaviour: str = "elastic"
     compressive_yield_strength: float | None = None
     hardening_modulus: float = 0.0
+    modulus_table: PropertyTable | None = None
+    yield_table: PropertyTable | None = None
+    expansion_table: PropertyTable | None = None
+    expansion_kind: str = "constant"
 
     def __post_init__(self):
         _name(self.name, "a material's name", "materials")
         place = f"materials.{self.name}"
+        if self.expansion_kind not in ("constant", "mean", "total"):
+            raise ModelError(f"unknown expansion kind '{self.expansion_kind}'", place=place,
+                             options=("constant", "mean", "total"))
+        if (self.expansion_table is None) != (self.expansion_kind == "constant"):
+            raise ModelError("an expansion table needs its kind ('mean' or 'total') and a kind "
+                             "other than 'constant' needs a table", place=place)
+        if self.expansion_table is not None and self.expansion_table.reference is None:
+            raise ModelError("an expansion table needs its reference temperature", place=place)
         if self.elastic_modulus is None:
             raise ModelError("elastic_modulus is required", place=place)
         _positive(self.elastic_modulus, "elastic_modulus", place)
@@ -133,6 +189,12 @@ class Material:
     def plastic(self) -> bool:
         """Whether the material yields (behaviour 'elastic-plastic')."""
         return self.behaviour == "elastic-plastic"
+
+    @property
+    def tabled(self) -> bool:
+        """Whether a property is given as a table against temperature."""
+        return (self.modulus_table is not None or self.yield_table is not None
+                or self.expansion_table is not None)
 
 
 @dataclass(frozen=True)
@@ -542,7 +604,11 @@ class Model:
     gravity : float
         Component of gravity along +x in m/s^2 (self-weight).
     reference_temperature : float, optional
-        In K, for absolute temperatures.
+        In K, for absolute temperatures (and needed by tables against temperature).
+    modulus_at : {'temperature', 'reference'}
+        Where a tabled modulus is evaluated: at each segment's temperature in each
+        case, or at the reference temperature (as piping codes compute the
+        displacement stress range).
     units : OutputUnits
     title : str
     source : str, optional
@@ -574,6 +640,7 @@ class Model:
     temperature_change: float | None = None
     gravity: float = 0.0
     reference_temperature: float | None = None
+    modulus_at: str = "temperature"
     units: OutputUnits = field(default_factory=OutputUnits)
     title: str = "axial model"
     source: str | None = None
@@ -613,6 +680,14 @@ class Model:
                 raise ModelError(f"stations '{seg.start}' and '{seg.end}' stand at the same "
                                  "position; a segment needs a length", place=place)
         object.__setattr__(self, "_segment_index", names)
+        if self.modulus_at not in MODULUS_AT:
+            raise ModelError(f"unknown modulus_at '{self.modulus_at}'", place="settings",
+                             hint=suggest(str(self.modulus_at), MODULUS_AT), options=MODULUS_AT)
+        tabled = [seg.material.name for seg in self.segments if seg.material.tabled]
+        if tabled and self.reference_temperature is None:
+            raise ModelError(f"material '{tabled[0]}' gives properties against temperature: "
+                             "set settings.reference_temperature (the installed temperature)",
+                             place="settings")
         kinds_at = {}
         for i, sup in enumerate(self.supports):
             self._need_station(sup.at, f"supports[{i + 1}]")

@@ -13,6 +13,7 @@ __all__ = ["materials_text", "VALUES"]
 
 # the values of an entry in the order shown, and the kind of each
 VALUES = (("elastic_modulus", "stress"), ("thermal_expansion", "thermal_expansion"),
+          ("mean_thermal_expansion", "thermal_expansion"), ("thermal_expansion_total", "strain"),
           ("yield_strength", "stress"), ("compressive_yield_strength", "stress"),
           ("proof_strength", "stress"), ("tensile_strength", "stress"),
           ("density", "density"), ("poissons_ratio", None))
@@ -22,6 +23,10 @@ _US_DENSITY = ("lb/in^3", 27679.904710203)   # kg/m^3 in one lb/in^3 (NIST SP 81
 
 def _shown(value, kind, units: OutputUnits) -> str:
     """One library value (text with its unit, or a number) in the output's units."""
+    if isinstance(value, dict):       # a table against temperature: its range, as written
+        rows = [f"{t} {v}" for t, v in value.items() if t != "reference"]
+        start = f"from {value['reference']}: " if "reference" in value else ""
+        return f"{start}{rows[0]} ... {rows[-1]} ({len(rows)} entries)"
     if kind is None:
         return number(float(value))
     si = parse_quantity(value, kind) if isinstance(value, str) else float(value)
@@ -49,8 +54,11 @@ def materials_text(table: dict, units: OutputUnits, width: int = 100) -> str:
         out += [""] + wrap(f"{name}: {entry.get('description', '')}", "", "  ")
         sources = entry.get("sources", {})
         for key, kind in VALUES:
-            if key not in entry and key not in ("elastic_modulus", "thermal_expansion",
-                                                "yield_strength", "density"):
+            if key not in entry and (key not in ("elastic_modulus", "thermal_expansion",
+                                                 "yield_strength", "density")
+                                     or key == "thermal_expansion" and any(
+                                         k in entry for k in ("mean_thermal_expansion",
+                                                              "thermal_expansion_total"))):
                 continue
             value = "(not given)" if key not in entry else _shown(entry[key], kind, units)
             out.append(f"    {key:27s} {value}")

@@ -185,6 +185,10 @@ def collapse(model: Model, case: str | None = None, check_buckling: bool = True)
     """
     from ..engine.assembly import assemble
 
+    from ..model.temperature import refuse_tables
+
+    refuse_tables(model, "limit analysis", "give the yield strengths at the temperature of "
+                  "interest as constants")
     if model.gaps:
         raise ModelError("limit analysis cannot follow gaps (the clearances decide which parts "
                          "carry the load): track the loading with 'axialfe path' instead",

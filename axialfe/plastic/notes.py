@@ -63,7 +63,7 @@ def linear_notes(solution, units=None) -> list[str]:
             continue
         peak, _ = case.fields.stress_peak()
         for i in rows:
-            mat = model.segments[i].material
+            mat = case.model.segments[i].material     # at the case's temperatures, if tabled
             bound = mat.yield_strength if peak[i] >= 0 else -(mat.compressive_yield_strength
                                                                or mat.yield_strength)
             if abs(peak[i]) > abs(bound) * (1 + 1e-9):

@@ -473,6 +473,10 @@ def solve_symbolic(model: Model, case: str | None = None, assume=None, state=Non
     """
     if any(seg.preload is not None for seg in model.segments):  # axialfe.engine.preload
         raise ModelError("the closed form takes a 'misfit', not a preload", place="segments")
+    from ..model.temperature import refuse_tables
+
+    refuse_tables(model, "the closed form", "a property interpolated from a table is not a "
+                  "closed form; give the values at the case's temperature as constants")
     real, syms, values = _symbols(model)
     repl = {real[n]: syms[n] for n in real}
     subs = {syms[n]: v for n, v in values.items() if v is not None}

@@ -535,7 +535,10 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     1.0
     """
     from ..engine.preload import resolve_preloads
+    from ..model.temperature import refuse_tables
 
+    refuse_tables(model, "the elastic-plastic path", "give constant properties (their values "
+                  "at the temperatures of interest)")
     model = resolve_preloads(model)
     base = _pick_case(model, case)
     tr = _Tracker(model, base)

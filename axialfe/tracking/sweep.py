@@ -437,7 +437,10 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         raise ModelError(f"must be at least 2 (both ends of the range): got {steps}",
                          place="--steps")
     from ..engine.preload import resolve_preloads
+    from ..model.temperature import refuse_tables
 
+    refuse_tables(model, "the sweep", "solve it at fixed temperatures (one case each) with "
+                  "'axialfe solve'")
     model = resolve_preloads(model)
     states = load_states(model)
     names = [s.name for s in states]

@@ -24,7 +24,8 @@ EXPECTED = os.path.join(HERE, "expected.txt")
 # Every table and nearly every key of the model file; the model solves.  (Invented data.)
 BASE = {
     "title": "corpus base",
-    "settings": {"reference_temperature": "20 degC", "gravity": "-9.81 m/s^2"},
+    "settings": {"reference_temperature": "20 degC", "gravity": "-9.81 m/s^2",
+                 "modulus_at": "temperature"},
     "units": {"system": "SI", "force": "kN", "length": "mm", "displacement": "mm",
               "stress": "MPa"},
     "materials": {"steel-a": {"elastic_modulus": "200 GPa", "thermal_expansion": "12e-6 /K",
@@ -32,7 +33,17 @@ BASE = {
                               "source": "invented", "description": "demo steel",
                               "poissons_ratio": 0.3, "proof_strength": "230 MPa",
                               "tensile_strength": "400 MPa",
-                              "sources": {"yield_strength": "invented"}}},
+                              "sources": {"yield_strength": "invented"}},
+                  "steel-hot": {"elastic_modulus": {"-50 degC": "205 GPa", "400 degC": "180 GPa"},
+                                "density": "7850 kg/m^3",
+                                "yield_strength": {"-50 degC": "260 MPa", "400 degC": "190 MPa"},
+                                "mean_thermal_expansion": {"reference": "20 degC",
+                                                           "-50 degC": "11.2e-6 /K",
+                                                           "400 degC": "13.1e-6 /K"}},
+                  "steel-total": {"elastic_modulus": "200 GPa",
+                                  "thermal_expansion_total": {"reference": "20 degC",
+                                                              "-50 degC": "-0.8 mm/m",
+                                                              "400 degC": "5.0 mm/m"}}},
     "sections": {"rod": {"shape": "round", "diameter": "20 mm"},
                  "pipe": {"shape": "tube", "outer_diameter": "40 mm", "wall_thickness": "4 mm"},
                  "bar": {"shape": "rectangle", "width": "30 mm", "height": "10 mm"},
@@ -45,7 +56,7 @@ BASE = {
          "end_section": "rod2", "temperature_change": "10 K", "misfit": "0.01 mm",
          "distributed_load": "1 kN/m", "buckling_length": "300 mm",
          "effective_length_factor": 1.0},
-        {"name": "s2", "from": "b", "to": "c", "material": "steel-a", "section": "bar",
+        {"name": "s2", "from": "b", "to": "c", "material": "steel-hot", "section": "bar",
          "temperature": "40 degC"},
         {"name": "s3", "from": "d", "to": "e", "material": "structural-steel",
          "section": "plain"},
@@ -201,7 +212,8 @@ def schema_cases():
             del _get(data, path)[path[-1]]
             out.append((f"missing:{label}", dumps(data)))
         rng = key.range
-        if rng is not None and key.type in ("quantity", "number"):
+        if rng is not None and (key.type in ("quantity", "number")
+                                or key.type == "quantity_or_map" and path[0] == "materials"):
             for side, bound in (("high", rng.high), ("low", rng.low)):
                 if bound is None:
                     continue
@@ -388,6 +400,33 @@ def hostile_cases():
     add("conflict:same-position", _with(stations__c="300 mm"))
     add("conflict:settlement-without-support", _with(supports=[{"at": "c"}]))
     add("conflict:floating", _without("supports", "cases", "combinations", "limits", "gaps"))
+    # tables against temperature
+    hot = "materials__steel-hot__"
+    add("table:outside", _with(cases__1__temperature="450 degC"))
+    add("table:reference-outside", _with(settings__reference_temperature="-60 degC"))
+    add("table:no-reference", _with(**{hot + "mean_thermal_expansion": {
+        "-50 degC": "11.2e-6 /K", "400 degC": "13.1e-6 /K"}}))
+    add("table:reference-in-modulus", _with(**{hot + "elastic_modulus": {
+        "reference": "20 degC", "-50 degC": "205 GPa", "400 degC": "180 GPa"}}))
+    add("table:one-entry", _with(**{hot + "elastic_modulus": {"20 degC": "205 GPa"}}))
+    add("table:temperature-key", _with(**{hot + "yield_strength": {
+        "hot": "260 MPa", "400 degC": "190 MPa"}}))
+    add("table:temperature-key-unit", _with(**{hot + "yield_strength": {
+        "20 MPa": "260 MPa", "400 degC": "190 MPa"}}))
+    add("table:value-unit", _with(**{hot + "elastic_modulus": {
+        "-50 degC": "205 mm", "400 degC": "180 GPa"}}))
+    add("table:value-range", _with(**{hot + "elastic_modulus": {
+        "-50 degC": "205 TPa", "400 degC": "180 GPa"}}))
+    add("table:value-type", _with(**{hot + "elastic_modulus": {
+        "-50 degC": 205, "400 degC": "180 GPa"}}))
+    add("table:strain-unit", _with(**{"materials__steel-total__thermal_expansion_total": {
+        "reference": "20 degC", "-50 degC": "-0.8 MPa", "400 degC": "5.0 mm/m"}}))
+    add("table:two-expansions", _with(**{hot + "thermal_expansion": "12e-6 /K"}))
+    add("table:no-reference-temperature", _without("settings__reference_temperature",
+                                                    "segments__1__temperature",
+                                                    "cases__1__temperature"))
+    add("table:modulus-at", _with(settings__modulus_at="installed"))
+    add("table:preload", _with(segments__2__preload="5 kN"))
     return c
 
 
