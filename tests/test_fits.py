@@ -577,7 +577,8 @@ def test_report_and_plot_recognise_a_fit_file(tmp_path):
     assert "<link" not in text and 'src="http' not in text  # nothing fetched from a network
     md = tmp_path / "fit.md"
     assert runner.invoke(app, ["report", str(EXAMPLE), "-o", str(md)]).exit_code == 0
-    assert "data:image/png;base64," in md.read_text(encoding="utf-8")
+    assert "](fit-diagram-1.png)" in md.read_text(encoding="utf-8")   # linked, beside it
+    assert (tmp_path / "fit-diagram-1.png").read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
     png = tmp_path / "fit.png"
     assert runner.invoke(app, ["plot", str(EXAMPLE), "-o", str(png)]).exit_code == 0
     assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"

@@ -562,6 +562,14 @@ def check(model: ModelPath,
     raise typer.Exit(checks_exit(report))
 
 
+def figures_beside(model: Path, report: Path, count: int):
+    """Check the diagram files a Markdown report writes beside itself, as every output is."""
+    from ..output.report import figure_names
+
+    outputs([model], ("--output", report),
+            *(("a diagram of the report", f) for f in figure_names(report, count)))
+
+
 def beside(model: Path, output: Optional[Path], suffix: str) -> Path:
     """``output``, or ``MODEL-STEM`` + ``suffix`` beside the model when none is given."""
     return output if output is not None else model.with_name(model.stem + suffix)
@@ -622,10 +630,10 @@ def report(model: ModelPath,
     results, calculation sheet, checks and diagrams.
 
     The HTML report needs no other file and prints on A4 or Letter with the title
-    block of the model's [project] table on every page; a Markdown report links its
+    block of the model's project table on every page; a Markdown report links its
     diagrams, written beside it as REPORT-STEM-diagram-N.png.
     """
-    from ..output.report import figure_names, report_format, write_report
+    from ..output.report import report_format, write_report
     from ..engine.system import solve as run
 
     from ..fits.reader import is_fit_file
@@ -642,18 +650,22 @@ def report(model: ModelPath,
 
             j = read_joint(model)
             units = output_units(j, force_unit, length_unit, None, stress_unit)
-            write_joint_report(solve_joint(j), output, fmt, units)
+            solved = solve_joint(j)
+            if fmt == "markdown":  # the joint diagram and one per state
+                figures_beside(model, output, 1 + len(solved.solution.cases))
+            write_joint_report(solved, output, fmt, units)
         elif is_fit_file(model):  # a press or shrink fit (axialfe fit) has its own report
             from ..output.fitreport import write_fit_report
 
             result, units = _solved_fit(model, force_unit, length_unit, stress_unit)
+            if fmt == "markdown":
+                figures_beside(model, output, 1)
             write_fit_report(result, output, fmt, units)
         else:
             m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
             solution = run(m)
             if fmt == "markdown":  # its diagrams are files beside it: checked before writing
-                outputs([model], ("--output", output),
-                        *(("a diagram of the report", f) for f in figure_names(output, solution)))
+                figures_beside(model, output, len(solution.cases))
             from ..checks import check_solution
             from ..checks.assumptions import assumption_notes
             from ..envelope import envelope

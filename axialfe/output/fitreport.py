@@ -11,16 +11,15 @@ escaped and the document needs no network and no other file.
 
 from __future__ import annotations
 
-import base64
 import datetime
-import io
 from pathlib import Path
 
 from ..errors import ModelError
 from ..fits.fit import FitResult, FitUnits
 from .fittext import (FIT_CAUTIONS, FIT_CHECK_HEADERS, fit_check_cells, fit_governing_text,
                       fit_summary_lines, fit_tables)
-from .report import _CSS, _e, _html_table, _md, _md_table, report_format
+from .report import (_CSS, _e, _html_table, _md, _md_table, md_figure, report_format,
+                     svg_text, write_markdown_with_figures)
 
 __all__ = ["build_fit_html", "build_fit_markdown", "write_fit_report"]
 
@@ -48,24 +47,10 @@ def _summary_rows(result: FitResult, units: FitUnits):
     return rows
 
 
-def _figure(result: FitResult, units: FitUnits, fmt: str) -> str:
+def _figure(result: FitResult, units: FitUnits) -> str:
     from .fitplot import plot_fit
 
-    fig = plot_fit(result, None, units)
-    buf = io.BytesIO()
-    if fmt == "svg":
-        from matplotlib.backends.backend_svg import FigureCanvasSVG
-
-        FigureCanvasSVG(fig)
-        fig.savefig(buf, format="svg", metadata={"Date": None})
-        text = buf.getvalue().decode("utf-8")
-        text = text[text.index("<svg"):]
-        return text.replace("<svg ", '<svg role="img" style="max-width:100%;height:auto" ', 1)
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-
-    FigureCanvasAgg(fig)
-    fig.savefig(buf, format="png", dpi=150)
-    return base64.b64encode(buf.getvalue()).decode("ascii")
+    return svg_text(plot_fit(result, None, units))
 
 
 _CAPTION = ("Contact pressure at the least and the greatest interference, and the largest "
@@ -106,7 +91,7 @@ def build_fit_html(result: FitResult, units: FitUnits | None = None,
                f"{_e(fit_governing_text(result))}. Overall: {_e(result.checks.status)}.</p>"
                "</section>")
     out.append('<section id="diagrams"><h2>Diagram</h2>'
-               f'<figure id="diagram-0">{_figure(result, units, "svg")}'
+               f'<figure id="diagram-0">{_figure(result, units)}'
                f"<figcaption>{_e(_CAPTION)}</figcaption></figure></section>")
     out.append('<section id="cautions"><h2>Cautions</h2><ul>'
                + "".join(f"<li>{_e(c)}</li>" for c in FIT_CAUTIONS) + "</ul></section>")
@@ -115,8 +100,9 @@ def build_fit_html(result: FitResult, units: FitUnits | None = None,
 
 
 def build_fit_markdown(result: FitResult, units: FitUnits | None = None,
-                       date: str | None = None) -> str:
-    """The fit report as one Markdown document (the diagram as an embedded PNG)."""
+                       date: str | None = None, figures=None) -> str:
+    """The fit report as one Markdown document, linking its diagram (``figures``: the one
+    file name, which :func:`write_fit_report` writes beside it)."""
     fit = result.fit
     units = units or fit.units
     date = date or datetime.date.today().isoformat()
@@ -134,7 +120,8 @@ def build_fit_markdown(result: FitResult, units: FitUnits | None = None,
     out += _md_table(FIT_CHECK_HEADERS, [fit_check_cells(e, units) for e in result.checks.entries])
     out += [f"**Governing check:** {_md(fit_governing_text(result))}. Overall: "
             f"{result.checks.status}.", "", "## Diagram", "",
-            f"![{_md(_CAPTION)}](data:image/png;base64,{_figure(result, units, 'png')})", "",
+            md_figure(_md(_CAPTION), figures[0]) if figures else
+            f"{_md(_CAPTION)} (drawn by `axialfe plot FIT`)", "",
             "## Cautions", ""]
     out += [f"- {_md(c)}" for c in FIT_CAUTIONS]
     return "\n".join(out) + "\n"
@@ -145,12 +132,16 @@ def write_fit_report(result: FitResult, path, fmt: str | None = None,
     """Write the fit report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None)."""
     path = Path(path)
     fmt = report_format(path, fmt)
-    build = build_fit_html if fmt == "html" else build_fit_markdown
-    text = build(result, units, date)
+    if fmt == "markdown":  # its diagram is a PNG file beside it
+        from .fitplot import plot_fit
+
+        return write_markdown_with_figures(
+            path, lambda names: build_fit_markdown(result, units, date, names),
+            [plot_fit(result, None, units or result.fit.units)])
     from ..io.files import write_text
 
     try:
-        write_text(path, text)  # atomic: a failing write leaves no partial report
+        write_text(path, build_fit_html(result, units, date))  # atomic
     except OSError as exc:
         raise ModelError(f"cannot write the report: {exc}", file=str(path)) from exc
     return path

@@ -8,16 +8,15 @@ diagrams of the model the joint built, and the cautions.  It reads a solved
 
 from __future__ import annotations
 
-import base64
 import datetime
-import io
 from pathlib import Path
 
 from ..errors import ModelError
 from ..formatting import number
 from ..units import OutputUnits
 from .jointtext import JOINT_CAUTIONS, joint_dict
-from .report import _CSS, _e, _html_table, _md, _md_table, report_format
+from .report import (_CSS, _e, _html_table, _md, _md_table, md_figure, report_format,
+                     svg_text, write_markdown_with_figures)
 from .text import _check_cells, _governing_text
 
 __all__ = ["build_joint_html", "build_joint_markdown", "write_joint_report"]
@@ -25,37 +24,20 @@ __all__ = ["build_joint_html", "build_joint_markdown", "write_joint_report"]
 _VERDICT = {"pass": "pass", "FAIL": "fail", "review": "review"}
 
 
+def _captions(result):
+    return (["Joint diagram: bolt and clamp force against the external load, each state."]
+            + [f"Axial force along the built model (the bolt in tension, the clamped parts in "
+               f"compression), state \u201c{case.name}\u201d." for case in result.solution.cases])
+
+
 def _figures(result, units):
     """(caption, figure) of the joint diagram and of each state's axial forces."""
     from .jointplot import plot_joint
     from .plot import plot_case
 
-    yield ("Joint diagram: bolt and clamp force against the external load, each state.",
-           plot_joint(result, None, units))
-    for case in result.solution.cases:
-        yield (f"Axial force along the built model (the bolt in tension, the clamped parts in "
-               f"compression), state "
-               f"\u201c{case.name}\u201d.", plot_case(case, "force", None, units))
-
-
-def _svg(fig) -> str:
-    from matplotlib.backends.backend_svg import FigureCanvasSVG
-
-    FigureCanvasSVG(fig)
-    buf = io.BytesIO()
-    fig.savefig(buf, format="svg", metadata={"Date": None})
-    text = buf.getvalue().decode("utf-8")
-    text = text[text.index("<svg"):]
-    return text.replace("<svg ", '<svg role="img" style="max-width:100%;height:auto" ', 1)
-
-
-def _png(fig) -> str:
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-
-    FigureCanvasAgg(fig)
-    buf = io.BytesIO()
-    fig.savefig(buf, format="png", dpi=150)
-    return base64.b64encode(buf.getvalue()).decode("ascii")
+    figures = [plot_joint(result, None, units)] + [plot_case(case, "force", None, units)
+                                                   for case in result.solution.cases]
+    return list(zip(_captions(result), figures))
 
 
 def _tables(result, units):
@@ -162,7 +144,7 @@ def build_joint_html(result, units: OutputUnits | None = None, date: str | None 
             f"{_e(_governing_text(result.checks))}. Overall: {_e(result.checks.status)}.</p>",
             "</section>", '<section id="diagrams"><h2>Diagrams</h2>']
     for n, (caption, fig) in enumerate(_figures(result, units)):
-        out.append(f'<figure id="diagram-{n}">{_svg(fig)}<figcaption>{_e(caption)}'
+        out.append(f'<figure id="diagram-{n}">{svg_text(fig)}<figcaption>{_e(caption)}'
                    "</figcaption></figure>")
     out += ["</section>", '<section id="cautions"><h2>Cautions</h2><ul>'
             + "".join(f"<li>{_e(c)}</li>" for c in JOINT_CAUTIONS) + "</ul></section>",
@@ -170,8 +152,11 @@ def build_joint_html(result, units: OutputUnits | None = None, date: str | None 
     return "\n".join(out) + "\n"
 
 
-def build_joint_markdown(result, units: OutputUnits | None = None, date: str | None = None) -> str:
-    """The joint report as one Markdown document (figures as embedded base64 PNG)."""
+def build_joint_markdown(result, units: OutputUnits | None = None, date: str | None = None,
+                         figures=None) -> str:
+    """The joint report as one Markdown document, linking its diagrams ``figures`` (file
+    names, one per figure: the joint diagram, then each state's forces) that
+    :func:`write_joint_report` writes beside it."""
     units = units or result.joint.units
     date = date or datetime.date.today().isoformat()
     out = [f"# {_md(result.joint.title)}", "", f"Bolted joint report, {date}", "",
@@ -183,21 +168,29 @@ def build_joint_markdown(result, units: OutputUnits | None = None, date: str | N
     out += ["## Checks", ""] + _md_table(headers, rows)
     out += [f"**Governing check:** {_md(_governing_text(result.checks))}. Overall: "
             f"{result.checks.status}.", "", "## Diagrams", ""]
-    for n, (caption, fig) in enumerate(_figures(result, units)):
-        out += [f"![figure {n + 1}: {_md(caption)}](data:image/png;base64,{_png(fig)})", ""]
+    captions = _captions(result)
+    for n, caption in enumerate(captions):
+        text = f"figure {n + 1}: {_md(caption)}"
+        out += [md_figure(text, figures[n]) if figures else
+                f"{text} (drawn by `axialfe joint JOINT --plot FILE`)", ""]
     out += ["## Cautions", ""] + [f"- {_md(c)}" for c in JOINT_CAUTIONS]
     return "\n".join(out) + "\n"
 
 
 def write_joint_report(result, path, fmt: str | None = None, units: OutputUnits | None = None,
                        date: str | None = None) -> Path:
-    """Write the joint report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None)."""
+    """Write the joint report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None); a
+    Markdown report's diagrams go beside it (:func:`axialfe.output.report.figure_names`)."""
     path = Path(path)
     fmt = report_format(path, fmt)
-    build = build_joint_html if fmt == "html" else build_joint_markdown
-    text = build(result, units, date)
+    if fmt == "markdown":  # its diagrams are PNG files beside it
+        return write_markdown_with_figures(
+            path, lambda names: build_joint_markdown(result, units, date, names),
+            [fig for _, fig in _figures(result, units or result.joint.units)])
+    from ..io.files import write_text
+
     try:
-        path.write_text(text, encoding="utf-8")
+        write_text(path, build_joint_html(result, units, date))  # atomic
     except OSError as exc:
         raise ModelError(f"cannot write the report: {exc}", file=str(path)) from exc
     return path

@@ -37,7 +37,7 @@ from ..units import OutputUnits
 
 __all__ = ["REPORT_FORMATS", "SECTIONS", "PAPERS", "report_format", "build_html",
            "build_markdown", "write_report", "station_words", "calculation_rows", "worked_units",
-           "title_block_rows", "figure_names"]
+           "title_block_rows", "figure_names", "write_markdown_with_figures", "md_figure"]
 
 REPORT_FORMATS = {"html": (".html", ".htm"), "markdown": (".md", ".markdown")}
 SECTIONS = ("summary", "job", "assumptions", "input", "results", "calculation", "checks",
@@ -317,21 +317,24 @@ def _assumptions(report) -> list[str]:
 
 
 # --- diagrams ----------------------------------------------------------------
-def _svg(result, units) -> str:
-    from .plot import plot_case
-
-    fig = plot_case(result, "all", None, units)
-    buf = io.BytesIO()
+def svg_text(fig) -> str:
+    """A matplotlib figure as inline SVG for an HTML report, its text kept as text."""
+    import matplotlib
     from matplotlib.backends.backend_svg import FigureCanvasSVG
 
-    import matplotlib
-
+    buf = io.BytesIO()
     FigureCanvasSVG(fig)
     with matplotlib.rc_context({"svg.fonttype": "none"}):   # text stays text
         fig.savefig(buf, format="svg", metadata={"Date": None})
     text = buf.getvalue().decode("utf-8")
     text = text[text.index("<svg"):]
     return text.replace("<svg ", '<svg role="img" style="max-width:100%;height:auto" ', 1)
+
+
+def _svg(result, units) -> str:
+    from .plot import plot_case
+
+    return svg_text(plot_case(result, "all", None, units))
 
 
 # --- the title block and the summary ----------------------------------------
@@ -781,11 +784,35 @@ def _md_parts(parts) -> list[str]:
     return out
 
 
-def figure_names(path, solution: Solution) -> list[Path]:
-    """The diagram files a Markdown report at ``path`` links, one per case, beside it:
-    ``REPORT-STEM-diagram-1.png``, ``-2.png``, ... in case order."""
+def figure_names(path, count: int) -> list[Path]:
+    """The diagram files a Markdown report at ``path`` links, beside it:
+    ``REPORT-STEM-diagram-1.png``, ``-2.png``, ... (``count`` of them, in order)."""
     path = Path(path)
-    return [path.with_name(f"{path.stem}-diagram-{n + 1}.png") for n in range(len(solution.cases))]
+    return [path.with_name(f"{path.stem}-diagram-{n + 1}.png") for n in range(count)]
+
+
+def write_markdown_with_figures(path, build, figures) -> Path:
+    """Write the diagrams ``figures`` (matplotlib figures) as the PNG files of
+    :func:`figure_names` beside ``path``, then ``build(names)`` (the Markdown text that
+    links them by name) to ``path``; every file atomically."""
+    from ..io.files import write_text
+    from .plot import save_figure
+
+    path = Path(path)
+    files = figure_names(path, len(figures))
+    text = build([f.name for f in files])
+    try:
+        for fig, file in zip(figures, files):
+            save_figure(fig, file)
+        write_text(path, text)  # atomic: a failing write leaves no partial report
+    except OSError as exc:
+        raise ModelError(f"cannot write the report: {exc}", file=str(path)) from exc
+    return path
+
+
+def md_figure(caption: str, name) -> str:
+    """A Markdown image linking the file ``name`` (relative to the report)."""
+    return f"![{caption}]({_md_link(name)})"
 
 
 def build_markdown(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
@@ -859,7 +886,7 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
         if figures is None:
             out += [f"{caption}: draw it with `axialfe plot MODEL --case NAME`.", ""]
         else:
-            out += [f"![{caption}]({_md_link(figures[n])})", ""]
+            out += [md_figure(caption, figures[n]), ""]
     out += [f"## {_TITLES['cautions']}", ""] + [f"- {_md(c)}" for c in CAUTIONS]
     return "\n".join(out) + "\n"
 
@@ -883,20 +910,19 @@ def write_report(solution: Solution, path, fmt: str | None = None,
     """
     path = Path(path)
     fmt = report_format(path, fmt)
+    if fmt == "markdown":
+        from .plot import plot_case
+
+        units = units or solution.model.units
+        return write_markdown_with_figures(
+            path, lambda names: build_markdown(solution, units, date, checks=checks,
+                                               review=review, envelope=envelope,
+                                               thermal=thermal, figures=names, notes=notes),
+            [plot_case(result, "all", None, units) for result in solution.cases])
     from ..io.files import write_text
 
-    if fmt == "html":
-        text = build_html(solution, units, date, checks=checks, review=review,
-                          envelope=envelope, thermal=thermal, paper=paper, notes=notes)
-    else:
-        from .plot import plot_case, save_figure
-
-        figures = figure_names(path, solution)
-        text = build_markdown(solution, units, date, checks=checks, review=review,
-                              envelope=envelope, thermal=thermal,
-                              figures=[f.name for f in figures], notes=notes)
-        for result, figure in zip(solution.cases, figures):
-            save_figure(plot_case(result, "all", None, units or solution.model.units), figure)
+    text = build_html(solution, units, date, checks=checks, review=review,
+                      envelope=envelope, thermal=thermal, paper=paper, notes=notes)
     try:
         write_text(path, text)  # atomic: a failing write leaves no partial report
     except OSError as exc:
