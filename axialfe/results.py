@@ -15,6 +15,7 @@ import numpy as np
 from .errors import ModelError, suggest
 from .mechanics import Fields
 from .model import Model
+from .model.arrays import frozen as _frozen
 from .units import OutputUnits
 
 __all__ = ["CaseResult", "Solution", "RESIDUAL_BOUND", "certify", "rounding_bounds", "TABLES"]
@@ -26,17 +27,6 @@ RESIDUAL_BOUND = 1e-9
 _ARRAYS = ("u", "axial_force", "stress", "mechanical_strain", "elongation", "elastic_elongation",
            "thermal_elongation", "thermal_strain", "temperature_change", "length", "reactions",
            "applied", "gap_force", "gap_opening", "gap_closed")
-
-
-def _frozen(value) -> bool:
-    """True for an ndarray that is read-only, as is every array it is a view of."""
-    while isinstance(value, np.ndarray):
-        if value.flags.writeable:
-            return False
-        if value.base is None:
-            return True
-        value = value.base
-    return False
 
 
 # the tables of a result (to_frame, _repr_html_): name, the rows of a to_dict, its columns as

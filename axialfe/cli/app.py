@@ -169,6 +169,10 @@ def load(path, force=None, length=None, displacement=None, stress=None, temperat
 
 def stated_values(path, model, solution):
     """The review of the values the model file states ([[claims]]), or None when it states none."""
+    from ..io.modelfile import states_claims
+
+    if not states_claims(model, path):  # no claims: the review's modules are not loaded
+        return None
     from ..io.claims import read_claims
     from ..review import verify
 

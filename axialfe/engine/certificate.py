@@ -104,7 +104,7 @@ def check_unique_gaps(system, lam, closed, opening, tol_gap, label=""):
     if not len(lam):
         return
     active = closed | (np.abs(opening) <= tol_gap)
-    if int(active.sum()) < 2:
+    if int(active.sum()) < 2 or _independent(system):
         return
     M, H = system.gap_matrix
     sub = M[np.ix_(active, active)]
@@ -126,6 +126,21 @@ def check_unique_gaps(system, lam, closed, opening, tol_gap, label=""):
                      "motions (the same constraint twice, or openings whose sum is fixed), so "
                      "only their total is known; remove the redundant gap",
                      file=model.source, line=model.line_of(f"gaps.{names[0]}"))
+
+
+def _independent(system) -> bool:
+    """True when the gaps' constraints are independent by their layout alone.
+
+    Each gap holds one free station against ground, no two the same station,
+    and every part has a support: the rows of B are then distinct unit rows
+    of free unknowns, and ``M = B K^-1 B^T`` is positive definite with K (the
+    many-gap case, where building the dense M would cost gaps x gaps).
+    """
+    cons = system.cons
+    if system.n_parts or np.any(cons.b >= 0) or np.any(cons.s1 == 0):
+        return False
+    at = cons.a
+    return bool(np.all(system._free_index[at] >= 0)) and len(np.unique(at)) == len(at)
 
 
 def _dependent(sub):

@@ -279,28 +279,14 @@ def parse_fit(text: str, source: str | None = None) -> PressFit:
     ModelError
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        m = re.search(r"line (\d+)", str(exc))
-        raise ModelError(f"not valid TOML: {exc}", file=source,
-                         line=int(m.group(1)) if m else None) from exc
-    return _FitReader(data, source, text).read()
+    from ..io.source import decode
+
+    return _FitReader(decode(text, source), source, text).read()
 
 
 def read_fit(path) -> PressFit:
     """Read a fit file (TOML); see :func:`parse_fit`."""
-    from ..io.limits import check_text, read_input
+    from ..io.source import read_text
 
     path = Path(path)
-    try:
-        text = read_input(path)
-        check_text(text, str(path))
-    except FileNotFoundError:
-        raise ModelError("the fit file does not exist", file=str(path)) from None
-    except IsADirectoryError:
-        raise ModelError("this is a folder, not a fit file", file=str(path)) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ModelError(f"cannot read the fit file: {exc.__class__.__name__}: {exc}",
-                         file=str(path)) from exc
-    return parse_fit(text, str(path))
+    return parse_fit(read_text(path, "fit file"), str(path))

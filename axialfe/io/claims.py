@@ -12,15 +12,14 @@ are located like the model reader's::
 
 from __future__ import annotations
 
-import re
-import tomllib
 from pathlib import Path
 
 from ..errors import ModelError, suggest
 from ..model import Model
 from ..review.claims import ENDS, KIND, WHATS, Claim, Tolerance, check_claim
 from ..units import parse_quantity, split_quantity
-from .modelfile import _Locator
+from .modelfile import _Locator, states_claims
+from .source import decode, read_text
 
 __all__ = ["read_claims", "parse_claims"]
 
@@ -118,37 +117,20 @@ class _ClaimReader:
         return tuple(self.claim(entry, i, model) for i, entry in enumerate(items, 1))
 
 
-def _load(text: str, source: str) -> dict:
-    try:
-        return tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        m = re.search(r"line (\d+)", str(exc))
-        raise ModelError(f"not valid TOML: {exc}", file=source,
-                         line=int(m.group(1)) if m else None) from exc
-
-
 def _read_text(path: Path, what: str, source=None, line=None) -> str:
-    try:
-        return path.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise ModelError(f"the {what} does not exist", file=source or str(path), line=line,
-                         place=None if source is None else f"claims_file '{path}'") from None
-    except IsADirectoryError:
-        raise ModelError(f"this is a folder, not a {what}", file=source or str(path), line=line,
-                         place=None if source is None else f"claims_file '{path}'") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ModelError(f"cannot read the {what}: {exc.__class__.__name__}: {exc}",
-                         file=source or str(path), line=line) from exc
+    return read_text(path, what, file=source, line=line,
+                     place=None if source is None else f"claims_file '{path}'")
 
 
 def parse_claims(text: str, model: Model, source: str | None = None,
-                 only_claims: bool = False) -> tuple[Claim, ...]:
+                 only_claims: bool = False, data: dict | None = None) -> tuple[Claim, ...]:
     """Read the ``[[claims]]`` of one TOML text and check them against ``model``.
 
     With ``only_claims`` the text is a claims file: any other top-level key is
     an error.  ``claims_file`` is not followed here (see :func:`read_claims`).
+    ``data`` is the text already decoded, when it is at hand.
     """
-    data = _load(text, source)
+    data = decode(text, source) if data is None else data
     reader = _ClaimReader(text, source)
     if only_claims:
         for key in data:
@@ -175,9 +157,11 @@ def read_claims(path, model: Model) -> tuple[Claim, ...]:
         of the wrong dimension, or a claims file that cannot be read.
     """
     path = Path(path)
+    if not states_claims(model, path):
+        return ()  # the model's reader saw neither key in this file
     text = _read_text(path, "model file")
-    data = _load(text, str(path))
-    claims = parse_claims(text, model, str(path))
+    data = decode(text, str(path))
+    claims = parse_claims(text, model, str(path), data=data)
     if "claims_file" in data:
         name = data["claims_file"]
         line = _Locator(text).find(None, None, "claims_file")

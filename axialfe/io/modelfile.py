@@ -23,8 +23,10 @@ from ..model.parts import BEHAVIOURS, MODULUS_AT
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Project, Section, Segment, Station, Support)
 from ..units import OutputUnits, parse_quantity, split_quantity
-from . import limits, schema
+from . import schema
 from .physical import check_absolute_temperatures, check_segment_lengths
+from .source import decode, read_text
+from .tables import expand_tables
 from .schema import check_range, check_types, keys_of
 
 __all__ = ["read_model", "parse_model", "builtin_materials"]
@@ -176,9 +178,12 @@ def builtin_materials() -> Mapping:
 class _Reader:
     """Turns the parsed TOML tables into model objects, locating every error."""
 
-    def __init__(self, data: dict, source: str | None, text: str | None, symbolic: bool = False):
+    def __init__(self, data: dict, source: str | None, text: str | None, symbolic: bool = False,
+                 rows: dict | None = None):
         self.data = data
         self.source = source
+        # entries born from table files (axialfe.io.tables): where each stands
+        self.rows = rows or {}
         self.locator = _Locator(text) if text is not None else None
         # closed form: declared symbols (name -> SymbolDef); with ``symbolic`` every
         # value becomes an exact sympy expression instead of a float
@@ -188,8 +193,17 @@ class _Reader:
 
     # --- errors ---------------------------------------------------------
     def fail(self, message, table=None, index=None, key=None, place=None, hint=None, options=None):
-        raise ModelError(message, place=place, file=self.source, line=self.line(table, index, key),
-                         hint=hint, options=options)
+        file, line, place = self.where(table, index, key, place)
+        raise ModelError(message, place=place, file=file, line=line, hint=hint, options=options)
+
+    def where(self, table, index, key, place):
+        """``(file, line, place)`` of a key: in the model file, or in the row of a table
+        file the entry came from (the place is then the key's column)."""
+        if self.rows:
+            row = self.rows.get((table, key if table == "stations" else index))
+            if row is not None:
+                return row.file, row.line, row.columns.get(key, place)
+        return self.source, self.line(table, index, key), place
 
     def _schema_fail(self, message, table, index, key, place, hint=None, options=None):
         self.fail(message, table, index, key, place=place, hint=hint, options=options)
@@ -213,9 +227,9 @@ class _Reader:
             else:
                 si = parse_quantity(value, kind)
         except ModelError as exc:
-            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source,
-                             line=self.line(table, index, key), hint=exc.hint,
-                             options=exc.options) from exc
+            file, line, place = self.where(table, index, key, place)
+            raise type(exc)(f"{key}: {exc.message}", place=place, file=file, line=line,
+                            hint=exc.hint, options=exc.options) from exc
         self.in_range(si, table, index, key, place, value)
         return si
 
@@ -307,8 +321,8 @@ class _Reader:
             message = exc.message
             if raw is not None and isinstance(raw.get(key), str):
                 message = _RANGE_GOT.sub(lambda m: f"{m.group(1)}: got '{raw[key]}'", message)
-            raise ModelError(message, place=place or exc.place, file=self.source,
-                             line=self.line(table, index, key), hint=exc.hint,
+            file, line, place = self.where(table, index, key, place or exc.place)
+            raise ModelError(message, place=place, file=file, line=line, hint=exc.hint,
                              options=exc.options) from exc
 
     # --- pieces ---------------------------------------------------------
@@ -746,6 +760,10 @@ class _Reader:
                          symbols=tuple(self.symbols.values()), lines=self.name_lines(),
                          project=project)
         except ModelError as exc:
+            m = re.match(r"segments\[(\d+)\]", exc.place or "")
+            row = self.rows.get(("segments", int(m.group(1)))) if m else None
+            if row is not None:
+                raise exc.located(file=row.file, line=row.line) from exc
             raise exc.located(file=self.source, line=self._line_of_place(exc.place)) from exc
         check_segment_lengths(model, self._line_of_place)
         check_absolute_temperatures(model, self._line_of_place)
@@ -762,6 +780,12 @@ class _Reader:
         if self.locator is None:
             return {}
         lines = {f"stations.{k}": v for k, v in self.locator.table_keys("stations").items()}
+        if self.rows:  # stations from a table file: the line that names the file
+            named = self.line("stations", None, "file")
+            lines.update({f"stations.{k}": named for t, k in self.rows if t == "stations"})
+        for key in ("claims", "claims_file"):  # so that a file stating none is not read twice
+            if key in self.data:
+                lines[key] = self.line(None, None, key)
         materials = self.data.get("materials")
         for name in (materials if isinstance(materials, dict) else {}):
             line = self.line(f"materials.{name}")
@@ -773,11 +797,14 @@ class _Reader:
                     lines[f"materials.{name}.{key}"] = self.line(f"materials.{name}", None, key)
         for table in ("gaps", "segments"):
             entries = self.data.get(table, [])
+            # entries from a table file: the line that names the file, found once
+            named = self.line(table, None, "file") if (table, 1) in self.rows else None
             for i, entry in enumerate(entries if isinstance(entries, list) else [], 1):
                 if isinstance(entry, dict):
                     name = entry.get("name", f"{entry.get('from')}-{entry.get('to')}")
                     if isinstance(name, str):
-                        lines.setdefault(f"{table}.{name}", self.line(table, i))
+                        lines.setdefault(f"{table}.{name}",
+                                         named if named is not None else self.line(table, i))
         return lines
 
     def _line_of_place(self, place):
@@ -884,33 +911,22 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
         For malformed TOML, unknown keys or names, wrong units and invalid values.
     """
     text = text[1:] if text.startswith("\ufeff") else text  # a byte-order mark is no content
-    limits.check_text(text, source)
-    try:
-        with gc_paused():
-            data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        m = re.search(r"line (\d+)", str(exc))
-        end = "end of document" in str(exc)  # TOML's own count: the last line
-        raise ModelError(f"not valid TOML: {exc}", file=source,
-                         line=int(m.group(1)) if m else (text.count("\n") + 1 if end else None)
-                         ) from exc
-    except RecursionError:  # a backstop: the scan above refuses deep nesting first
-        raise ModelError(f"arrays and tables nest deeper than {limits.MAX_DEPTH} levels",
-                         file=source) from None
+    data = decode(text, source)
     with gc_paused():
-        return _Reader(data, source, text, symbolic).model()
+        reader = _Reader(data, source, text, symbolic)
+        # [stations] file = ... and [segments] file = ...: the tables they name, as entries
+        reader.rows = expand_tables(data, source, lambda table, key: reader.line(table, None, key))
+        return reader.model()
+
+
+def states_claims(model: Model, path) -> bool:
+    """False when ``model`` was read from ``path`` and its reader saw no ``claims`` or
+    ``claims_file`` there (the file then need not be read again for them)."""
+    return not (model.source == str(path) and model.lines
+                and not {"claims", "claims_file"} & model.lines.keys())
 
 
 def read_model(path, symbolic: bool = False) -> Model:
     """Read a model file (TOML); see :func:`parse_model`."""
     path = Path(path)
-    try:
-        text = limits.read_input(path)
-    except FileNotFoundError:
-        raise ModelError("the model file does not exist", file=str(path)) from None
-    except IsADirectoryError:
-        raise ModelError("this is a folder, not a model file", file=str(path)) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ModelError(f"cannot read the model file: {exc.__class__.__name__}: {exc}",
-                         file=str(path)) from exc
-    return parse_model(text, str(path), symbolic)
+    return parse_model(read_text(path, "model file"), str(path), symbolic)

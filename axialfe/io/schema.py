@@ -21,7 +21,7 @@ from dataclasses import dataclass, field
 
 from ..errors import suggest
 
-__all__ = ["Key", "Table", "Range", "MODEL", "check_types", "check_range", "keys_of",
+__all__ = ["Key", "Table", "Range", "MODEL", "FILE_TABLE", "check_types", "check_range", "keys_of",
            "range_of", "MAX_NAME_LENGTH"]
 
 MAX_NAME_LENGTH = 200
@@ -229,6 +229,13 @@ LIMIT = Table({
     "at": Key("name"), "displacement": _q("length", low=0, high=100, low_open=True, unit="m"),
     "gap": Key("name"), "min_opening": _q("length", low=0, high=100, low_open=True, unit="m"),
 }, "limit")
+
+# ``[stations] file = "stations.csv"`` or ``[segments] file = "segments.csv"``: the table kept
+# in a CSV file beside the model (axialfe.io.tables; its columns are the keys of STATION's
+# ``x`` and of SEGMENT, value columns with their unit in the header)
+FILE_TABLE = Table({
+    "file": Key("text", required=True, missing="a table kept in a file needs 'file'"),
+}, "table file")
 
 # the job of a report's title block: free text (a TOML date is taken as written)
 PROJECT = Table({

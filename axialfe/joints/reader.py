@@ -15,6 +15,7 @@ from pathlib import Path
 from ..errors import ModelError, UnitError, suggest
 from ..formatting import number
 from ..io.modelfile import _Reader, builtin_materials
+from ..io.source import decode, read_text
 from ..units import OutputUnits, split_quantity, unit_base
 from .grades import bolting_steel, iso_class, sae_grade
 from .joint import ASSEMBLY, BOLT, Joint, Part, Service
@@ -293,23 +294,10 @@ def parse_joint(text: str, source: str | None = None) -> Joint:
         For malformed TOML, unknown keys, sizes, classes or names, wrong units,
         and a geometry that cannot be assembled.
     """
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        m = re.search(r"line (\d+)", str(exc))
-        raise ModelError(f"not valid TOML: {exc}", file=source,
-                         line=int(m.group(1)) if m else None) from exc
-    return _JointReader(data, source, text).joint()
+    return _JointReader(decode(text, source), source, text).joint()
 
 
 def read_joint(path) -> Joint:
     """Read a joint file; see :func:`parse_joint`."""
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise ModelError("the joint file does not exist", file=str(path)) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ModelError(f"cannot read the joint file: {exc.__class__.__name__}: {exc}",
-                         file=str(path)) from exc
-    return parse_joint(text, str(path))
+    return parse_joint(read_text(path, "joint file"), str(path))

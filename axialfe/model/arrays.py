@@ -23,7 +23,7 @@ import numpy as np
 from .._gcpause import gc_paused
 from ..errors import ModelError
 
-__all__ = ["ModelArrays", "gather", "from_arrays"]
+__all__ = ["ModelArrays", "gather", "from_arrays", "frozen"]
 
 _FIELDS = operator.attrgetter("section", "end_section", "material", "start", "end", "misfit",
                               "distributed_load", "temperature_change", "preload")
@@ -68,9 +68,23 @@ class ModelArrays:
 
     def __post_init__(self):
         for name in self.__dataclass_fields__:
-            value = np.array(getattr(self, name))
+            value = getattr(self, name)
+            # an array its maker handed over read-only is kept; any other is copied
+            value = value.view() if frozen(value) else np.array(value)
             value.setflags(write=False)
             object.__setattr__(self, name, value)
+
+
+def frozen(value) -> bool:
+    """True for an ndarray that is read-only, as is every array it is a view of: nothing
+    can write it, so it may be kept without a copy (the model and the results do)."""
+    while isinstance(value, np.ndarray):
+        if value.flags.writeable:
+            return False
+        if value.base is None:
+            return True
+        value = value.base
+    return False
 
 
 def _by_object(objects, values, width):
@@ -170,6 +184,26 @@ class _Segments(Sequence):
                        temperature_change=float(a.temperature_change[i]))
 
 
+def _loads(cls, at, force):
+    """:class:`Load` objects at stations ``at`` whose values were checked as arrays (no
+    second check per object)."""
+    new, put = object.__new__, object.__setattr__
+    out = []
+    for i, f in zip(at.tolist(), force.tolist()):
+        load = new(cls)
+        put(load, "at", f"s{i}")
+        put(load, "force", f)
+        out.append(load)
+    return tuple(out)
+
+
+def _fixed(value, shape):
+    """A read-only array of one value (shared by the fields it fills)."""
+    arr = np.full(shape, value)
+    arr.setflags(write=False)
+    return arr
+
+
 def _array(value, shape, what, positive=False, nonnegative=False, allow_nan=False):
     arr = np.array(np.broadcast_to(np.asarray(value, dtype=float), shape), dtype=float)
     bad = ~np.isfinite(arr)
@@ -183,6 +217,7 @@ def _array(value, shape, what, positive=False, nonnegative=False, allow_nan=Fals
         i = int(np.flatnonzero(bad)[0])
         need = "positive" if positive else "not negative" if nonnegative else "finite"
         raise ModelError(f"{what}[{i}] must be {need}: got {arr.flat[i]:g}", place="from_arrays")
+    arr.setflags(write=False)   # a fresh copy: ModelArrays keeps it without another
     return arr
 
 
@@ -191,7 +226,9 @@ def _indices(value, n, what, unique=False):
         arr = np.asarray(value)
         if arr.size and (arr.dtype.kind not in "iu" or arr.ndim != 1):
             raise TypeError
-        arr = arr.astype(np.int64).reshape(-1)
+        arr = arr.astype(np.int64)   # a copy of its own
+        if arr.ndim != 1:
+            arr = arr.reshape(-1).copy()
     except (TypeError, ValueError):
         raise ModelError(f"{what} must be a one-dimensional array of station indices",
                          place="from_arrays") from None
@@ -229,14 +266,17 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
         raise ModelError(f"segment {i} joins stations at one position ({x[start[i]]:g} m); a "
                          "segment needs a length", place="from_arrays")
     A = _array(area, m, "area", positive=True)
+    start.setflags(write=False)   # fresh arrays of this call: the struct keeps them uncopied
+    end.setflags(write=False)
+    ones, zeros = _fixed(1.0, m), _fixed(0.0, m)
     arrays = ModelArrays(
-        x=x, start=start, end=end, c=np.ones(m), p1=A, q1=np.ones(m), p2=A, q2=np.ones(m),
+        x=x, start=start, end=end, c=ones, p1=A, q1=ones, p2=A, q2=ones,
         elastic_modulus=_array(elastic_modulus, m, "elastic_modulus", positive=True),
         thermal_expansion=_array(thermal_expansion, m, "thermal_expansion"),
         density=_array(0.0 if density is None else density, m, "density", nonnegative=True),
-        misfit=np.zeros(m), distributed_load=np.zeros(m),
+        misfit=zeros, distributed_load=zeros,
         temperature_change=_array(temperature_change, m, "temperature_change"),
-        preload=np.full(m, np.nan))
+        preload=_fixed(np.nan, m))
     fy = _array(np.nan if yield_strength is None else yield_strength, m, "yield_strength",
                 allow_nan=True)
     inertia = _array(np.nan if second_moment is None else second_moment, m, "second_moment",
@@ -257,7 +297,7 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
                 + tuple(Support(f"s{i}", "spring", float(k)) for i, k in zip(spring_at, spring_k)))
     gaps = tuple(Gap(f"g{j}", (f"s{i}",), float(c), side=side)
                  for j, (i, c, side) in enumerate(zip(gap_at, clearance, sides)))
-    loads = tuple(Load(f"s{i}", float(f)) for i, f in zip(load_at, load_force))
+    loads = _loads(Load, load_at, load_force)
     model = object.__new__(cls)
     defaults = {"supports": supports, "loads": loads, "gaps": gaps, "gravity": float(gravity),
                 "title": title, "stations": _Stations(x),

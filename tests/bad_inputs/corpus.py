@@ -323,6 +323,17 @@ def hostile_cases():
     add("shape:stations-empty", _with(stations=Inline({})))
     add("shape:material-int", dumps(_set(BASE, ("materials", "steel-a"), 5)))
     add("shape:symbols-int", dumps({**copy.deepcopy(BASE), "symbols": 5}))
+    # tables kept in CSV files (axialfe.io.tables): where the file may be, the table's keys
+    add("file:stations-absolute", _with(stations={"file": "/etc/passwd"}))
+    add("file:stations-escape", _with(stations={"file": "../../etc/passwd"}))
+    add("file:stations-escape-inside", _with(stations={"file": "data/../../m.csv"}))
+    add("file:stations-missing", _with(stations={"file": "no-such-stations.csv"}))
+    add("file:stations-empty-name", _with(stations={"file": ""}))
+    add("file:stations-and-more", _with(stations={"file": "st.csv", "a": "0 mm"}))
+    add("file:segments-absolute", _with(segments={"file": "/dev/zero"}))
+    add("file:segments-int", _with(segments={"file": 5}))
+    add("file:segments-typo", _with(segments={"fil": "segments.csv"}))
+    add("file:segments-empty-table", _with(segments={}))
     # misspelt keys and tables
     add("key:material-singular", base + '\n[material.m]\nelastic_modulus = "1 GPa"\n')
     add("key:segment-typo", base.replace('misfit = "0.01 mm"', 'mistfit = "0.01 mm"'))
