@@ -318,6 +318,9 @@ def test_temperature_sweep_of_chosen_segments():
         sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, segments=["frist"])
     assert str(err.value) == "--segments: unknown segment 'frist'; did you mean 'first'?"
     with pytest.raises(ModelError) as err:
+        sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, segments=[])
+    assert str(err.value) == "--segments: give at least one segment's name (NAME,NAME,...)"
+    with pytest.raises(ModelError) as err:
         sweep(_stop_model(), "load_factor", 0.0, 2.0, 3, segments=["first"])
     assert str(err.value) == ("--segments: chooses the segments of a temperature sweep; a "
                               "load-factor sweep scales the case's loads")

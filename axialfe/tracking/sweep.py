@@ -477,6 +477,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         if parameter == "load_factor":
             raise ModelError("chooses the segments of a temperature sweep; a load-factor sweep "
                              "scales the case's loads", place="--segments")
+        if not segments:
+            raise ModelError("give at least one segment's name (NAME,NAME,...)", place="--segments")
         seg_names = [seg.name for seg in model.segments]
         mask = np.zeros(len(seg_names), dtype=bool)
         for name in segments:
