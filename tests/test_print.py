@@ -129,3 +129,13 @@ def test_no_table_is_wider_than_the_printed_page(tmp_path, paper):
                       thermal=thermal_split(solution), paper=paper)
     _, width = PAPER[paper]
     assert _overflow(tmp_path, page, width, f"wide-{paper}") == []
+
+
+def test_a_long_name_does_not_widen_the_printed_page(tmp_path):
+    # names run to 200 characters: one with no break gets break opportunities in the tables
+    from test_report import SMALL
+
+    text = SMALL.replace("[[segments]]\n", "[[segments]]\nname = \"" + "x" * 180 + "\"\n")
+    solution = solve(parse_model(text))
+    page = build_html(solution, date="2026-03-20", checks=check_solution(solution))
+    assert _overflow(tmp_path, page, PAPER["a4"][1], "long-name") == []

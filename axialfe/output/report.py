@@ -25,6 +25,7 @@ from __future__ import annotations
 import datetime
 import html
 import io
+import re
 from pathlib import Path
 
 import numpy as np
@@ -547,6 +548,7 @@ table.titleblock td { padding: .1em .4em; } table.titleblock td.label { color: #
 p.verdict { font-size: 1.25em; font-weight: bold; padding: .3em .6em; border: 2px solid;
   display: inline-block; }
 ul.worked li { font-size: 12.5px; }
+h1, h2, h3, p, li, figcaption { overflow-wrap: anywhere; }
 @media print {
   body { max-width: none; margin: 0; padding: 0; font-size: 10.5px; }
   table { font-size: 9px; } table.titleblock { font-size: 9px; }
@@ -570,6 +572,21 @@ def _e(text) -> str:
     return html.escape(str(text), quote=True)
 
 
+_LONG = 24      # a run of this many characters with no break gets break opportunities
+
+
+def _cell(text) -> str:
+    """Escaped text for a table cell, a long unbroken run (a long name) given a break
+    opportunity every 12 characters, so that no table is wider than the printed page."""
+    out = []
+    for word in re.split(r"(\s+)", str(text)):
+        if len(word) > _LONG:
+            out.append("<wbr>".join(_e(word[k:k + 12]) for k in range(0, len(word), 12)))
+        else:
+            out.append(_e(word))
+    return "".join(out)
+
+
 def _is_num(text: str) -> bool:
     try:
         float(str(text).replace(_MINUS, "-"))
@@ -585,7 +602,8 @@ def _html_table(headers, rows, classes=None, cls=None) -> str:
         cells = []
         for c, cell in enumerate(row):
             kind = classes[r][c] if classes and classes[r][c] else ("num" if _is_num(cell) else "")
-            cells.append(f'<td class="{kind}">{_e(cell)}</td>' if kind else f"<td>{_e(cell)}</td>")
+            cells.append(f'<td class="{kind}">{_cell(cell)}</td>' if kind else
+                         f"<td>{_cell(cell)}</td>")
         body.append("<tr>" + "".join(cells) + "</tr>")
     attr = f' class="{cls}"' if cls else ""
     return f"<table{attr}><thead><tr>{head}</tr></thead><tbody>{''.join(body)}</tbody></table>"
@@ -609,7 +627,7 @@ def _html_parts(parts) -> str:
 
 def _title_block_html(model, date) -> str:
     rows = title_block_rows(model, date)
-    cells = ["<tr>" + "".join(f'<td class="label">{_e(a)}</td><td>{_e(b)}</td>' for a, b in pair)
+    cells = ["<tr>" + "".join(f'<td class="label">{_e(a)}</td><td>{_cell(b)}</td>' for a, b in pair)
              + "</tr>" for pair in (rows[k:k + 2] for k in range(0, len(rows), 2))]
     return f'<table class="titleblock" id="titleblock"><tbody>{"".join(cells)}</tbody></table>'
 
