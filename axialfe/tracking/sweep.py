@@ -477,6 +477,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         if parameter == "load_factor":
             raise ModelError("chooses the segments of a temperature sweep; a load-factor sweep "
                              "scales the case's loads", place="--segments")
+        if not segments:
+            raise ModelError("give at least one segment's name (NAME,NAME,...)", place="--segments")
         seg_names = [seg.name for seg in model.segments]
         mask = np.zeros(len(seg_names), dtype=bool)
         for name in segments:
@@ -532,6 +534,11 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
                 np.where(np.isfinite(np.asarray(buckling_capacity, dtype=float)),
                          np.asarray(buckling_capacity, dtype=float), np.inf))
     buckled = np.zeros(len(model.segments), dtype=bool)
+    convex_sources = (
+        (yield_strength, yield_excess, yield_roots, yielded, "yields", "yield strength",
+         "the sweep stays linear-elastic and the results are not valid for a yielded part"),
+        (capacity, buckle_excess, buckle_roots, buckled, "buckles", "buckling capacity",
+         "the sweep follows straight bars and the results are not valid for a buckled member"))
     events: list[Event] = []
 
     shown_unit = "" if unit == "1" else f" {unit}"
@@ -569,39 +576,24 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         if np.isfinite(yield_strength).any() or np.isfinite(capacity).any():
             f0 = tracker.result(iv_probe, 0.0).fields
             f1 = tracker.result(iv_probe, 1.0).fields
-        # yield events inside [s, s_next]: the peak of |sigma| along each segment
-        if np.isfinite(yield_strength).any():
+        # yield and buckling events inside [s, s_next]: the peak of |sigma| along each
+        # segment against its yield strength, its largest compression against its capacity
+        for bound, excess, roots_of, reached, event, what, beyond in convex_sources:
+            if not np.isfinite(bound).any():
+                continue
             if first:
-                already = yield_excess(f0, f1, s, yield_strength) >= -1e-12 * yield_strength
-                for j in np.flatnonzero(already & ~yielded):
-                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its yield "
-                                 f"strength at the start of the range")
-                yielded |= already
-            roots = yield_roots(f0, f1, s, s_next, yield_strength, ~yielded)
+                already = excess(f0, f1, s, bound) >= -1e-12 * bound
+                for j in np.flatnonzero(already & ~reached):
+                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its {what} "
+                                 "at the start of the range")
+                reached |= already
+            roots = roots_of(f0, f1, s, s_next, bound, ~reached)
             for j in np.flatnonzero(np.isfinite(roots)):
-                s_y = float(roots[j])
-                events.append(Event(model.segments[j].name, "yields", to_user(s_y)))
-                yielded[j] = True
-                notes.append(f"segment '{model.segments[j].name}' reaches its yield strength at "
-                             f"{parameter} = {to_user(s_y):.6g}{shown_unit}; beyond it the sweep stays "
-                             "linear-elastic and the results are not valid for a yielded part")
-        # buckling events inside [s, s_next]: the largest compression along each segment
-        if np.isfinite(capacity).any():
-            if first:
-                already = buckle_excess(f0, f1, s, capacity) >= -1e-12 * capacity
-                for j in np.flatnonzero(already & ~buckled):
-                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its "
-                                 "buckling capacity at the start of the range")
-                buckled |= already
-            roots = buckle_roots(f0, f1, s, s_next, capacity, ~buckled)
-            for j in np.flatnonzero(np.isfinite(roots)):
-                s_b = float(roots[j])
-                events.append(Event(model.segments[j].name, "buckles", to_user(s_b)))
-                buckled[j] = True
-                notes.append(f"segment '{model.segments[j].name}' reaches its buckling capacity "
-                             f"at {parameter} = {to_user(s_b):.6g}{shown_unit}; beyond it the "
-                             "sweep follows straight bars and the results are not valid for a "
-                             "buckled member")
+                s_e = float(roots[j])
+                events.append(Event(model.segments[j].name, event, to_user(s_e)))
+                reached[j] = True
+                notes.append(f"segment '{model.segments[j].name}' reaches its {what} at "
+                             f"{parameter} = {to_user(s_e):.6g}{shown_unit}; beyond it {beyond}")
         first = False
         tracker.intervals.append(replace(iv_probe, s_to=s_next))
         if s_next == s_stop:
