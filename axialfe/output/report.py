@@ -209,8 +209,10 @@ def _input_tables(model, units):
         mats.setdefault(seg.material.name, seg.material)
     yield ("materials", ["material", f"E [{S}]", "\u03b1 [1/K]", f"yield strength [{S}]",
                          "density [kg/m\u00b3]", "source"],
-           [[m.name, _g(m.elastic_modulus / fS, 6), _g(m.thermal_expansion),
-             _g(m.yield_strength / fS) if m.yield_strength else "not given",
+           [[m.name, _tabled(m.modulus_table, fS) or _g(m.elastic_modulus / fS, 6),
+             _tabled(m.expansion_table, 1.0, m.expansion_kind) or _g(m.thermal_expansion),
+             _tabled(m.yield_table, fS) or (_g(m.yield_strength / fS) if m.yield_strength
+                                            else "not given"),
              _g(m.density) if m.density else "-", m.source or "given in the model"]
             for m in mats.values()])
     seg_rows = []
@@ -946,3 +948,18 @@ def write_report(solution: Solution, path, fmt: str | None = None,
     except OSError as exc:
         raise ModelError(f"cannot write the report: {exc}", file=str(path)) from exc
     return path
+
+
+def _tabled(table, factor, kind=None):
+    """A property against temperature in one cell: its range of values and temperatures."""
+    if table is None:
+        return None
+    from ..units import kelvin_to_temperature
+
+    t = [float(kelvin_to_temperature(T, "degC")) for T in table.span]
+    what = {"mean": "mean coefficient ", "total": "total strain "}.get(kind, "")
+    start = (f" from {float(kelvin_to_temperature(table.reference, 'degC')):.4g} degC"
+             if table.reference is not None else "")
+    return (f"{what}table{start}: {_g(table.values[0] / factor)} to "
+            f"{_g(table.values[-1] / factor)} ({t[0]:.4g} to {t[1]:.4g} degC), "
+            "at each case's temperatures")
