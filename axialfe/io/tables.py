@@ -72,6 +72,8 @@ def _locate(name: str, model_source: str | None, line: int | None) -> Path:
                          "file", **where)
     if not name.strip():
         raise ModelError("expected a file name in quotes: got ''", **where)
+    if any(ord(c) < 32 or ord(c) == 127 for c in name):
+        raise ModelError("a file name holds no control characters", **where)
     pure = PurePath(name)
     if pure.is_absolute() or pure.drive or name.startswith(("/", "\\")):
         raise ModelError(f"'{name}' is an absolute path: name a file in the model's folder, "
@@ -80,7 +82,7 @@ def _locate(name: str, model_source: str | None, line: int | None) -> Path:
     path = folder / pure
     try:
         inside = path.resolve().is_relative_to(folder.resolve())
-    except (OSError, RuntimeError):  # a loop of links
+    except (OSError, RuntimeError, ValueError):  # a loop of links, a name the system refuses
         inside = False
     if ".." in pure.parts or not inside:
         raise ModelError(f"'{name}' leaves the model's folder: a table file must lie in it or "
