@@ -109,7 +109,8 @@ def model_copy(tmp_path):
 
 @pytest.mark.parametrize("command", [
     ["solve"], ["check"], ["closed-form"], ["plot"], ["report"],
-    ["sweep", "--temperature-change", "0 K..90 K", "--steps", "3"]])
+    ["sweep", "--temperature-change", "0 K..90 K", "--steps", "3"],
+    ["path", "--path", "load 0..1"], ["collapse"]])
 def test_every_command_refuses_to_write_over_its_model(cli, model_copy, command):
     before = model_copy.read_bytes()
     name = model_copy.name

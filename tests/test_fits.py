@@ -369,7 +369,7 @@ def test_poissons_ratio_is_checked():
 def test_materials_command_shows_poissons_ratio():
     result = runner.invoke(app, ["materials"])
     assert result.exit_code == 0
-    assert "    poissons_ratio     0.3\n" in result.stdout
+    assert "    poissons_ratio              0.3\n" in result.stdout
 
 
 # --- the fit file ----------------------------------------------------------------------

@@ -368,8 +368,9 @@ def test_unknown_material_without_close_match_lists_the_materials():
     assert error(edit(L_SEG2_MAT, 'material = "steel"')) == (
         "bar.toml:29: segments[2]: unknown material 'steel'; expected one of: 'housing-alloy', "
         "'structural-steel', 'stainless-steel', 'aluminium-alloy', 'copper', 'brass', 'bronze', "
-        "'titanium-alloy', 'grey-cast-iron', 'carbon-steel-hot', 'stainless-304-hot', "
-        "'aluminium-6061-hot'")
+        "'titanium-alloy', 'bolt-4.6', 'bolt-5.8', 'bolt-8.8', 'bolt-10.9', 'bolt-12.9', "
+        "'carbon-steel-pipe', 'stainless-pipe-304', 'stainless-pipe-316', 'grey-cast-iron', "
+        "'carbon-steel-hot', 'stainless-304-hot', 'aluminium-6061-hot'")
 
 
 def test_misspelt_table_header_points_at_its_line():

@@ -318,6 +318,9 @@ def test_temperature_sweep_of_chosen_segments():
         sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, segments=["frist"])
     assert str(err.value) == "--segments: unknown segment 'frist'; did you mean 'first'?"
     with pytest.raises(ModelError) as err:
+        sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, segments=[])
+    assert str(err.value) == "--segments: give at least one segment's name (NAME,NAME,...)"
+    with pytest.raises(ModelError) as err:
         sweep(_stop_model(), "load_factor", 0.0, 2.0, 3, segments=["first"])
     assert str(err.value) == ("--segments: chooses the segments of a temperature sweep; a "
                               "load-factor sweep scales the case's loads")
@@ -365,11 +368,12 @@ def test_cli_temperature_factor_and_no_unit_heading(cli, rail, tmp_path):
     res = cli("sweep", path, "--temperature-factor", "0..1.5", "--steps", "4")
     assert res.exit_code == 0, res.output
     lines = res.output.splitlines()
-    assert lines[1] == ("case 'base', temperature_factor from 0 to 1.5, 4 steps; scales the case's "
-                        "own temperature changes of every segment ('rail' 60 K); replaces none")
-    assert lines[5].split() == ["name", "event", "temperature_factor"]
+    assert lines[1:3] == ["case 'base', temperature_factor from 0 to 1.5, 4 steps; scales the "
+                          "case's own temperature changes of", "  every segment ('rail' 60 K); "
+                          "replaces none"]
+    assert lines[6].split() == ["name", "event", "temperature_factor"]
     # the joint closes when alpha*dT*L = c: factor 6 mm/(11.5e-6 * 60 K * 25 m) = 0.3478
-    assert float(lines[7].split()[-1]) == pytest.approx(C_R / (ALPHA_R * 60 * L_R), rel=1e-8)
+    assert float(lines[8].split()[-1]) == pytest.approx(C_R / (ALPHA_R * 60 * L_R), rel=1e-8)
     data = json.loads(cli("sweep", path, "--temperature-factor", "0..1.5", "--steps", "3",
                           "-f", "json").stdout)
     assert data["parameter"] == "temperature_factor" and data["unit"] == "1"

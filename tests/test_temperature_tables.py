@@ -128,7 +128,6 @@ def test_a_temperature_outside_a_table_is_one_located_error(tmp_path, cli):
 
 @pytest.mark.parametrize("command, what", [
     (("closed-form",), "the closed form"),
-    (("sweep", "--temperature-change", "0 K..10 K"), "the sweep"),
     (("path", "--path", "load 0..1"), "the elastic-plastic path"),
     (("collapse",), "limit analysis"),
 ])
@@ -197,3 +196,55 @@ def test_the_bolt_example_against_its_hand_solution(cli):
     assert hot["segments"][0]["axial_force"][0] == pytest.approx(F, rel=1e-9)
     fy = (31.0 + f * (30.0 - 31.0)) * 6894.757293168e3        # ksi to Pa
     assert any(f"beyond its yield strength {fy / 1e6:.4g} MPa" in n for n in hot["notes"])
+
+
+STOP = """
+[[gaps]]
+name = "stop"
+at = "b"
+side = "+x"
+clearance = "1 mm"
+"""
+
+
+def test_sweep_over_tables_finds_the_gap_and_yield_events_by_bracketing():
+    # The bar of the tests above, free at 'b' with a stop 1 mm away.  Free strain from
+    # 20 degC with alpha_m linear between 20 and 200 degC: alpha_m(T) = a0 + k*x, x = T - 20,
+    # so the stop closes where (a0 + k*x)*x*L = c, a quadratic (hand computation).  Then
+    # restrained: E(T)*(eps(T) - c/L) = f_y(T), a root found here by scipy's brentq from
+    # the interpolated tables, independently of the tool's bisection.
+    from scipy.optimize import brentq
+
+    from axialfe.tracking.sweep import sweep
+
+    text = BAR.format(T="20 degC", ref="20 degC", expansion=MEAN, settings="")
+    text = text.replace('[[supports]]\nat = "b"\n', "") + STOP
+    model = parse_model(text)
+    a0, k, c = 11.5e-6, 0.7e-6 / 180, 1e-3
+    x_c = (-a0 + (a0 ** 2 + 4 * k * c) ** 0.5) / (2 * k)
+
+    def alpha(T):
+        return (lerp(T, 20, 200, 11.5e-6, 12.2e-6) if T <= 200
+                else lerp(T, 200, 400, 12.2e-6, 13.0e-6))
+
+    def E(T):
+        return lerp(T, 20, 200, 203e9, 191e9) if T <= 200 else lerp(T, 200, 400, 191e9, 178e9)
+
+    T_y = brentq(lambda T: E(T) * (alpha(T) * (T - 20) - c) - lerp(T, 20, 400, 250e6, 180e6),
+                 20 + x_c, 400, xtol=1e-12)
+    result = sweep(model, "temperature", 20.0, 300.0, 15, "degC")
+    assert [(e.name, e.event) for e in result.events] == [("stop", "closes"), ("bar", "yields")]
+    assert result.events[0].value == pytest.approx(20 + x_c, rel=1e-10)
+    assert result.events[1].value == pytest.approx(T_y, rel=1e-10)
+    hot = result.results[-1]
+    assert float(hot.stress[0, 0]) == pytest.approx(-E(300) * (alpha(300) * 280 - c), rel=1e-12)
+
+
+def test_a_load_sweep_over_tables_takes_the_case_temperatures():
+    from axialfe.tracking.sweep import sweep
+
+    model = bar()                                  # restrained at 300 degC
+    result = sweep(model, "load_factor", 0.0, 1.0, 3)
+    E = lerp(300, 200, 400, 191e9, 178e9)
+    alpha = lerp(300, 200, 400, 12.2e-6, 13.0e-6)
+    assert float(result.results[0].stress[0, 0]) == pytest.approx(-E * alpha * 280, rel=1e-12)

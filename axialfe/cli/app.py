@@ -268,27 +268,33 @@ def init(path: Annotated[Path, typer.Argument(dir_okay=False, help="Where to wri
         typer.echo(f"wrote {path}; solve it with: axialfe solve {path}")
 
 
-@app.command()
-def materials():
-    """List the built-in materials, their values and sources."""
-    from ..io.modelfile import _builtin_table
+class System(str, Enum):
+    SI = "SI"
+    US = "US"
 
-    for name, entry in _builtin_table().items():
-        typer.echo(f"{name}: {entry.get('description', '')}")
-        for key in ("elastic_modulus", "thermal_expansion", "mean_thermal_expansion",
-                    "thermal_expansion_total", "yield_strength", "density", "poissons_ratio"):
-            value = entry.get(key, "(not given)")
-            if isinstance(value, dict):       # a table against temperature
-                rows = [f"{t} {v}" for t, v in value.items() if t != "reference"]
-                start = f"from {value['reference']}: " if "reference" in value else ""
-                value = f"{start}{rows[0]} ... {rows[-1]} ({len(rows)} entries)"
-            elif key not in entry and (key != "thermal_expansion" or any(
-                    k in entry for k in ("mean_thermal_expansion", "thermal_expansion_total"))):
-                continue
-            typer.echo(f"    {key:18s} {value}")
-        typer.echo(f"    source             {entry['source']}")
-    typer.echo("\nA model's own [materials] entry of the same name takes precedence. Values are "
-               "typical: verify against your material certificate.")
+
+@app.command()
+def materials(model: Annotated[Optional[Path], typer.Argument(
+                  help="A model file: show the values in its units (its [units] system and "
+                  "stress unit).")] = None,
+              system: Annotated[Optional[System], typer.Option(
+                  "--system", help="Show the values in SI (MPa, /K, kg/m^3) or US customary "
+                  "units (psi, /degF, lb/in^3).")] = None):
+    """List the built-in materials, each value with its source."""
+    from ..io.modelfile import _builtin_table
+    from ..output.materialtext import materials_text
+    from ..units import OutputUnits
+
+    with user_errors(model):
+        if model is not None:
+            units = load(model)[1]
+            if system is not None:
+                units = OutputUnits.system(system.value)
+        else:
+            units = OutputUnits.system((system or System.SI).value)
+        from ..output.text import terminal_width
+
+        typer.echo(materials_text(_builtin_table(), units, terminal_width()), nl=False)
 
 
 class SweepFormat(str, Enum):

@@ -8,7 +8,7 @@ from typing import Annotated, Optional
 import typer
 
 from .app import (CheckFormat, DispUnit, ForceUnit, LengthUnit, ModelPath, Output, StressUnit,
-                  app, emit, load, user_errors)
+                  app, emit, load, outputs, user_errors)
 
 __all__ = ["collapse", "path"]
 
@@ -24,7 +24,8 @@ def collapse(model: ModelPath,
     from ..output.plastictext import collapse_json, collapse_table
     from ..plastic import collapse as run
 
-    with user_errors():
+    with user_errors(model):
+        outputs([model], ("--output", output))
         m, units = load(model, force_unit)
         result = run(m, case)
         emit(collapse_json(result, units) if format is CheckFormat.json
@@ -48,8 +49,8 @@ def path(model: ModelPath,
                                                      help="Output format.")] = CheckFormat.table,
          output: Output = None,
          plot: Annotated[Optional[Path], typer.Option(
-             "--plot", dir_okay=False, help="Also draw the forces of the plastic segments "
-             "against the path, events marked (.png or .svg).")] = None,
+             "--plot", dir_okay=False, help="Also draw the forces of the plastic segments and "
+             "the gaps against the path, events marked (.png or .svg).")] = None,
          force_unit: ForceUnit = None, length_unit: LengthUnit = None,
          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Follow a case along a load and temperature path with elastic-plastic segments.
@@ -59,7 +60,8 @@ def path(model: ModelPath,
     from ..output.plastictext import path_json, path_table
     from ..tracking.plastic import parse_path, track_path
 
-    with user_errors():
+    with user_errors(model):
+        outputs([model], ("--output", output), ("--plot", plot))
         if plot is not None:
             from ..output.plot import _suffix
 

@@ -340,6 +340,9 @@ class _Reader:
         kwargs = {k: self.quantity(entry[k], kind, table=table, key=k, place=place)
                   for k, kind in kinds.items() if k in entry and not isinstance(entry[k], dict)}
         kwargs.update(self.property_tables(entry, table, place))
+        for k in ("proof_strength", "tensile_strength"):  # stated for the record, checked only
+            if k in entry:
+                self.quantity(entry[k], "stress", table=table, key=k, place=place)
         if "source" in entry:
             kwargs["source"] = self.text(entry["source"], table=table, key="source", place=place)
         if "behaviour" in entry:

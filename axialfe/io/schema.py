@@ -134,6 +134,13 @@ UNITS = Table({
     "force": Key("name"), "length": Key("name"), "displacement": Key("name"),
     "stress": Key("name"),
 }, "units")
+# where each value of a material comes from (the standard, table and edition; "from memory"
+# where it was not checked against the text)
+SOURCES = Table({k: Key("text") for k in (
+    "elastic_modulus", "thermal_expansion", "yield_strength", "density", "poissons_ratio",
+    "compressive_yield_strength", "hardening_modulus", "proof_strength", "tensile_strength",
+    "mean_thermal_expansion", "thermal_expansion_total")},
+    "sources")
 MATERIAL = Table({
     # a modulus or a strength: a quantity, or a table against temperature
     "elastic_modulus": Key("quantity_or_map", kind="stress", required=True,
@@ -150,6 +157,10 @@ MATERIAL = Table({
     "behaviour": Key("name"),
     "compressive_yield_strength": _q("stress", low=1e3, high=1e11, unit="Pa"),
     "hardening_modulus": _q("stress", low=0, high=1e13, unit="Pa"),
+    # stated for the record (bolt classes), not used by the axial checks
+    "proof_strength": _q("stress", low=1e3, high=1e11, unit="Pa"),
+    "tensile_strength": _q("stress", low=1e3, high=1e11, unit="Pa"),
+    "sources": Key("table", item=SOURCES),
 }, "material")
 SECTION = Table({
     "shape": Key("name"),  # required: the reader says so with the shapes it knows

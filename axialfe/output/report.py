@@ -25,6 +25,7 @@ from __future__ import annotations
 import datetime
 import html
 import io
+import re
 from pathlib import Path
 
 import numpy as np
@@ -208,8 +209,10 @@ def _input_tables(model, units):
         mats.setdefault(seg.material.name, seg.material)
     yield ("materials", ["material", f"E [{S}]", "\u03b1 [1/K]", f"yield strength [{S}]",
                          "density [kg/m\u00b3]", "source"],
-           [[m.name, _g(m.elastic_modulus / fS, 6), _g(m.thermal_expansion),
-             _g(m.yield_strength / fS) if m.yield_strength else "not given",
+           [[m.name, _tabled(m.modulus_table, fS) or _g(m.elastic_modulus / fS, 6),
+             _tabled(m.expansion_table, 1.0, m.expansion_kind) or _g(m.thermal_expansion),
+             _tabled(m.yield_table, fS) or (_g(m.yield_strength / fS) if m.yield_strength
+                                            else "not given"),
              _g(m.density) if m.density else "-", m.source or "given in the model"]
             for m in mats.values()])
     seg_rows = []
@@ -545,6 +548,7 @@ table.titleblock td { padding: .1em .4em; } table.titleblock td.label { color: #
 p.verdict { font-size: 1.25em; font-weight: bold; padding: .3em .6em; border: 2px solid;
   display: inline-block; }
 ul.worked li { font-size: 12.5px; }
+h1, h2, h3, p, li, figcaption { overflow-wrap: anywhere; }
 @media print {
   body { max-width: none; margin: 0; padding: 0; font-size: 10.5px; }
   table { font-size: 9px; } table.titleblock { font-size: 9px; }
@@ -568,6 +572,21 @@ def _e(text) -> str:
     return html.escape(str(text), quote=True)
 
 
+_LONG = 24      # a run of this many characters with no break gets break opportunities
+
+
+def _cell(text) -> str:
+    """Escaped text for a table cell, a long unbroken run (a long name) given a break
+    opportunity every 12 characters, so that no table is wider than the printed page."""
+    out = []
+    for word in re.split(r"(\s+)", str(text)):
+        if len(word) > _LONG:
+            out.append("<wbr>".join(_e(word[k:k + 12]) for k in range(0, len(word), 12)))
+        else:
+            out.append(_e(word))
+    return "".join(out)
+
+
 def _is_num(text: str) -> bool:
     try:
         float(str(text).replace(_MINUS, "-"))
@@ -583,7 +602,8 @@ def _html_table(headers, rows, classes=None, cls=None) -> str:
         cells = []
         for c, cell in enumerate(row):
             kind = classes[r][c] if classes and classes[r][c] else ("num" if _is_num(cell) else "")
-            cells.append(f'<td class="{kind}">{_e(cell)}</td>' if kind else f"<td>{_e(cell)}</td>")
+            cells.append(f'<td class="{kind}">{_cell(cell)}</td>' if kind else
+                         f"<td>{_cell(cell)}</td>")
         body.append("<tr>" + "".join(cells) + "</tr>")
     attr = f' class="{cls}"' if cls else ""
     return f"<table{attr}><thead><tr>{head}</tr></thead><tbody>{''.join(body)}</tbody></table>"
@@ -607,7 +627,7 @@ def _html_parts(parts) -> str:
 
 def _title_block_html(model, date) -> str:
     rows = title_block_rows(model, date)
-    cells = ["<tr>" + "".join(f'<td class="label">{_e(a)}</td><td>{_e(b)}</td>' for a, b in pair)
+    cells = ["<tr>" + "".join(f'<td class="label">{_e(a)}</td><td>{_cell(b)}</td>' for a, b in pair)
              + "</tr>" for pair in (rows[k:k + 2] for k in range(0, len(rows), 2))]
     return f'<table class="titleblock" id="titleblock"><tbody>{"".join(cells)}</tbody></table>'
 
@@ -928,3 +948,18 @@ def write_report(solution: Solution, path, fmt: str | None = None,
     except OSError as exc:
         raise ModelError(f"cannot write the report: {exc}", file=str(path)) from exc
     return path
+
+
+def _tabled(table, factor, kind=None):
+    """A property against temperature in one cell: its range of values and temperatures."""
+    if table is None:
+        return None
+    from ..units import kelvin_to_temperature
+
+    t = [float(kelvin_to_temperature(T, "degC")) for T in table.span]
+    what = {"mean": "mean coefficient ", "total": "total strain "}.get(kind, "")
+    start = (f" from {float(kelvin_to_temperature(table.reference, 'degC')):.4g} degC"
+             if table.reference is not None else "")
+    return (f"{what}table{start}: {_g(table.values[0] / factor)} to "
+            f"{_g(table.values[-1] / factor)} ({t[0]:.4g} to {t[1]:.4g} degC), "
+            "at each case's temperatures")

@@ -8,7 +8,7 @@ import json
 
 import numpy as np
 
-from .text import CAUTIONS, _g, _grid
+from .text import CAUTIONS, _footnotes, _g, _grid, _wrapped, terminal_width
 
 __all__ = ["sweep_summary", "sweep_json", "sweep_csv"]
 
@@ -37,13 +37,18 @@ def sweep_summary(result, units) -> str:
     fF, fS = units.factor("force"), units.factor("stress")
     v = result.values
     unit = "" if result.unit == "1" else f" {result.unit}"
-    out = [f"axialfe sweep: {m.title}",
-           f"case '{result.case}', {result.parameter} from {_g(v[0])} to {_g(v[-1])}{unit}, "
-           f"{len(v)} steps; {result.replaced}",
-           "units: " + ", ".join(f"{k} {u}" for k, u in units.as_dict().items()), ""]
+    width = terminal_width()
+
+    def grid(headers, rows):
+        return _grid(headers, rows, width=width)
+
+    out = [f"axialfe sweep: {m.title}"]
+    out += _wrapped(f"case '{result.case}', {result.parameter} from {_g(v[0])} to {_g(v[-1])}"
+                    f"{unit}, {len(v)} steps; {result.replaced}", width, "", "  ")
+    out += ["units: " + ", ".join(f"{k} {u}" for k, u in units.as_dict().items()), ""]
     if result.events:
         out.append(" events (exact, not read off the grid; identical events at one value on one line)")
-        out += _grid(["name", "event", _heading(result)],
+        out += grid(["name", "event", _heading(result)],
                      [[", ".join(names), event, _g(value, 9)]
                       for names, event, value in result.grouped_events()])
     else:
@@ -61,14 +66,13 @@ def sweep_summary(result, units) -> str:
                                       for r in results])
     heads = [f"at {_g(v[i])}{unit}" for i in picks]
     out.append(f" largest stress of each segment [{units.stress}]")
-    out += _grid(["segment"] + heads, rows_seg)
+    out += grid(["segment"] + heads, rows_seg)
     if len(m.segments) > 40:
         out.append(f"  ... and {len(m.segments) - 40} more segments (see --format csv or json)")
     if rows_gap:
         out += ["", f" gap forces [{units.force}] (+ in tension)"]
-        out += _grid(["gap"] + heads, rows_gap)
-    for note in result.notes:
-        out.append(f" note: {note}")
+        out += grid(["gap"] + heads, rows_gap)
+    out += _footnotes(list(result.notes), width)
     out += ["", "all steps: use --format csv or --format json with --output FILE", "cautions:"]
     out += [f" - {c}" for c in CAUTIONS]
     return "\n".join(out) + "\n"

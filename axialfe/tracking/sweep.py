@@ -85,6 +85,24 @@ class _Steps(Sequence):
                 if status != "ok"]
 
 
+class _Solved(Sequence):
+    """The results at the grid values, solved already (a sweep over tables)."""
+
+    def __init__(self, grid, results):
+        self._grid, self._results = grid, list(results)
+
+    def __len__(self):
+        return len(self._results)
+
+    def __getitem__(self, i):
+        return self._results[i]
+
+    def inaccurate(self):
+        """``(value, message)`` of every step whose status is not ok."""
+        return [(float(v), r.message) for v, r in zip(self._grid, self._results)
+                if r.status != "ok"]
+
+
 @dataclass(frozen=True, repr=False)
 class SweepResult:
     """A solved sweep.
@@ -224,6 +242,15 @@ def _at(pair, s):
     return pair[0] + s * pair[1]
 
 
+def _swept_state(base, parameter, mask, s) -> LoadState:
+    """The load state at internal parameter ``s`` of a sweep of ``base``."""
+    if parameter == "load_factor":
+        return base.scaled_loads(s)
+    swept = (base.dT * s if parameter == "temperature_factor"
+             else np.full(base.dT.shape, float(s)))
+    return base.with_temperature(swept if mask is None else np.where(mask, swept, base.dT))
+
+
 class _Tracker:
     """Follows the piecewise-affine path of one case along the internal parameter s."""
 
@@ -249,12 +276,7 @@ class _Tracker:
         self.intervals: list[_Interval] = []
 
     def state(self, s) -> LoadState:
-        if self.parameter == "load_factor":
-            return self.base.scaled_loads(s)
-        swept = (self.base.dT * s if self.parameter == "temperature_factor"
-                 else np.full(self.base.dT.shape, float(s)))
-        return self.base.with_temperature(swept if self.mask is None
-                                          else np.where(self.mask, swept, self.base.dT))
+        return _swept_state(self.base, self.parameter, self.mask, s)
 
     def gap_measures(self, closed, lam, shift):
         """Each gap's event measure, affine in s, as (value at s = 0, slope): the force of
@@ -437,10 +459,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         raise ModelError(f"must be at least 2 (both ends of the range): got {steps}",
                          place="--steps")
     from ..engine.preload import resolve_preloads
-    from ..model.temperature import refuse_tables
+    from ..model.temperature import at_temperature, has_tables
 
-    refuse_tables(model, "the sweep", "solve it at fixed temperatures (one case each) with "
-                  "'axialfe solve'")
     model = resolve_preloads(model)
     states = load_states(model)
     names = [s.name for s in states]
@@ -457,6 +477,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         if parameter == "load_factor":
             raise ModelError("chooses the segments of a temperature sweep; a load-factor sweep "
                              "scales the case's loads", place="--segments")
+        if not segments:
+            raise ModelError("give at least one segment's name (NAME,NAME,...)", place="--segments")
         seg_names = [seg.name for seg in model.segments]
         mask = np.zeros(len(seg_names), dtype=bool)
         for name in segments:
@@ -492,6 +514,12 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         notes.append("the swept temperature replaces every segment's own thermal input, which "
                      f"in case '{base.name}' varies by segment: " + ", ".join(own[:6])
                      + (f" and {len(own) - 6} more" if len(own) > 6 else ""))
+    if has_tables(model):
+        if parameter != "load_factor":
+            return _tabled_sweep(model, base, parameter, unit, start, stop, steps, to_internal,
+                                 to_user, mask, notes, buckling_capacity)
+        # the temperatures hold: the properties are the case's, and the sweep stays affine
+        model = at_temperature(model, base)
     system = System(model)
     tracker = _Tracker(system, base, parameter, to_internal, mask)
     s_start, s_stop = to_internal(start), to_internal(stop)
@@ -506,6 +534,11 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
                 np.where(np.isfinite(np.asarray(buckling_capacity, dtype=float)),
                          np.asarray(buckling_capacity, dtype=float), np.inf))
     buckled = np.zeros(len(model.segments), dtype=bool)
+    convex_sources = (
+        (yield_strength, yield_excess, yield_roots, yielded, "yields", "yield strength",
+         "the sweep stays linear-elastic and the results are not valid for a yielded part"),
+        (capacity, buckle_excess, buckle_roots, buckled, "buckles", "buckling capacity",
+         "the sweep follows straight bars and the results are not valid for a buckled member"))
     events: list[Event] = []
 
     shown_unit = "" if unit == "1" else f" {unit}"
@@ -543,39 +576,24 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         if np.isfinite(yield_strength).any() or np.isfinite(capacity).any():
             f0 = tracker.result(iv_probe, 0.0).fields
             f1 = tracker.result(iv_probe, 1.0).fields
-        # yield events inside [s, s_next]: the peak of |sigma| along each segment
-        if np.isfinite(yield_strength).any():
+        # yield and buckling events inside [s, s_next]: the peak of |sigma| along each
+        # segment against its yield strength, its largest compression against its capacity
+        for bound, excess, roots_of, reached, event, what, beyond in convex_sources:
+            if not np.isfinite(bound).any():
+                continue
             if first:
-                already = yield_excess(f0, f1, s, yield_strength) >= -1e-12 * yield_strength
-                for j in np.flatnonzero(already & ~yielded):
-                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its yield "
-                                 f"strength at the start of the range")
-                yielded |= already
-            roots = yield_roots(f0, f1, s, s_next, yield_strength, ~yielded)
+                already = excess(f0, f1, s, bound) >= -1e-12 * bound
+                for j in np.flatnonzero(already & ~reached):
+                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its {what} "
+                                 "at the start of the range")
+                reached |= already
+            roots = roots_of(f0, f1, s, s_next, bound, ~reached)
             for j in np.flatnonzero(np.isfinite(roots)):
-                s_y = float(roots[j])
-                events.append(Event(model.segments[j].name, "yields", to_user(s_y)))
-                yielded[j] = True
-                notes.append(f"segment '{model.segments[j].name}' reaches its yield strength at "
-                             f"{parameter} = {to_user(s_y):.6g}{shown_unit}; beyond it the sweep stays "
-                             "linear-elastic and the results are not valid for a yielded part")
-        # buckling events inside [s, s_next]: the largest compression along each segment
-        if np.isfinite(capacity).any():
-            if first:
-                already = buckle_excess(f0, f1, s, capacity) >= -1e-12 * capacity
-                for j in np.flatnonzero(already & ~buckled):
-                    notes.append(f"segment '{model.segments[j].name}' is at or beyond its "
-                                 "buckling capacity at the start of the range")
-                buckled |= already
-            roots = buckle_roots(f0, f1, s, s_next, capacity, ~buckled)
-            for j in np.flatnonzero(np.isfinite(roots)):
-                s_b = float(roots[j])
-                events.append(Event(model.segments[j].name, "buckles", to_user(s_b)))
-                buckled[j] = True
-                notes.append(f"segment '{model.segments[j].name}' reaches its buckling capacity "
-                             f"at {parameter} = {to_user(s_b):.6g}{shown_unit}; beyond it the "
-                             "sweep follows straight bars and the results are not valid for a "
-                             "buckled member")
+                s_e = float(roots[j])
+                events.append(Event(model.segments[j].name, event, to_user(s_e)))
+                reached[j] = True
+                notes.append(f"segment '{model.segments[j].name}' reaches its {what} at "
+                             f"{parameter} = {to_user(s_e):.6g}{shown_unit}; beyond it {beyond}")
         first = False
         tracker.intervals.append(replace(iv_probe, s_to=s_next))
         if s_next == s_stop:
@@ -598,4 +616,89 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
     return SweepResult(parameter=parameter, unit=unit, values=grid, results=_Steps(tracker, grid),
                        events=tuple(events), notes=tuple(notes), model=model, case=base.name,
                        exact=tracker.result_at,
+                       replaced=_replaced(model, base, parameter, mask))
+
+
+def _tabled_sweep(model, base, parameter, unit, start, stop, steps, to_internal, to_user, mask,
+                  notes, buckling_capacity) -> SweepResult:
+    """A temperature sweep of a model with properties against temperature.
+
+    Between table entries the response is no longer affine in the temperature,
+    so each value is solved on its own (the model at that temperature,
+    :func:`axialfe.model.temperature.at_temperature`), and each event is found by
+    bisection to rounding on an interval bracketed by the grid and the table
+    entries: a gap whose state differs at the two ends, a segment whose stress
+    peak passes its yield strength at that temperature.
+    """
+    from ..model.temperature import at_temperature, basis_note
+
+    def solve_at(s):
+        state = _swept_state(base, parameter, mask, s)
+        return System(at_temperature(model, state)).solve_state(state)
+
+    s_start, s_stop = to_internal(start), to_internal(stop)
+    lo, hi = sorted((s_start, s_stop))
+    grid = np.linspace(start, stop, steps)
+    nodes = {float(to_internal(v)) for v in grid}
+    T0 = model.reference_temperature
+    for i, seg in enumerate(model.segments):          # the table entries, as values of s
+        mat = seg.material
+        for table in (mat.modulus_table, mat.yield_table, mat.expansion_table):
+            if table is None:
+                continue
+            for T in table.temperatures:
+                if parameter == "temperature_factor":
+                    if base.dT[i] == 0:
+                        continue
+                    sk = (T - T0) / base.dT[i]
+                else:
+                    sk = T - T0
+                if lo < sk < hi and (mask is None or mask[i]):
+                    nodes.add(float(sk))
+    direction = 1.0 if s_stop >= s_start else -1.0
+    nodes = sorted(nodes, key=lambda v: direction * v)
+    results = {s: solve_at(s) for s in nodes}
+    has_fy = [seg.material.yield_strength is not None for seg in model.segments]
+
+    def excess(r):
+        peak, _ = r.fields.stress_peak()
+        return np.array([abs(peak[i]) - r.model.segments[i].material.yield_strength
+                         if has_fy[i] else -np.inf for i in range(len(peak))])
+
+    def bisect(a, b, flipped):
+        """The last s on a's side, to rounding, where ``flipped(result)`` is still false."""
+        for _ in range(200):
+            mid = 0.5 * (a + b)
+            if mid in (a, b):
+                break
+            if flipped(solve_at(mid)):
+                b = mid
+            else:
+                a = mid
+        return b
+
+    events = []
+    yielded = np.zeros(len(model.segments), dtype=bool)
+    for a, b in zip(nodes, nodes[1:]):
+        ra, rb = results[a], results[b]
+        for j in np.flatnonzero(ra.gap_closed != rb.gap_closed):
+            now = bool(rb.gap_closed[j])
+            root = bisect(a, b, lambda r, j=j, now=now: bool(r.gap_closed[j]) == now)
+            gap = model.gaps[j]
+            events.append(Event(gap.name, GAP_EVENTS[(gap.kind, now)], to_user(root)))
+        ea, eb = excess(ra), excess(rb)
+        for i in np.flatnonzero(~yielded & (ea < 0) & (eb >= 0)):
+            root = bisect(a, b, lambda r, i=i: excess(r)[i] >= 0)
+            events.append(Event(model.segments[i].name, "yields", to_user(root)))
+            yielded[i] = True
+    order = np.argsort([direction * to_internal(e.value) for e in events], kind="stable")
+    notes = list(notes) + [basis_note(model) + "; events found by bisection between the "
+                           "grid values and the table entries"]
+    if buckling_capacity is not None:
+        notes.append("buckling events are not followed along a sweep with properties against "
+                     "temperature (check each temperature with 'axialfe check')")
+    return SweepResult(parameter=parameter, unit=unit, values=grid,
+                       results=_Solved(grid, [results[float(to_internal(v))] for v in grid]),
+                       events=tuple(events[k] for k in order), notes=tuple(notes), model=model,
+                       case=base.name, exact=lambda v: solve_at(float(to_internal(v))),
                        replaced=_replaced(model, base, parameter, mask))
