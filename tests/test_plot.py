@@ -483,6 +483,10 @@ def test_no_label_overlaps_a_label_or_a_curve(path):
                 inside = ((points[:, 0] > box.x0 + 0.5) & (points[:, 0] < box.x1 - 0.5)
                           & (points[:, 1] > box.y0 + 0.5) & (points[:, 1] < box.y1 - 0.5))
                 assert not inside.any(), (case.name, text)
+        # every gap's state and force stays on the sketch
+        gap_labels = [t for t in fig.axes[0].texts if t.get_visible()
+                      and any(t.get_text().startswith(f"{g.name} (") for g in case.model.gaps)]
+        assert len(gap_labels) == len(case.model.gaps), case.name
         legends = [ax.get_legend() for ax in fig.axes if ax.get_legend() is not None]
         renderer = fig.canvas.get_renderer()
         frames = [ax.get_window_extent(renderer) for ax in fig.axes]

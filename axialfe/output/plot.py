@@ -580,7 +580,8 @@ def _draw_sketch(ax, result, units):
         for x, names in at.items():
             _rank(ax.text(x, -0.04, _text(", ".join(names)), ha="center", va="top",
                           fontsize=6.5, color=MUTED), 2)
-    ax.set_ylim(-0.2, 1.15)
+    # room above the bar for a row of gap labels per gap beyond the first (up to three rows)
+    ax.set_ylim(-0.2, 1.15 + 0.14 * min(max(len(model.gaps) - 1, 0), 2))
     ax.set_xlim(lo - 0.08 * span, hi + 0.08 * span)
     ax.set_yticks([])
     for side in ("top", "right", "left", "bottom"):
