@@ -164,6 +164,10 @@ def load(path, force=None, length=None, displacement=None, stress=None, temperat
             raise ModelError("this is a fit file (it has a [fit] table): check it with "
                              f"'axialfe fit {path}'", file=str(path)) from None
         raise
+    if model.tolerances:
+        from ..io.modelfile import tolerance_note
+
+        typer.echo(tolerance_note(model), err=True)
     return model, output_units(model, force, length, displacement, stress, temperature)
 
 
@@ -629,7 +633,13 @@ def report(model: ModelPath,
            paper: Annotated[Paper, typer.Option(
                "--paper", help="The paper the printed report is laid out on: a4 or letter.")] = Paper.a4,
            force_unit: ForceUnit = None, length_unit: LengthUnit = None,
-           displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
+           displacement_unit: DispUnit = None, stress_unit: StressUnit = None,
+           tolerance: Annotated[bool, typer.Option(
+               "--tolerance", help="Add a tolerance study of the model's toleranced inputs "
+               "(see axialfe tolerance).")] = False,
+           samples: Annotated[int, typer.Option(
+               "--samples", help="Monte Carlo samples of the tolerance study.")] = 10_000,
+           seed: Annotated[int, typer.Option("--seed", help="Seed of the tolerance study.")] = 1):
     """Write a report to file: a one-page summary (verdict, envelope, cautions), then input,
     results, calculation sheet, checks and diagrams.
 
@@ -678,8 +688,24 @@ def report(model: ModelPath,
             write_report(solution, output, fmt, units, checks=check_solution(solution),
                          review=stated_values(model, m, solution), envelope=envelope(solution),
                          thermal=thermal_split(solution), paper=paper.value,
-                         notes=assumption_notes(solution))
+                         notes=assumption_notes(solution),
+                         tolerance=_tolerance_study(model, tolerance, samples, seed))
         typer.echo(f"wrote {output}", err=True)
+
+
+def _tolerance_study(path, wanted, samples, seed):
+    """The tolerance study of a report (``--tolerance``), or None."""
+    if not wanted:
+        return None
+    from ..errors import ModelError
+    from ..io.modelfile import read_toleranced
+    from ..tolerance.study import run_study
+
+    if not 0 <= samples <= 10_000_000 or seed < 0:
+        raise ModelError("--samples must lie from 0 to 10,000,000 and --seed must not be "
+                         "negative")
+    nominal, build = read_toleranced(path)
+    return run_study(nominal, build, samples=samples, seed=seed)
 
 
 @app.command()

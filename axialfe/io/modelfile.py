@@ -22,6 +22,7 @@ from ..errors import ModelError, suggest
 from ..model.parts import BEHAVIOURS, MODULUS_AT
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Project, Section, Segment, Station, Support)
+from ..tolerance.inputs import Toleranced, is_toleranced, parse_tolerance
 from ..units import OutputUnits, parse_quantity, split_quantity
 from . import schema
 from .physical import check_absolute_temperatures, check_segment_lengths
@@ -29,7 +30,8 @@ from .source import decode, read_text
 from .tables import expand_tables
 from .schema import check_range, check_types, keys_of
 
-__all__ = ["read_model", "parse_model", "builtin_materials"]
+__all__ = ["read_model", "parse_model", "builtin_materials", "read_toleranced",
+           "tolerance_note"]
 
 # the keys each table allows come from the declarative schema (axialfe.io.schema)
 _TOP_KEYS = keys_of(schema.MODEL)
@@ -179,8 +181,12 @@ class _Reader:
     """Turns the parsed TOML tables into model objects, locating every error."""
 
     def __init__(self, data: dict, source: str | None, text: str | None, symbolic: bool = False,
-                 rows: dict | None = None):
+                 rows: dict | None = None, overrides: dict | None = None):
         self.data = data
+        # toleranced values read (path -> Toleranced), and the values a tolerance study
+        # puts in their place (path -> SI value)
+        self.tolerances = {}
+        self.overrides = overrides or {}
         self.source = source
         # entries born from table files (axialfe.io.tables): where each stands
         self.rows = rows or {}
@@ -221,8 +227,10 @@ class _Reader:
                 self.fail(f"unknown key '{key}'", table, index, key, place=place,
                           hint=suggest(key, allowed), options=allowed)
 
-    def quantity(self, value, kind, *, table=None, index=None, key=None, place=None):
+    def quantity(self, value, kind, *, table=None, index=None, key=None, place=None, item=None):
         """Convert one value to SI, locating any unit error at ``key``."""
+        if is_toleranced(value):
+            return self.toleranced(value, kind, table, index, key, place, item)
         try:
             if self.symbolic or (isinstance(value, str) and self._is_expression(value)):
                 si = self.expression(value, kind)
@@ -234,6 +242,53 @@ class _Reader:
                             hint=exc.hint, options=exc.options) from exc
         self.in_range(si, table, index, key, place, value)
         return si
+
+    # --- toleranced values ------------------------------------------------
+    def toleranced(self, value, kind, table, index, key, place, item):
+        """A toleranced value: recorded by its path, its nominal (or the study's value) returned."""
+        top = (table or "").split(".")[0]
+        if (top, key) not in _TOLERABLE and not (top == "stations" and table == "stations"):
+            self.fail(f"{key}: a tolerance is not allowed here (positions, clearances, misfits, "
+                      "preloads, temperatures, loads, moduli, expansion, section sizes and "
+                      "supports take one)", table, index, key, place=place)
+        line = self.line(table, index, key)
+        try:
+            tol = parse_tolerance(value, kind)
+        except ModelError as exc:
+            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source, line=line,
+                            hint=exc.hint, options=exc.options) from exc
+        self.in_range(tol.nominal, table, index, key, place, tol.nominal)
+        path = self._tolerance_path(table, index, key, place, item)
+        # what a study must refuse before it samples: a draw outside the key's range
+        problem = None
+        for end in tol.spread:
+            problem = problem or check_range(float(end), table, key)
+        if problem is None and key == "clearance" and tol.spread[0] < 0:
+            problem = "clearance could fall below zero"
+        self.tolerances[path] = Toleranced(path, tol, line, problem)
+        if self.symbolic:   # the closed form takes the nominal value, exactly as written
+            return _rational(_expr().exact_decimal(tol.nominal))
+        return float(self.overrides.get(path, tol.nominal))
+
+    def _tolerance_path(self, table, index, key, place, item):
+        """The name of a toleranced input: ``gaps.end-float.clearance``, ``stations.cover``."""
+        top = table.split(".")[0]
+        if top == "stations":
+            return f"stations.{key if table == 'stations' else table.split('.', 1)[1]}"
+        if top in ("materials", "sections", "settings"):
+            return f"{table}.{key}"
+        if top in ("segments", "gaps", "cases"):
+            entry = self.data[top][index - 1]
+            name = entry.get("name")
+            if not isinstance(name, str):
+                name = (f"{entry.get('from')}-{entry.get('to')}" if top == "segments"
+                        else f"gap-{index}")
+            path = f"{top}.{name}"
+            load = re.search(r"loads\[(\d+)\]", place or "")
+            if top == "cases" and load:
+                path += f".loads[{load.group(1)}]"
+            return f"{path}.{key}" + (f".{item}" if item is not None else "")
+        return f"{top}[{index}].{key}"
 
     def in_range(self, si, table, index, key, place, raw=None):
         """Refuse a value outside the physical range the schema gives its key."""
@@ -444,7 +499,7 @@ class _Reader:
 
     def station(self, name, value):
         """A station: ``name = "150 mm"`` or ``name = { x = "150 mm", braced = true }``."""
-        if not isinstance(value, dict):
+        if not isinstance(value, dict) or is_toleranced(value):
             x = self.quantity(value, "length", table="stations", key=name, place="stations")
             return Station(name, x)
         place = f"stations.{name}"
@@ -715,7 +770,8 @@ class _Reader:
                               "settlements", place=f"{place} settlements",
                               hint=suggest(st, settled), options=settled or None)
                 settlements.append((st, self.quantity(s["displacement"], "length", table="cases",
-                                                      index=i, key="settlements", place=place)))
+                                                      index=i, key="settlements", place=place,
+                                                      item=st)))
             cases.append(self.build(Case, {"name": self.text(entry["name"], table="cases", index=i,
                                                              key="name", place=place),
                                            "loads": case_loads, "temperature_change": temps,
@@ -760,7 +816,7 @@ class _Reader:
                          units=units, title=str(title),
                          source=self.source, checks=checks, limits=tuple(limits),
                          symbols=tuple(self.symbols.values()), lines=self.name_lines(),
-                         project=project)
+                         project=project, tolerances=tuple(self.tolerances.values()))
         except ModelError as exc:
             m = re.match(r"segments\[(\d+)\]", exc.place or "")
             row = self.rows.get(("segments", int(m.group(1)))) if m else None
@@ -841,18 +897,31 @@ class _Reader:
             if key not in entry:
                 continue
             value = entry[key]
-            table = value if isinstance(value, dict) else {"all": value}
+            table = (value if isinstance(value, dict) and not is_toleranced(value)
+                     else {"all": value})
             if kind == "temperature" and reference is None:
                 self.fail("an absolute 'temperature' needs settings.reference_temperature",
                           "cases", i, key, place=place)
             out = []
             for name, v in table.items():
-                t = self.quantity(v, kind, table="cases", index=i, key=key, place=place)
+                t = self.quantity(v, kind, table="cases", index=i, key=key, place=place,
+                                  item=name)
                 out.append((name, t - reference if kind == "temperature" else t))
             return tuple(out)
         return ()
 
 
+# the (table, key) pairs whose values may carry a tolerance
+_TOLERABLE = {("stations", "x"), ("gaps", "clearance"), ("segments", "misfit"),
+              ("segments", "preload"), ("segments", "temperature"),
+              ("segments", "temperature_change"), ("segments", "distributed_load"),
+              ("settings", "temperature"), ("settings", "temperature_change"), ("loads", "force"),
+              ("cases", "force"), ("cases", "temperature"), ("cases", "temperature_change"),
+              ("cases", "settlements"), ("materials", "elastic_modulus"),
+              ("materials", "thermal_expansion"), ("supports", "stiffness"),
+              ("supports", "displacement"),
+              *(("sections", k) for k in ("diameter", "outer_diameter", "wall_thickness",
+                                          "inner_diameter", "width", "height", "area"))}
 _RANGE_GOT = re.compile(r"^(\w+ must (?:be positive|not be negative|be a finite number)): got .*$")
 _FILE_KEY = {"start": "from", "end": "to", "stations": "between"}
 
@@ -892,7 +961,8 @@ def _surely_negative(value) -> bool:
         return False
 
 
-def parse_model(text: str, source: str | None = None, symbolic: bool = False) -> Model:
+def parse_model(text: str, source: str | None = None, symbolic: bool = False,
+                overrides: dict | None = None) -> Model:
     """Read a model from TOML text.
 
     Parameters
@@ -906,6 +976,9 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
         ``[symbols]`` (for :func:`axialfe.symbolic.solve_symbolic`) instead of
         a float.  Without it, symbols are replaced by their values, and a
         symbol without a value is an error where it is used.
+    overrides : dict, optional
+        Values (SI) for toleranced inputs, by path (``'gaps.end-float.clearance'``),
+        in place of their nominal values: one sample of a tolerance study.
 
     Raises
     ------
@@ -915,7 +988,7 @@ def parse_model(text: str, source: str | None = None, symbolic: bool = False) ->
     text = text[1:] if text.startswith("\ufeff") else text  # a byte-order mark is no content
     data = decode(text, source)
     with gc_paused():
-        reader = _Reader(data, source, text, symbolic)
+        reader = _Reader(data, source, text, symbolic, overrides=overrides)
         # [stations] file = ... and [segments] file = ...: the tables they name, as entries
         reader.rows = expand_tables(data, source, lambda table, key: reader.line(table, None, key))
         return reader.model()
@@ -930,5 +1003,30 @@ def states_claims(model: Model, path) -> bool:
 
 def read_model(path, symbolic: bool = False) -> Model:
     """Read a model file (TOML); see :func:`parse_model`."""
+    return parse_model(_read_text(path), str(Path(path)), symbolic)
+
+
+def read_toleranced(path):
+    """Read a model file for a tolerance study: the nominal model, and a function
+    ``build({path: SI value})`` that reads it again with those toleranced inputs moved."""
+    text, source = _read_text(path), str(Path(path))
+    return parse_model(text, source), lambda values: parse_model(text, source, overrides=values)
+
+
+def tolerance_note(model) -> str | None:
+    """The one stderr line of a command run on a model with toleranced inputs, or None."""
+    found = model.tolerances
+    if not found:
+        return None
+    one_sided = sum(t.tolerance.one_sided for t in found)
+    text = (f"note: the model has {len(found)} toleranced input{'s' if len(found) > 1 else ''}; "
+            "solved at the stated values")
+    if one_sided:
+        text += (f" ({one_sided} at the midpoint of limits that lie on one side of the stated "
+                 "value)")
+    return text + "; 'axialfe tolerance' studies them"
+
+
+def _read_text(path) -> str:
     path = Path(path)
-    return parse_model(read_text(path, "model file"), str(path), symbolic)
+    return read_text(path, "model file")

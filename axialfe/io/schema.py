@@ -357,8 +357,8 @@ def _type_ok(key: Key, v) -> bool:
         return isinstance(v, list)
     if t == "names":
         return isinstance(v, list)
-    if t == "quantity":
-        return isinstance(v, str) or _is_number(v)
+    if t == "quantity":  # a table with 'value' is a toleranced value ({ value = ..., std = ... })
+        return isinstance(v, str) or _is_number(v) or (isinstance(v, dict) and "value" in v)
     if t in ("quantity_or_table", "quantity_or_map"):
         return isinstance(v, (str, dict)) or _is_number(v)
     return True
@@ -454,6 +454,9 @@ def _value(k, v, spec, fail, table, index, place, top):
             else:
                 _value(name, sub, item_spec, fail, k if top else table, index,
                        k if top else place, False)
+    elif spec.type in ("quantity_or_table", "quantity_or_map") and isinstance(v, dict) \
+            and "value" in v:
+        pass  # a toleranced value: its own reader checks it
     elif spec.type == "quantity_or_table" and isinstance(v, dict):
         _table(v, spec.item, fail, f"{table or ''}.{k}".lstrip("."), None, f"{place}.{k}")
     elif spec.type == "quantity_or_map" and isinstance(v, dict):

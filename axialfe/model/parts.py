@@ -622,6 +622,9 @@ class Model:
         The symbols declared in the file's ``[symbols]`` (closed form).  A
         model read with ``symbolic=True`` holds sympy expressions of them in
         place of floats; the checks above skip values that are not floats.
+    tolerances : tuple of Toleranced
+        The toleranced inputs the reader found (:mod:`axialfe.tolerance.inputs`):
+        plain data; the model itself holds their nominal values.
 
     Raises
     ------
@@ -650,10 +653,12 @@ class Model:
     # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
     symbols: tuple = ()
     project: Project | None = None
+    # toleranced inputs as the reader found them (axialfe.tolerance.Toleranced), plain data
+    tolerances: tuple = field(default=(), compare=False, repr=False)
 
     def __post_init__(self):
         for key in ("stations", "segments", "supports", "loads", "gaps", "cases",
-                    "combinations", "limits", "symbols"):
+                    "combinations", "limits", "symbols", "tolerances"):
             object.__setattr__(self, key, tuple(getattr(self, key)))
         index = {}
         for i, st in enumerate(self.stations):

@@ -634,7 +634,7 @@ def _title_block_html(model, date) -> str:
 
 def build_html(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
                checks=None, review=None, envelope=None, thermal=None,
-               paper: str = "a4", notes=None) -> str:
+               paper: str = "a4", notes=None, tolerance=None) -> str:
     """The report as one self-contained HTML document.
 
     Parameters
@@ -663,6 +663,9 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
         Each case's notes where its result leaves the assumptions of the solve
         (:func:`axialfe.checks.assumptions.assumption_notes`), shown under the case
         and in the summary.
+    tolerance : Study, optional
+        A tolerance study of the model (:func:`axialfe.tolerance.study.run_study`):
+        a section of its own after the checks, when given.
 
     Notes
     -----
@@ -754,6 +757,10 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
 
         out.append(f'<section id="review"><h2>{REVIEW_TITLE[0].upper()}{REVIEW_TITLE[1:]}</h2>'
                    f"{review_html(review, units)}</section>")
+    if tolerance is not None:  # --- a tolerance study (axialfe.tolerance) ---
+        from .tolerancetext import study_html
+
+        out.append(study_html(tolerance, units, _html_table))
     section("diagrams")
     for n, result in enumerate(solution.cases):
         out.append(f'<figure id="diagram-{n}">{_svg(result, units)}'
@@ -837,7 +844,7 @@ def md_figure(caption: str, name) -> str:
 
 def build_markdown(solution: Solution, units: OutputUnits | None = None, date: str | None = None,
                    checks=None, review=None, envelope=None, thermal=None,
-                   figures=None, notes=None) -> str:
+                   figures=None, notes=None, tolerance=None) -> str:
     """The report as one Markdown document.
 
     ``figures`` are the names (relative to the report) of the diagram files, one per
@@ -900,6 +907,10 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
         from .reviewtext import review_markdown
 
         out += review_markdown(review, units)
+    if tolerance is not None:  # --- a tolerance study (axialfe.tolerance) ---
+        from .tolerancetext import study_markdown
+
+        out += study_markdown(tolerance, units, _md_table)
     out += [f"## {_TITLES['diagrams']}", ""]
     for n, result in enumerate(solution.cases):
         caption = f"diagram {n + 1}: axial force, stress and displacement, case {_md(result.name)}"
@@ -921,11 +932,11 @@ def _md_link(name) -> str:
 def write_report(solution: Solution, path, fmt: str | None = None,
                  units: OutputUnits | None = None, date: str | None = None,
                  checks=None, review=None, envelope=None, thermal=None,
-                 paper: str = "a4", notes=None) -> Path:
+                 paper: str = "a4", notes=None, tolerance=None) -> Path:
     """Write the report to ``path`` (UTF-8) as ``fmt`` (by the suffix when None).
 
-    ``checks`` (required), ``review``, ``envelope``, ``thermal``, ``paper`` and
-    ``notes`` are those of :func:`build_html`.  A Markdown report links its diagrams, written
+    ``checks`` (required), ``review``, ``envelope``, ``thermal``, ``paper``,
+    ``notes`` and ``tolerance`` are those of :func:`build_html`.  A Markdown report links its diagrams, written
     beside it as PNG files (:func:`figure_names`); every file is written atomically.
     """
     path = Path(path)
@@ -937,12 +948,14 @@ def write_report(solution: Solution, path, fmt: str | None = None,
         return write_markdown_with_figures(
             path, lambda names: build_markdown(solution, units, date, checks=checks,
                                                review=review, envelope=envelope,
-                                               thermal=thermal, figures=names, notes=notes),
+                                               thermal=thermal, figures=names, notes=notes,
+                                               tolerance=tolerance),
             [plot_case(result, "all", None, units) for result in solution.cases])
     from ..io.files import write_text
 
     text = build_html(solution, units, date, checks=checks, review=review,
-                      envelope=envelope, thermal=thermal, paper=paper, notes=notes)
+                      envelope=envelope, thermal=thermal, paper=paper, notes=notes,
+                      tolerance=tolerance)
     try:
         write_text(path, text)  # atomic: a failing write leaves no partial report
     except OSError as exc:

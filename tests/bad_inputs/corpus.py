@@ -440,6 +440,19 @@ def hostile_cases():
                                                     "cases__1__temperature"))
     add("table:modulus-at", _with(settings__modulus_at="installed"))
     add("table:preload", _with(segments__2__preload="5 kN"))
+    # toleranced values
+    add("tolerance:trailing-plus-minus", _with(gaps__0__clearance="0.20 mm ±"))
+    add("tolerance:deviations-reversed", _with(segments__0__misfit="0.1 mm -0.02/+0.03"))
+    add("tolerance:deviation-with-unit", _with(stations__c="600 mm ±1 mm"))
+    add("tolerance:table-key", _with(cases__0__loads__0__force={"value": "2 kN",
+                                                                "sd": "0.1 kN"}))
+    add("tolerance:table-no-value", _with(gaps__0__clearance={"plus": "0.1 mm",
+                                                              "minus": "0.1 mm"}))
+    add("tolerance:distribution", _with(**{"materials__steel-a__elastic_modulus": {
+        "value": "200 GPa", "plus": "5 GPa", "minus": "5 GPa", "distribution": "triangular"}}))
+    add("tolerance:not-allowed", _with(**{"materials__steel-a__yield_strength": "250 MPa ±10"}))
+    add("tolerance:std-negative", _with(gaps__0__clearance={"value": "0.2 mm",
+                                                            "std": "-0.01 mm"}))
     return c
 
 

@@ -1,0 +1,16 @@
+"""Tolerance studies: worst case and Monte Carlo over toleranced inputs.
+
+- ``inputs``: the toleranced value forms, read strictly into :class:`Tolerance`;
+- ``batch``: many samples of one model solved at once, as stacked arrays (the
+  topology is fixed; gap states by a vectorised active-set iteration);
+- ``study``: the worst case (box vertices, then a bounded local search) and the
+  Monte Carlo statistics and event probabilities.
+
+A workflow floor: it uses the model, the mechanics and the engine, and never
+imports ``io``, ``output`` or ``cli`` (the command hands it a function that
+builds one sample's model, for the samples the batch cannot certify).
+"""
+
+from .inputs import Tolerance, Toleranced, parse_tolerance
+
+__all__ = ["Tolerance", "Toleranced", "parse_tolerance"]
