@@ -72,3 +72,31 @@ def test_from_arrays_refuses_bad_arrays(change, message):
     with pytest.raises(ModelError) as err:
         Model.from_arrays(**args)
     assert str(err.value) == message
+
+
+def test_a_model_from_arrays_is_solved_without_an_object_per_segment(monkeypatch):
+    # preloads, properties against temperature, assembly, recovery and the certificate all
+    # read the array form: no stage makes an object per segment
+    from axialfe.model import arrays
+
+    n = 50
+    m = Model.from_arrays(np.linspace(0.0, 1.0, n + 1), np.arange(n), np.arange(1, n + 1),
+                          200e9, 1e-4, 12e-6, 30.0, fixed=[0, n], load_at=[n // 2],
+                          load_force=[1e3])
+    expected = solve(m)["base"]
+
+    made, make = [], arrays._Segments.__getitem__
+
+    def counted(self, i):
+        made.append(i)
+        return make(self, i)
+
+    monkeypatch.setattr(arrays._Segments, "__getitem__", counted)
+    case = solve(m)["base"]
+    assert len(made) <= 2, made   # a name for a message at most (the certificate's worst place)
+    np.testing.assert_array_equal(case.axial_force, expected.axial_force)
+    # the reactions of a bar heated between walls with a load at its middle, by hand:
+    # -E*A*alpha*dT at each end, and -P/2 from the load
+    thermal = 200e9 * 1e-4 * 12e-6 * 30.0
+    assert case.reactions[0] == pytest.approx(thermal - 500.0, rel=1e-9)
+    assert case.reactions[1] == pytest.approx(-thermal - 500.0, rel=1e-9)

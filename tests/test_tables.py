@@ -155,6 +155,10 @@ BAD = [
      "are named 's0-s1'; parallel segments need their own names"),
     ("seg.csv", SEGMENTS + 's1,"s2,st,r20\n', "seg.csv:4: not valid CSV: unexpected end of data"),
     ("st.csv", STATIONS + "s1,700\n", "st.csv:5: name: station 's1' is defined twice"),
+    ("st.csv", "name,x [mm],braced\ns0,0,true\ns1,250,yes\ns2,600,\n",
+     "st.csv:3: braced: expected true or false: got 'yes'"),
+    ("st.csv", "name,x [mm],braced\ns0,0,true\ns1,-2e8,false\ns2,600,\n",
+     "st.csv:3: x [mm]: x must lie between -100000 and 100000 m: got '-2e8 mm'"),
     ("st.csv", "name,x\ns0,0\n", "st.csv:1: x: a value column names its unit in brackets, e.g. "
      "'x [mm]'"),
     ("st.csv", STATIONS.replace("250", "nan"), "st.csv:3: x [mm]: expected a plain number (the "
@@ -219,3 +223,15 @@ def test_a_table_file_in_a_subfolder_is_read(tmp_path):
     path = tmp_path / "m.toml"
     path.write_text(MODEL.replace('"st.csv"', '"data/st.csv"'), encoding="utf-8")
     assert [s.name for s in read_model(path).stations] == ["s0", "s1", "s2"]
+
+
+def test_braced_stations_in_a_table_file_are_the_table_form_of_toml(tmp_path):
+    (tmp_path / "st.csv").write_text("name,x [mm],braced\ns0,0,true\ns1,250,FALSE\ns2,600,\n",
+                                     encoding="utf-8")
+    (tmp_path / "seg.csv").write_text(SEGMENTS, encoding="utf-8")
+    (tmp_path / "m.toml").write_text(MODEL, encoding="utf-8")
+    whole = MODEL.replace('[stations]\nfile = "st.csv"\n', '[stations]\ns0 = { x = "0 mm", braced '
+                          '= true }\ns1 = { x = "250 mm", braced = false }\ns2 = "600 mm"\n')
+    (tmp_path / "whole.toml").write_text(whole, encoding="utf-8")
+    same_model(tmp_path / "whole.toml", tmp_path / "m.toml")
+    assert [s.braced for s in read_model(tmp_path / "m.toml").stations] == [True, False, False]

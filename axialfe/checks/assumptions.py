@@ -33,6 +33,8 @@ from __future__ import annotations
 
 from dataclasses import replace
 
+import numpy as np
+
 from ..model import CheckSettings
 from ..results import Solution
 from .buckling import buckling_capacities
@@ -57,7 +59,7 @@ def _strength(material, compressive: bool):
 
 def _clamped_parts(model) -> set[int]:
     """The segments a preload holds in compression in the installed state."""
-    if not any(s.preload is not None for s in model.segments):
+    if np.isnan(model.arrays.preload).all():   # no preload (read from the array form)
         return set()
     from ..engine.preload import installed_model
     from ..engine.system import solve

@@ -308,7 +308,8 @@ def solve(model: Model, method: str = "auto") -> Solution:
     """
     from .preload import resolve_preloads  # it solves models itself
 
-    preloaded = [seg.name for seg in model.segments if seg.preload is not None]
+    # the array form: an array model makes no object per segment here
+    preloaded = [model.segments[i].name for i in np.flatnonzero(~np.isnan(model.arrays.preload))]
     if preloaded and has_tables(model):
         raise ModelError("a preload in a model with properties against temperature is not "
                          "solved: give the misfit instead, or constant properties",

@@ -207,6 +207,8 @@ class _Reader:
         file the entry came from (the place is then the key's column)."""
         if self.rows:
             row = self.rows.get((table, key if table == "stations" else index))
+            if row is None and table and table.startswith("stations."):
+                row = self.rows.get((table, None))   # a station with a braced cell
             if row is not None:
                 return row.file, row.line, row.columns.get(key, place)
         return self.source, self.line(table, index, key), place

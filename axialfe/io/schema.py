@@ -234,7 +234,7 @@ LIMIT = Table({
 # in a CSV file beside the model (axialfe.io.tables; its columns are the keys of STATION's
 # ``x`` and of SEGMENT, value columns with their unit in the header)
 FILE_TABLE = Table({
-    "file": Key("text", required=True, missing="a table kept in a file needs 'file'"),
+    "file": Key("name", required=True, missing="a table kept in a file needs 'file'"),
 }, "table file")
 
 # the job of a report's title block: free text (a TOML date is taken as written)

@@ -5,7 +5,7 @@ file instead of in TOML, which is slow to parse at tens of thousands of
 entries::
 
     [stations]
-    file = "stations.csv"      # columns: name, x [mm]
+    file = "stations.csv"      # columns: name, x [mm], and optional braced (true or false)
 
     [segments]
     file = "segments.csv"      # columns: from, to, material, section, and optional
@@ -42,7 +42,7 @@ _HEADER = re.compile(r"^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[\s*([^\[\]]*?)\s*\])?
 _NUMBER = re.compile(r"^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$")
 # the columns each table reads: text columns, and value columns (a quantity of a kind
 # with its unit in the header, or a plain number)
-_TEXT = {"stations": ("name",),
+_TEXT = {"stations": ("name", "braced"),
          "segments": ("name", "from", "to", "material", "section", "end_section")}
 _REQUIRED = {"stations": ("name", "x"), "segments": ("from", "to", "material", "section")}
 _SCHEMA = {"stations": STATION, "segments": SEGMENT}
@@ -72,6 +72,8 @@ def _locate(name: str, model_source: str | None, line: int | None) -> Path:
                          "file", **where)
     if not name.strip():
         raise ModelError("expected a file name in quotes: got ''", **where)
+    if any(ord(c) < 32 or ord(c) == 127 for c in name):
+        raise ModelError("a file name holds no control characters", **where)
     pure = PurePath(name)
     if pure.is_absolute() or pure.drive or name.startswith(("/", "\\")):
         raise ModelError(f"'{name}' is an absolute path: name a file in the model's folder, "
@@ -80,7 +82,7 @@ def _locate(name: str, model_source: str | None, line: int | None) -> Path:
     path = folder / pure
     try:
         inside = path.resolve().is_relative_to(folder.resolve())
-    except (OSError, RuntimeError):  # a loop of links
+    except (OSError, RuntimeError, ValueError):  # a loop of links, a name the system refuses
         inside = False
     if ".." in pure.parts or not inside:
         raise ModelError(f"'{name}' leaves the model's folder: a table file must lie in it or "
@@ -173,7 +175,12 @@ def read_table(path: Path, table: str, shown: str, model_source=None, line=None)
                                      line=line, place=head)
                 continue
             spec = values.get(key)
-            if spec is None:
+            if key == "braced":
+                if cell.lower() not in ("true", "false"):
+                    raise ModelError(f"expected true or false: got '{cell}'", file=shown,
+                                     line=line, place=head)
+                entry[key] = cell.lower() == "true"
+            elif spec is None:
                 entry[key] = cell
             elif not _NUMBER.match(cell):
                 raise ModelError(f"expected a plain number (the unit is in the header): got "
@@ -231,7 +238,11 @@ def expand_tables(data: dict, source: str | None, line_of) -> dict:
                 if st in stations:
                     raise ModelError(f"station '{st}' is defined twice", file=shown,
                                      line=row.line, place="name")
-                stations[st] = entry["x"]
+                if "braced" in entry:   # the table form of a station, as TOML writes it
+                    stations[st] = {"x": entry["x"], "braced": entry["braced"]}
+                    rows[(f"stations.{st}", None)] = Row(shown, row.line, row.columns)
+                else:
+                    stations[st] = entry["x"]
                 rows[("stations", st)] = Row(shown, row.line, {st: row.columns["x"]})
             data[table] = stations
         else:

@@ -160,6 +160,8 @@ class _Segments(Sequence):
     """The segments of an array model, made on access (``e0, e1, ...``, each with its
     own material and plain-area section of the same name)."""
 
+    constant_properties = True   # materials of plain values: none against temperature
+
     def __init__(self, arrays, yield_strength, second_moment):
         self._a, self._fy, self._inertia = arrays, yield_strength, second_moment
 

@@ -23,6 +23,8 @@ __all__ = ["has_tables", "at_temperature", "basis_note", "refuse_tables"]
 
 def has_tables(model) -> bool:
     """Whether any segment's material gives a property against temperature."""
+    if getattr(model.segments, "constant_properties", False):
+        return False   # a model from arrays: plain values, and no object made per segment
     return any(seg.material.tabled for seg in model.segments)
 
 

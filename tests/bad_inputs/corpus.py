@@ -334,6 +334,8 @@ def hostile_cases():
     add("file:segments-int", _with(segments={"file": 5}))
     add("file:segments-typo", _with(segments={"fil": "segments.csv"}))
     add("file:segments-empty-table", _with(segments={}))
+    add("file:stations-nul", _with(stations={"file": "st\x00.csv"}))
+    add("file:stations-long", _with(stations={"file": "a/" * 3000 + "x.csv"}))
     # misspelt keys and tables
     add("key:material-singular", base + '\n[material.m]\nelastic_modulus = "1 GPa"\n')
     add("key:segment-typo", base.replace('misfit = "0.01 mm"', 'mistfit = "0.01 mm"'))
