@@ -410,3 +410,25 @@ def test_readme_shows_the_example_as_it_runs():
     result = runner.invoke(app, args)
     assert result.exit_code == 0, result.output
     assert shown in result.stdout
+
+
+def test_more_than_16_inputs_start_the_local_search_from_the_samples():
+    # 17 heated parts of a bar between walls: R = E*A*alpha*sum(dT_i*L_i)/L, affine, so the
+    # arithmetic stack-up nominal -+ E*A*alpha*sum(t_i*L_i)/L bounds it (common practice;
+    # the thermal reaction from Gere and Goodno, statically indeterminate bars, from memory);
+    # the local search from the Monte Carlo extremes must reach both corners.
+    n = 17
+    lines = ["[materials.m]", 'elastic_modulus = "200 GPa"', 'thermal_expansion = "12e-6 /K"',
+             "[sections.s]", 'shape = "area"', 'area = "100 mm^2"', "[stations]"]
+    lines += [f's{i} = "{100 * i} mm"' for i in range(n + 1)]
+    for i in range(n):
+        lines += ["[[segments]]", f'from = "s{i}"', f'to = "s{i + 1}"', 'material = "m"',
+                  'section = "s"', f'temperature_change = "{10 + i} K ±3"']
+    lines += ["[[supports]]", 'at = "s0"', "[[supports]]", f'at = "s{n}"']
+    study = study_of("\n".join(lines) + "\n", samples=300, outputs=["reaction:s0"])
+    assert study.worst_case_method == "samples+local"
+    k = 200e9 * 1e-4 * 12e-6 * 0.1 / 1.7          # dR/d(dT_i), each part 0.1 m of 1.7 m
+    nominal = k * sum(10 + i for i in range(n))
+    r = row(study, "reaction:s0")
+    assert r["nominal"] == pytest.approx(nominal, rel=1e-9)
+    assert r["worst_case"] == pytest.approx([nominal - 3 * k * n, nominal + 3 * k * n], rel=1e-6)
