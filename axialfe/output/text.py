@@ -17,13 +17,14 @@ from ..units import OutputUnits
 
 __all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS",
            "checks_table", "checks_markdown", "checks_json", "checks_csv", "check_dict",
-           "check_csv_rows"]
+           "check_csv_rows", "caution_lines"]
 
 FORMATS = ("table", "json", "csv", "markdown")
 
 CAUTIONS = (
-    "Linear-elastic, small-displacement analysis of axial members: no plasticity, no large "
-    "deformation, no bending; buckling is only checked where a check says so.",
+    "Linear-elastic, small-displacement analysis of axial members: yielding is not followed "
+    "(axialfe path and collapse do that), no large deformation, no bending; buckling is only "
+    "checked where a check says so.",
     "Built-in material values are typical values; verify them against the material "
     "certificate and the governing standard.",
     "These results support checking and design; they do not replace the applicable design "
@@ -85,6 +86,13 @@ def _wrapped(text, width, first, rest):
 
     return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
                          break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+
+
+def caution_lines(cautions=CAUTIONS, width: int | None = None) -> list[str]:
+    """The ``cautions:`` block of a terminal output, each caution wrapped to ``width``
+    (the terminal's by default)."""
+    width = terminal_width() if width is None else width
+    return ["cautions:"] + [line for c in cautions for line in _wrapped(c, width, " - ", "   ")]
 
 
 def _footnotes(notes, width, title=" notes:"):
@@ -268,8 +276,7 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
         from .reviewtext import review_lines
 
         out += review_lines(review, units, width=width) + [""]
-    out.append("cautions:")
-    out += [f" - {c}" for c in CAUTIONS]
+    out += caution_lines(width=width)
     return "\n".join(out) + "\n"
 
 
@@ -460,14 +467,6 @@ def _check_cells(entry, units: OutputUnits):
 WIDTH = 120
 
 
-def _wrap(text, first="", rest="   "):
-    """``text`` wrapped to :data:`WIDTH`, the first line after ``first``, the others after ``rest``."""
-    import textwrap
-
-    return textwrap.wrap(text, WIDTH, initial_indent=first, subsequent_indent=rest,
-                         break_on_hyphens=False) or [first.rstrip()]
-
-
 def _check_lines(case_checks, units: OutputUnits, title=True, width=WIDTH):
     """Lines of the checks table of one case: notes numbered in the table, in full under it,
     every line within ``width``."""
@@ -546,7 +545,7 @@ def checks_table(checks, units: OutputUnits | None = None, title: str | None = N
         out += _check_lines(c, units, width=width)
         out.append("")
     out += [line for text in _governing_lines(checks, units) for line in _wrapped(text, width, "", "  ")]
-    out += ["", "cautions:"] + [line for c in CAUTIONS for line in _wrapped(c, width, " - ", "   ")]
+    out += [""] + caution_lines(width=width)
     return "\n".join(out) + "\n"
 
 
