@@ -17,7 +17,7 @@ from ..units import OutputUnits
 
 __all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS",
            "checks_table", "checks_markdown", "checks_json", "checks_csv", "check_dict",
-           "check_csv_rows", "caution_lines"]
+           "check_csv_rows", "caution_lines", "check_groups"]
 
 FORMATS = ("table", "json", "csv", "markdown")
 
@@ -463,6 +463,34 @@ def _check_cells(entry, units: OutputUnits):
             entry.verdict, entry.note_in(units) or ""]
 
 
+# A deformation limit is stated as what is required and what the result gives, not as a
+# demand against a capacity; its rows go in a table of their own under these headers.
+_LIMIT_HEADERS = ("limit", "name", "actual", "required", "margin", "utilization", "result", "note")
+
+
+def _limit_cells(entry, units: OutputUnits):
+    a = entry.amounts(units)
+
+    def value(v):
+        return "-" if v is None else f"{number(v)} {a['unit']}"
+
+    util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
+    return [entry.kind, entry.name, value(a["actual"]), value(a["required"]), value(a["margin"]),
+            util, entry.verdict, entry.note_in(units) or ""]
+
+
+def check_groups(entries, units: OutputUnits):
+    """The check tables of ``entries``: ``(headers, entries, rows)`` for strength and
+    buckling (demand, capacity), then for deformation limits (actual, required, margin),
+    each only when it has a row."""
+    entries = list(entries)
+    limits = [e for e in entries if "required" in e.amounts(units)]
+    others = [e for e in entries if e not in limits]
+    groups = [(_CHECK_HEADERS, others, [_check_cells(e, units) for e in others]),
+              (_LIMIT_HEADERS, limits, [_limit_cells(e, units) for e in limits])]
+    return [g for g in groups if g[1]]
+
+
 # Lines of the check tables are kept within this width: long notes go under the table.
 WIDTH = 120
 
@@ -476,13 +504,12 @@ def _check_lines(case_checks, units: OutputUnits, title=True, width=WIDTH):
     if not len(case_checks):
         return out + ["  (no checks)"]
     notes = {}                      # note text -> its number (one number for a repeated note)
-    rows = []
-    for e in case_checks:
-        cells = _check_cells(e, units)
-        if cells[-1]:
-            cells[-1] = str(notes.setdefault(cells[-1], len(notes) + 1))
-        rows.append(cells)
-    lines = _grid(list(_CHECK_HEADERS), rows, width=width)
+    lines = []
+    for n, (headers, _, rows) in enumerate(check_groups(case_checks, units)):
+        for cells in rows:
+            if cells[-1]:
+                cells[-1] = str(notes.setdefault(cells[-1], len(notes) + 1))
+        lines += ([""] if n else []) + _grid(list(headers), rows, width=width)
     if notes:
         lines.append("  notes:")
         for text, n in notes.items():
@@ -551,8 +578,9 @@ def checks_table(checks, units: OutputUnits | None = None, title: str | None = N
 
 def checks_markdown(case_checks, units: OutputUnits) -> list[str]:
     """Markdown lines of the checks table of one case."""
-    out = ["**checks** (utilization = demand x safety factor / capacity)", "",
-           "| " + " | ".join(_CHECK_HEADERS) + " |", "|" + "|".join("---" for _ in _CHECK_HEADERS) + "|"]
-    out += ["| " + " | ".join(_md_escape(c) for c in _check_cells(e, units)) + " |"
-            for e in case_checks]
-    return out + [""]
+    out = ["**checks** (utilization = demand x safety factor / capacity)", ""]
+    for headers, _, rows in check_groups(case_checks, units):
+        out += ["| " + " | ".join(headers) + " |", "|" + "|".join("---" for _ in headers) + "|"]
+        out += ["| " + " | ".join(_md_escape(c) for c in cells) + " |" for cells in rows]
+        out.append("")
+    return out
