@@ -279,7 +279,7 @@ class System(str, Enum):
 
 @app.command()
 def materials(model: Annotated[Optional[Path], typer.Argument(
-                  help="A model file: show the values in its units (its [units] system and "
+                  help="A model file: show the values in its units (its \\[units] system and "
                   "stress unit).")] = None,
               system: Annotated[Optional[System], typer.Option(
                   "--system", help="Show the values in SI (MPa, /K, kg/m^3) or US customary "
@@ -444,8 +444,10 @@ def closed_form(model: ModelPath,
                 case: Annotated[Optional[str], typer.Option("--case", help="The case or combination (default: the first case).")] = None,
                 output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
                 displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
-    """Solve a model in closed form with sympy: formulas in the declared symbols, checked
-    against the numeric solver where every symbol has a value."""
+    """Solve a model in closed form with sympy: formulas in the declared symbols.
+
+    The formulas are checked against the numeric solver where every symbol has a value.
+    """
     import json
 
     from ..errors import SolveError
@@ -640,8 +642,9 @@ def report(model: ModelPath,
            samples: Annotated[int, typer.Option(
                "--samples", help="Monte Carlo samples of the tolerance study.")] = 10_000,
            seed: Annotated[int, typer.Option("--seed", help="Seed of the tolerance study.")] = 1):
-    """Write a report to file: a one-page summary (verdict, envelope, cautions), then input,
-    results, calculation sheet, checks and diagrams.
+    """Write a report: a one-page summary, then input, results, calculation sheet, checks.
+
+    The summary gives the verdict, the envelope and the cautions; diagrams follow the checks.
 
     The HTML report needs no other file and prints on A4 or Letter with the title
     block of the model's project table on every page; a Markdown report links its
@@ -753,7 +756,7 @@ def verify_claims(model: ModelPath,
                   format: Annotated[CheckFormat, typer.Option("--format", "-f", help="Output format.")] = CheckFormat.table,
                   output: Output = None, force_unit: ForceUnit = None, length_unit: LengthUnit = None,
                   displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
-    """Check the values a hand calculation states ([[claims]], claims_file) against the model.
+    r"""Check the values a hand calculation states (\[\[claims]], claims_file) against the model.
 
     Each claim gets the computed value, the difference and a verdict, agrees or
     differs; for each that differs, the common slips that reproduce it.  Exit

@@ -13,9 +13,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..errors import ModelError, suggest
 from .parts import Case, Model
 
-__all__ = ["LoadState", "loading", "case_state", "load_states"]
+__all__ = ["LoadState", "loading", "case_state", "load_states", "pick_state"]
 
 _AT, _FORCE = operator.attrgetter("at"), operator.attrgetter("force")
 
@@ -144,3 +145,19 @@ def load_states(model: Model) -> list[LoadState]:
     (see :func:`loading` for the rule)."""
     names = [c.name for c in model.all_cases] + [c.name for c in model.combinations]
     return [LoadState(name, *loading(model, name)) for name in names]
+
+
+def pick_state(model: Model, case: str | None) -> LoadState:
+    """The load state of the case or combination named ``case`` (given on the command line
+    as ``--case``); ``None`` picks the only one and is refused when there are several."""
+    states = load_states(model)
+    names = [s.name for s in states]
+    if case is None:
+        if len(states) > 1:
+            raise ModelError("the model has several cases: choose one with --case",
+                             place="--case", options=names)
+        return states[0]
+    if case not in names:
+        raise ModelError(f"unknown case '{case}'", place="--case", hint=suggest(case, names),
+                         options=names)
+    return states[names.index(case)]

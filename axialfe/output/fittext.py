@@ -12,7 +12,7 @@ import json
 
 from ..fits.fit import FitResult, FitUnits
 from ..formatting import number
-from .text import CAUTIONS, _grid
+from .text import CAUTIONS, _grid, caution_lines
 
 __all__ = ["FIT_CAUTIONS", "fit_dict", "fit_json", "fit_table", "fit_check_cells",
            "FIT_CHECK_HEADERS", "fit_tables", "fit_summary_lines", "fit_governing_text"]
@@ -215,5 +215,5 @@ def fit_table(result: FitResult, units: FitUnits | None = None) -> str:
             f"checks: {counts['pass']} pass, {counts['FAIL']} fail, {counts['review']} need "
             f"review (overall: {result.checks.status})", "", "basis:"]
     out += [f" - {n}" for n in result.notes]
-    out += ["", "cautions:"] + [f" - {c}" for c in FIT_CAUTIONS]
+    out += [""] + caution_lines(FIT_CAUTIONS)
     return "\n".join(out) + "\n"

@@ -10,7 +10,7 @@ import json
 
 from ..formatting import number
 from ..units import OutputUnits
-from .text import CAUTIONS, _check_cells, _governing_text, _grid
+from .text import CAUTIONS, _check_cells, _governing_text, _grid, caution_lines
 
 __all__ = ["JOINT_CAUTIONS", "joint_dict", "joint_json", "joint_table", "sweep_dict",
            "sweep_json", "sweep_table", "joint_units"]
@@ -148,7 +148,7 @@ def joint_table(result, units: OutputUnits | None = None) -> str:
     out += _grid(headers, rows)
     out += ["", f"governing check: {_governing_text(result.checks)}",
             f"overall: {result.checks.status}", f"check basis: {d['check_basis']}", "",
-            "cautions:"] + [f" - {c}" for c in JOINT_CAUTIONS]
+            ""] + caution_lines(JOINT_CAUTIONS)
     return "\n".join(out) + "\n"
 
 
@@ -189,5 +189,5 @@ def sweep_table(sweep, units: OutputUnits | None = None) -> str:
     out += _grid(headers, rows)
     for note in d["notes"]:
         out.append(f" note: {note}")
-    out += ["", "cautions:"] + [f" - {c}" for c in JOINT_CAUTIONS]
+    out += [""] + caution_lines(JOINT_CAUTIONS)
     return "\n".join(out) + "\n"

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from .text import _g, _grid
+from .text import _g, _grid, caution_lines
 
 __all__ = ["collapse_table", "collapse_json", "path_table", "path_json", "PLASTIC_CAUTIONS"]
 
@@ -42,7 +42,7 @@ def collapse_table(result, units) -> str:
     out.append("  (outside the mechanism the forces are one admissible set of many)")
     for note in result.notes:
         out.append(f" note: {note}")
-    out += ["", "cautions:"] + [f" - {c}" for c in PLASTIC_CAUTIONS]
+    out += [""] + caution_lines(PLASTIC_CAUTIONS)
     return "\n".join(out) + "\n"
 
 
@@ -115,5 +115,5 @@ def path_table(result, units) -> str:
         out += ["", f"cycles: {c['count']} run, outcome {c['outcome']}{decided}"]
     for note in result.notes:
         out.append(f" note: {note}")
-    out += ["", "cautions:"] + [f" - {c}" for c in PLASTIC_CAUTIONS]
+    out += [""] + caution_lines(PLASTIC_CAUTIONS)
     return "\n".join(out) + "\n"

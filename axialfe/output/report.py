@@ -32,7 +32,7 @@ import numpy as np
 
 from ..errors import ModelError
 from ..formatting import number
-from .text import CAUTIONS, _case_tables, _check_cells, _CHECK_HEADERS, _data, _governing_text
+from .text import CAUTIONS, _case_tables, _data, _governing_text, check_groups
 from ..results import CaseResult, Solution
 from ..units import OutputUnits
 
@@ -746,9 +746,13 @@ def build_html(solution: Solution, units: OutputUnits | None = None, date: str |
     verdict_class = {"pass": "pass", "FAIL": "fail", "review": "review"}
     for n, case in enumerate(checks.cases):
         out.append(f'<h3 id="checks-{n}">Case \u201c{_e(case.case)}\u201d</h3>')
-        rows = [_check_cells(e, units) for e in case]
-        classes = [[None] * 5 + [verdict_class[e.verdict], None] for e in case]
-        out.append(_html_table(_CHECK_HEADERS, rows, classes) if rows else "<p>No checks.</p>")
+        groups = check_groups(case, units)
+        for headers, entries, rows in groups:
+            at = headers.index("result")
+            classes = [[None] * at + [verdict_class[e.verdict], None] for e in entries]
+            out.append(_html_table(headers, rows, classes))
+        if not groups:
+            out.append("<p>No checks.</p>")
     out.append(f'<p id="governing"><strong>Governing check:</strong> '
                f"{_e(_governing_text(checks))}. Overall: {_e(checks.status)}.</p>")
     out.append(f"<p>Basis: {_e(checks.settings_text())}.</p></section>")
@@ -900,7 +904,8 @@ def build_markdown(solution: Solution, units: OutputUnits | None = None, date: s
     out += [f"## {_TITLES['checks']}", ""]
     for case in checks.cases:
         out += [f"### Case \u201c{_md(case.case)}\u201d", ""]
-        out += _md_table(_CHECK_HEADERS, [_check_cells(e, units) for e in case])
+        for headers, _, rows in check_groups(case, units):
+            out += _md_table(headers, rows)
     out += [f"**Governing check:** {_md(_governing_text(checks))}. Overall: {checks.status}.", "",
             f"Basis: {_md(checks.settings_text())}.", ""]
     if review is not None:  # --- stated values (axialfe.review) ---

@@ -112,7 +112,7 @@ def review_lines(review, units: OutputUnits, width=None) -> list[str]:
 
 def review_table(review, units: OutputUnits | None = None) -> str:
     """The whole terminal output of ``axialfe verify``."""
-    from .text import CAUTIONS
+    from .text import CAUTIONS, caution_lines
 
     units = units or review.model.units
     out = [f"axialfe verify: {review.model.title}",
@@ -120,7 +120,7 @@ def review_table(review, units: OutputUnits | None = None) -> str:
            "signs: forces + toward +x; axial force and stress + in tension; a reaction is the "
            "force of the support on the bar", ""]
     out += review_lines(review, units)
-    out += ["", "cautions:"] + [f" - {c}" for c in CAUTIONS]
+    out += [""] + caution_lines(CAUTIONS)
     return "\n".join(out) + "\n"
 
 

@@ -8,7 +8,7 @@ import json
 
 import numpy as np
 
-from .text import CAUTIONS, _footnotes, _g, _grid, _wrapped, terminal_width
+from .text import CAUTIONS, caution_lines, _footnotes, _g, _grid, _wrapped, terminal_width
 
 __all__ = ["sweep_summary", "sweep_json", "sweep_csv"]
 
@@ -73,8 +73,8 @@ def sweep_summary(result, units) -> str:
         out += ["", f" gap forces [{units.force}] (+ in tension)"]
         out += grid(["gap"] + heads, rows_gap)
     out += _footnotes(list(result.notes), width)
-    out += ["", "all steps: use --format csv or --format json with --output FILE", "cautions:"]
-    out += [f" - {c}" for c in CAUTIONS]
+    out += ["", "all steps: use --format csv or --format json with --output FILE"]
+    out += caution_lines(width=width)
     return "\n".join(out) + "\n"
 
 

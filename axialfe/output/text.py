@@ -17,13 +17,14 @@ from ..units import OutputUnits
 
 __all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS",
            "checks_table", "checks_markdown", "checks_json", "checks_csv", "check_dict",
-           "check_csv_rows"]
+           "check_csv_rows", "caution_lines", "check_groups"]
 
 FORMATS = ("table", "json", "csv", "markdown")
 
 CAUTIONS = (
-    "Linear-elastic, small-displacement analysis of axial members: no plasticity, no large "
-    "deformation, no bending; buckling is only checked where a check says so.",
+    "Linear-elastic, small-displacement analysis of axial members: yielding is not followed "
+    "(axialfe path and collapse do that), no large deformation, no bending; buckling is only "
+    "checked where a check says so.",
     "Built-in material values are typical values; verify them against the material "
     "certificate and the governing standard.",
     "These results support checking and design; they do not replace the applicable design "
@@ -85,6 +86,13 @@ def _wrapped(text, width, first, rest):
 
     return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
                          break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+
+
+def caution_lines(cautions=CAUTIONS, width: int | None = None) -> list[str]:
+    """The ``cautions:`` block of a terminal output, each caution wrapped to ``width``
+    (the terminal's by default)."""
+    width = terminal_width() if width is None else width
+    return ["cautions:"] + [line for c in cautions for line in _wrapped(c, width, " - ", "   ")]
 
 
 def _footnotes(notes, width, title=" notes:"):
@@ -268,8 +276,7 @@ def to_table(solution: Solution, units: OutputUnits | None = None, checks=None,
         from .reviewtext import review_lines
 
         out += review_lines(review, units, width=width) + [""]
-    out.append("cautions:")
-    out += [f" - {c}" for c in CAUTIONS]
+    out += caution_lines(width=width)
     return "\n".join(out) + "\n"
 
 
@@ -456,16 +463,36 @@ def _check_cells(entry, units: OutputUnits):
             entry.verdict, entry.note_in(units) or ""]
 
 
+# A deformation limit is stated as what is required and what the result gives, not as a
+# demand against a capacity; its rows go in a table of their own under these headers.
+_LIMIT_HEADERS = ("limit", "name", "actual", "required", "margin", "utilization", "result", "note")
+
+
+def _limit_cells(entry, units: OutputUnits):
+    a = entry.amounts(units)
+
+    def value(v):
+        return "-" if v is None else f"{number(v)} {a['unit']}"
+
+    util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
+    return [entry.kind, entry.name, value(a["actual"]), value(a["required"]), value(a["margin"]),
+            util, entry.verdict, entry.note_in(units) or ""]
+
+
+def check_groups(entries, units: OutputUnits):
+    """The check tables of ``entries``: ``(headers, entries, rows)`` for strength and
+    buckling (demand, capacity), then for deformation limits (actual, required, margin),
+    each only when it has a row."""
+    entries = list(entries)
+    limits = [e for e in entries if "required" in e.amounts(units)]
+    others = [e for e in entries if e not in limits]
+    groups = [(_CHECK_HEADERS, others, [_check_cells(e, units) for e in others]),
+              (_LIMIT_HEADERS, limits, [_limit_cells(e, units) for e in limits])]
+    return [g for g in groups if g[1]]
+
+
 # Lines of the check tables are kept within this width: long notes go under the table.
 WIDTH = 120
-
-
-def _wrap(text, first="", rest="   "):
-    """``text`` wrapped to :data:`WIDTH`, the first line after ``first``, the others after ``rest``."""
-    import textwrap
-
-    return textwrap.wrap(text, WIDTH, initial_indent=first, subsequent_indent=rest,
-                         break_on_hyphens=False) or [first.rstrip()]
 
 
 def _check_lines(case_checks, units: OutputUnits, title=True, width=WIDTH):
@@ -477,13 +504,12 @@ def _check_lines(case_checks, units: OutputUnits, title=True, width=WIDTH):
     if not len(case_checks):
         return out + ["  (no checks)"]
     notes = {}                      # note text -> its number (one number for a repeated note)
-    rows = []
-    for e in case_checks:
-        cells = _check_cells(e, units)
-        if cells[-1]:
-            cells[-1] = str(notes.setdefault(cells[-1], len(notes) + 1))
-        rows.append(cells)
-    lines = _grid(list(_CHECK_HEADERS), rows, width=width)
+    lines = []
+    for n, (headers, _, rows) in enumerate(check_groups(case_checks, units)):
+        for cells in rows:
+            if cells[-1]:
+                cells[-1] = str(notes.setdefault(cells[-1], len(notes) + 1))
+        lines += ([""] if n else []) + _grid(list(headers), rows, width=width)
     if notes:
         lines.append("  notes:")
         for text, n in notes.items():
@@ -546,14 +572,15 @@ def checks_table(checks, units: OutputUnits | None = None, title: str | None = N
         out += _check_lines(c, units, width=width)
         out.append("")
     out += [line for text in _governing_lines(checks, units) for line in _wrapped(text, width, "", "  ")]
-    out += ["", "cautions:"] + [line for c in CAUTIONS for line in _wrapped(c, width, " - ", "   ")]
+    out += [""] + caution_lines(width=width)
     return "\n".join(out) + "\n"
 
 
 def checks_markdown(case_checks, units: OutputUnits) -> list[str]:
     """Markdown lines of the checks table of one case."""
-    out = ["**checks** (utilization = demand x safety factor / capacity)", "",
-           "| " + " | ".join(_CHECK_HEADERS) + " |", "|" + "|".join("---" for _ in _CHECK_HEADERS) + "|"]
-    out += ["| " + " | ".join(_md_escape(c) for c in _check_cells(e, units)) + " |"
-            for e in case_checks]
-    return out + [""]
+    out = ["**checks** (utilization = demand x safety factor / capacity)", ""]
+    for headers, _, rows in check_groups(case_checks, units):
+        out += ["| " + " | ".join(headers) + " |", "|" + "|".join("---" for _ in headers) + "|"]
+        out += ["| " + " | ".join(_md_escape(c) for c in cells) + " |" for cells in rows]
+        out.append("")
+    return out

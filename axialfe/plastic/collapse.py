@@ -27,9 +27,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..errors import ModelError, SolveError, suggest
+from ..errors import ModelError, SolveError
 from ..model import Model
-from ..model.cases import load_states
+from ..model.cases import pick_state
 
 __all__ = ["CollapseResult", "collapse", "strengths"]
 
@@ -99,20 +99,6 @@ def strengths(model: Model):
         t.append(np.inf if fy is None else fy * area)
         c.append(np.inf if fc is None else fc * area)
     return np.array(t), np.array(c)
-
-
-def _pick(model, case):
-    states = load_states(model)
-    names = [s.name for s in states]
-    if case is None:
-        if len(states) > 1:
-            raise ModelError("the model has several cases: choose one with --case",
-                             place="--case", options=names)
-        return states[0]
-    if case not in names:
-        raise ModelError(f"unknown case '{case}'", place="--case", hint=suggest(case, names),
-                         options=names)
-    return states[names.index(case)]
 
 
 def _programme(model, asm, state, t_cap, c_cap):
@@ -198,7 +184,7 @@ def collapse(model: Model, case: str | None = None, check_buckling: bool = True)
             raise ModelError("limit analysis of a taper under a distributed load is not "
                              "supported: split the segment into shorter prismatic ones",
                              file=model.source, place=f"segments ('{seg.name}')")
-    state = _pick(model, case)
+    state = pick_state(model, case)
     asm = assemble(model)
     t_cap, c_cap = strengths(model)
     notes = []

@@ -45,7 +45,7 @@ import numpy as np
 from ..errors import ModelError, SolveError, suggest
 from ..formatting import names as names_text
 from ..model import Model
-from ..model.cases import LoadState, load_states
+from ..model.cases import LoadState, pick_state
 from ..results import CaseResult
 from .events import GAP_EVENTS
 from ..units import kelvin_to_temperature, temperature_to_kelvin, unit_factor
@@ -484,20 +484,6 @@ def _current(leg, lam, thermal, reference):
     return float(kelvin_to_temperature(reference + dT, leg.unit))
 
 
-def _pick_case(model, case):
-    states = load_states(model)
-    names = [s.name for s in states]
-    if case is None:
-        if len(states) > 1:
-            raise ModelError("the model has several cases: choose one with --case",
-                             place="--case", options=names)
-        return states[0]
-    if case not in names:
-        raise ModelError(f"unknown case '{case}'", place="--case", hint=suggest(case, names),
-                         options=names)
-    return states[names.index(case)]
-
-
 def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> PathResult:
     """Follow a case along the legs of a path, exactly, with elastic-plastic segments.
 
@@ -540,7 +526,7 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     refuse_tables(model, "the elastic-plastic path", "give constant properties (their values "
                   "at the temperatures of interest)")
     model = resolve_preloads(model)
-    base = _pick_case(model, case)
+    base = pick_state(model, case)
     tr = _Tracker(model, base)
     P, names = tr.P, [model.segments[i].name for i in tr.P]
     gap_names = [gp.name for gp in model.gaps]
