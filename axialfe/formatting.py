@@ -1,6 +1,13 @@
-"""The one formatter of numbers and names for text meant to be read: notes, tables, reports."""
+"""The one formatter of numbers and names for text meant to be read: notes, tables, reports.
 
-__all__ = ["number", "names"]
+A note written below the output floor keeps its quantities as SI data
+(:func:`quantity_text`) until the output writes it in the reader's units
+(:func:`note_text`).
+"""
+
+import re
+
+__all__ = ["number", "names", "quantity_text", "note_text"]
 
 
 def number(value, digits: int = 4, plain: bool = True, minus: str = "-") -> str:
@@ -33,3 +40,30 @@ def names(items, most: int = 8) -> str:
     if len(quoted) > most:
         return ", ".join(quoted[:most]) + f" and {len(quoted) - most} more"
     return ", ".join(quoted)
+
+
+_QUANTITY = re.compile(
+    r"\u27e6(force|length|displacement|stress|temperature)=([-+0-9.eE]+|inf|nan)\u27e7")
+
+
+def quantity_text(value, key: str) -> str:
+    """A quantity in a note: its SI value and its kind (``force``, ``length``,
+    ``displacement``, ``stress``, ``temperature`` for a change), kept as data until the
+    note is shown in the output's units (:func:`note_text`)."""
+    return f"\u27e6{key}={float(value)!r}\u27e7"
+
+
+def note_text(note, units):
+    """A note with its quantities written in ``units`` (an ``OutputUnits``; four
+    significant digits).
+
+    >>> from axialfe.units import OutputUnits
+    >>> note_text("capacity " + quantity_text(58400.0, "force"), OutputUnits(force="kN"))
+    'capacity 58.4 kN'
+    >>> note_text("'shaft' " + quantity_text(50.0, "temperature"), OutputUnits(temperature="degF"))
+    "'shaft' 90 degF"
+    """
+    if note is None:
+        return None
+    return _QUANTITY.sub(lambda m: f"{number(float(m.group(2)) / units.factor(m.group(1)))} "
+                                   f"{getattr(units, m.group(1))}", note)

@@ -5,13 +5,16 @@ from __future__ import annotations
 import json
 import math
 from dataclasses import replace
+from pathlib import Path
 
 import numpy as np
 import pytest
 from hypothesis import given, strategies as st
 
 from axialfe import Gap, Load, Model, ModelError, Segment, SolveError, Station, Support, solve
+from axialfe.formatting import note_text
 from axialfe.tracking.sweep import parse_range, sweep
+from axialfe.units import OutputUnits
 
 from conftest import area, assert_close, steel
 from test_gaps import gap_models
@@ -223,7 +226,7 @@ def test_sweep_notes_the_thermal_input_it_replaces():
     m = Model(m.stations, (m.segments[0], replace(m.segments[1], temperature_change=20.0)),
               m.supports, gaps=m.gaps)
     result = sweep(m, "temperature_change", 0.0, 10.0, 3)
-    assert result.notes[0] == ("the swept temperature replaces every segment's own thermal input, "
+    assert note_text(result.notes[0], OutputUnits()) == ("the swept temperature replaces every segment's own thermal input, "
                                "which in case 'base' varies by segment: 'steel' (0 K), 'alu' (20 K)")
 
 
@@ -297,7 +300,7 @@ def test_temperature_factor_scales_the_case_own_field():
     assert [(e.name, e.event) for e in res.events] == [("stop", "closes")]
     assert res.events[0].value == pytest.approx(0.3 / 0.84, rel=1e-12)
     assert res.unit == "1"
-    assert res.replaced == ("scales the case's own temperature changes of every segment ('first' "
+    assert note_text(res.replaced, OutputUnits()) == ("scales the case's own temperature changes of every segment ('first' "
                             "50 K, 'second' 20 K); replaces none")
     # each step is the case solved with its own temperatures times the factor
     m = _stop_model(own=(25.0, 10.0))
@@ -312,7 +315,7 @@ def test_temperature_sweep_of_chosen_segments():
     # 12e-6 * (dT + 20 K) * 1 m = 0.3 mm, at dT = 5 K.
     res = sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, unit="K", segments=["first"])
     assert res.events[0].value == pytest.approx(5.0, rel=1e-9)
-    assert res.replaced == ("replaces the thermal input of segments 'first' ('first' 50 K in case "
+    assert note_text(res.replaced, OutputUnits()) == ("replaces the thermal input of segments 'first' ('first' 50 K in case "
                             "'base') by the swept change; the others keep the case's own")
     with pytest.raises(ModelError) as err:
         sweep(_stop_model(), "temperature_change", 0.0, 50.0, 3, segments=["frist"])
@@ -391,3 +394,18 @@ def test_cli_temperature_factor_and_no_unit_heading(cli, rail, tmp_path):
     seg = cli("sweep", path, "--temperature-change", "0 K..60 K", "--segments", "rial")
     assert seg.exit_code == 2
     assert seg.output.strip() == "error: --segments: unknown segment 'rial'; did you mean 'rail'?"
+
+
+def test_us_output_writes_the_replaced_temperatures_in_degf():
+    # a change of 55 K is 99 degF (1 degF = 5/9 K, the definition of the Fahrenheit degree)
+    from typer.testing import CliRunner
+
+    from axialfe.cli import app
+
+    root = Path(__file__).resolve().parent.parent
+    out = CliRunner().invoke(app, ["sweep", str(root / "examples" / "shaft-end-float.toml"),
+                                   "--temperature-change", "0 K..60 K", "--temperature-unit",
+                                   "degF", "-f", "json"]).stdout
+    data = json.loads(out)
+    assert "'shaft' 99 degF" in data["replaced"] and " K" not in data["replaced"]
+    assert "'shaft' (99 degF)" in data["notes"][0]

@@ -2,10 +2,9 @@
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 
-from ..formatting import number
+from ..formatting import note_text, quantity_text  # noqa: F401 - re-exported for the checks
 from ..model import CheckSettings
 from ..units import OutputUnits
 
@@ -213,22 +212,3 @@ _CURVE_BASIS = {
 }
 
 
-_QUANTITY = re.compile(r"\u27e6(force|length|displacement|stress)=([-+0-9.eE]+|inf|nan)\u27e7")
-
-
-def quantity_text(value, key: str) -> str:
-    """A quantity in a note: its SI value and its kind, kept as data until the note is
-    shown in the output's units (:func:`note_text`)."""
-    return f"\u27e6{key}={float(value)!r}\u27e7"
-
-
-def note_text(note: str | None, units: OutputUnits) -> str | None:
-    """A note with its quantities written in ``units`` (four significant digits).
-
-    >>> note_text("capacity " + quantity_text(58400.0, "force"), OutputUnits(force="kN"))
-    'capacity 58.4 kN'
-    """
-    if note is None:
-        return None
-    return _QUANTITY.sub(lambda m: f"{number(float(m.group(2)) / units.factor(m.group(1)))} "
-                                   f"{getattr(units, m.group(1))}", note)

@@ -8,6 +8,7 @@ import json
 
 import numpy as np
 
+from ..formatting import note_text
 from .text import CAUTIONS, caution_lines, _footnotes, _g, _grid, _wrapped, terminal_width
 
 __all__ = ["sweep_summary", "sweep_json", "sweep_csv"]
@@ -44,7 +45,7 @@ def sweep_summary(result, units) -> str:
 
     out = [f"axialfe sweep: {m.title}"]
     out += _wrapped(f"case '{result.case}', {result.parameter} from {_g(v[0])} to {_g(v[-1])}"
-                    f"{unit}, {len(v)} steps; {result.replaced}", width, "", "  ")
+                    f"{unit}, {len(v)} steps; {note_text(result.replaced, units)}", width, "", "  ")
     out += ["units: " + ", ".join(f"{k} {u}" for k, u in units.as_dict().items()), ""]
     if result.events:
         out.append(" events (exact, not read off the grid; identical events at one value on one line)")
@@ -72,7 +73,7 @@ def sweep_summary(result, units) -> str:
     if rows_gap:
         out += ["", f" gap forces [{units.force}] (+ in tension)"]
         out += grid(["gap"] + heads, rows_gap)
-    out += _footnotes(list(result.notes), width)
+    out += _footnotes([note_text(n, units) for n in result.notes], width)
     out += ["", "all steps: use --format csv or --format json with --output FILE"]
     out += caution_lines(width=width)
     return "\n".join(out) + "\n"

@@ -18,6 +18,7 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from ..errors import ModelError, SolveError, suggest
+from ..formatting import note_text, quantity_text
 from ..model.cases import LoadState, load_states
 from ..model import Model
 from ..results import CaseResult
@@ -120,13 +121,16 @@ class SweepResult:
     events : tuple of Event
         In the order they occur along the range.
     notes : tuple of str
+        Their quantities are kept as SI data: ``axialfe.formatting.note_text(note, units)``
+        writes them in ``units`` (:meth:`to_dict` does).
     model : Model
     case : str
         The case swept.
     exact : callable, optional
         The exact result at any value of the range (set by :func:`sweep`).
     replaced : str
-        Which thermal inputs of the case the sweep replaced (or scaled, or none).
+        Which thermal inputs of the case the sweep replaced (or scaled, or none), its
+        quantities kept as data like the notes'.
     """
 
     parameter: str
@@ -171,10 +175,10 @@ class SweepResult:
         """Plain numbers in ``units``; ``steps`` may wrap :attr:`results` (a progress bar)."""
         units = units or self.model.units
         return {"title": self.model.title, "units": units.as_dict(), "parameter": self.parameter,
-                "unit": self.unit, "case": self.case, "replaced": self.replaced,
+                "unit": self.unit, "case": self.case, "replaced": note_text(self.replaced, units),
                 "values": self.values.tolist(),
                 "events": [{"name": e.name, "event": e.event, "value": e.value} for e in self.events],
-                "notes": list(self.notes),
+                "notes": [note_text(n, units) for n in self.notes],
                 "cases": [r.to_dict(units) for r in (self.results if steps is None else steps)]}
 
     def __repr__(self):
@@ -397,7 +401,8 @@ class _Tracker:
 def _replaced(model, base, parameter, mask) -> str:
     """What the sweep does to the case's thermal input, in words."""
     def own(rows):
-        text = [f"'{model.segments[i].name}' {base.dT[i]:g} K" for i in rows[:6]]
+        text = [f"'{model.segments[i].name}' {quantity_text(base.dT[i], 'temperature')}"
+                for i in rows[:6]]
         return ", ".join(text) + (f" and {len(rows) - 6} more" if len(rows) > 6 else "")
 
     rows = list(range(len(model.segments))) if mask is None else list(np.flatnonzero(mask))
@@ -510,7 +515,8 @@ def sweep(model: Model, parameter: str, start: float, stop: float, steps: int,
         notes.append(f"case '{base.name}' has no temperature change on the segments swept: the "
                      "factor changes nothing")
     if parameter in ("temperature_change", "temperature") and mask is None and np.ptp(base.dT) > 0:
-        own = [f"'{seg.name}' ({dt:g} K)" for seg, dt in zip(model.segments, base.dT)]
+        own = [f"'{seg.name}' ({quantity_text(dt, 'temperature')})"
+               for seg, dt in zip(model.segments, base.dT)]
         notes.append("the swept temperature replaces every segment's own thermal input, which "
                      f"in case '{base.name}' varies by segment: " + ", ".join(own[:6])
                      + (f" and {len(own) - 6} more" if len(own) > 6 else ""))
