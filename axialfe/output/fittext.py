@@ -12,7 +12,7 @@ import json
 
 from ..fits.fit import FitResult, FitUnits
 from ..formatting import number
-from .text import CAUTIONS, _grid, caution_lines
+from .text import CAUTIONS, _fit_grid as _grid, caution_lines, fitted
 
 __all__ = ["FIT_CAUTIONS", "fit_dict", "fit_json", "fit_table", "fit_check_cells",
            "FIT_CHECK_HEADERS", "fit_tables", "fit_summary_lines", "fit_governing_text"]
@@ -216,4 +216,4 @@ def fit_table(result: FitResult, units: FitUnits | None = None) -> str:
             f"review (overall: {result.checks.status})", "", "basis:"]
     out += [f" - {n}" for n in result.notes]
     out += [""] + caution_lines(FIT_CAUTIONS)
-    return "\n".join(out) + "\n"
+    return fitted(out)

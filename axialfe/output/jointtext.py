@@ -10,7 +10,8 @@ import json
 
 from ..formatting import number
 from ..units import OutputUnits
-from .text import CAUTIONS, _check_cells, _governing_text, _grid, caution_lines
+from .text import (CAUTIONS, _check_cells, _governing_text, _fit_grid as _grid, caution_lines,
+                   fitted)
 
 __all__ = ["JOINT_CAUTIONS", "joint_dict", "joint_json", "joint_table", "sweep_dict",
            "sweep_json", "sweep_table", "joint_units"]
@@ -149,7 +150,7 @@ def joint_table(result, units: OutputUnits | None = None) -> str:
     out += ["", f"governing check: {_governing_text(result.checks)}",
             f"overall: {result.checks.status}", f"check basis: {d['check_basis']}", "",
             ""] + caution_lines(JOINT_CAUTIONS)
-    return "\n".join(out) + "\n"
+    return fitted(out)
 
 
 def sweep_dict(sweep, units: OutputUnits | None = None) -> dict:
@@ -190,4 +191,4 @@ def sweep_table(sweep, units: OutputUnits | None = None) -> str:
     for note in d["notes"]:
         out.append(f" note: {note}")
     out += [""] + caution_lines(JOINT_CAUTIONS)
-    return "\n".join(out) + "\n"
+    return fitted(out)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from .text import _g, _grid, caution_lines
+from .text import _g, _fit_grid as _grid, caution_lines, fitted
 
 __all__ = ["collapse_table", "collapse_json", "path_table", "path_json", "PLASTIC_CAUTIONS"]
 
@@ -43,7 +43,7 @@ def collapse_table(result, units) -> str:
     for note in result.notes:
         out.append(f" note: {note}")
     out += [""] + caution_lines(PLASTIC_CAUTIONS)
-    return "\n".join(out) + "\n"
+    return fitted(out)
 
 
 def _shown(unit):
@@ -116,4 +116,4 @@ def path_table(result, units) -> str:
     for note in result.notes:
         out.append(f" note: {note}")
     out += [""] + caution_lines(PLASTIC_CAUTIONS)
-    return "\n".join(out) + "\n"
+    return fitted(out)

@@ -112,16 +112,16 @@ def review_lines(review, units: OutputUnits, width=None) -> list[str]:
 
 def review_table(review, units: OutputUnits | None = None) -> str:
     """The whole terminal output of ``axialfe verify``."""
-    from .text import CAUTIONS, caution_lines
+    from .text import CAUTIONS, caution_lines, fitted, terminal_width
 
     units = units or review.model.units
     out = [f"axialfe verify: {review.model.title}",
            "units: " + ", ".join(f"{k} {v}" for k, v in units.as_dict().items()),
            "signs: forces + toward +x; axial force and stress + in tension; a reaction is the "
            "force of the support on the bar", ""]
-    out += review_lines(review, units)
+    out += review_lines(review, units, width=terminal_width())
     out += [""] + caution_lines(CAUTIONS)
-    return "\n".join(out) + "\n"
+    return fitted(out)
 
 
 def review_json(review, units: OutputUnits | None = None) -> str:

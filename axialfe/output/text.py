@@ -10,6 +10,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+import re
 
 from ..formatting import number
 from ..results import Solution
@@ -17,7 +18,7 @@ from ..units import OutputUnits
 
 __all__ = ["CAUTIONS", "render", "to_json", "to_csv", "to_markdown", "to_table", "FORMATS",
            "checks_table", "checks_markdown", "checks_json", "checks_csv", "check_dict",
-           "check_csv_rows", "caution_lines", "check_groups"]
+           "check_csv_rows", "caution_lines", "check_groups", "fitted"]
 
 FORMATS = ("table", "json", "csv", "markdown")
 
@@ -51,9 +52,12 @@ def terminal_width() -> int:
 def _grid(headers, rows, indent="  ", width=None):
     """Align a table as text: names left, numbers right.
 
-    With ``width``, a table wider than that is split into blocks of columns that fit,
-    one under the other, each repeating the first column (the item's name).
+    A table wider than ``width`` (``"terminal"`` for :func:`terminal_width`; None for
+    no limit) is split into blocks of columns that fit, one under the other, each
+    repeating the first column (the item's name).
     """
+    if width == "terminal":
+        width = terminal_width()
     cells = [[str(c) for c in r] for r in rows]
     widths = [max(len(h), *(len(r[i]) for r in cells)) if cells else len(h)
               for i, h in enumerate(headers)]
@@ -86,6 +90,29 @@ def _wrapped(text, width, first, rest):
 
     return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
                          break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+
+
+def _fit_grid(headers, rows, indent="  "):
+    """:func:`_grid` fitted to the terminal's width."""
+    return _grid(headers, rows, indent, width="terminal")
+
+
+def fitted(lines, width: int | None = None) -> str:
+    """``lines`` as one text, each line longer than ``width`` (the terminal's by default)
+    wrapped at its spaces under its own indent (and under the text of a ``- `` or ``1. ``
+    item).  Tables split by :func:`_grid` already fit; this wraps the prose around them."""
+    width = terminal_width() if width is None else width
+    out = []
+    for line in lines:
+        if len(line) <= width:
+            out.append(line)
+            continue
+        body = line.lstrip(" ")
+        lead = line[:len(line) - len(body)]
+        item = re.match(r"(- |\d+\. )", body)
+        rest = lead + " " * (len(item.group(1)) if item else 2)
+        out += _wrapped(body, width, lead, rest)
+    return "\n".join(out) + "\n"
 
 
 def caution_lines(cautions=CAUTIONS, width: int | None = None) -> list[str]:
