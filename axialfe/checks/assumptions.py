@@ -161,7 +161,7 @@ def assumption_notes(solution: Solution,
                     continue
                 stress = -force / total
                 for i, _ in parts:
-                    strength, word = _strength(segments[i].material, True)
+                    strength, word = _strength(own[i].material, True)
                     if strength is not None and stress > strength * (1 + _ROUNDING):
                         notes.append(
                             f"gap '{gap.name}' is closed with {_q(-force, 'force')}: over the end "
