@@ -3,7 +3,8 @@
 The package is laid out by stage; a floor imports only the floors below it
 (anything not in ``axialfe.__all__`` is internal and may change):
 
-- ``errors``, ``units``: the exception family; the only module that imports pint;
+- ``errors``, ``units``, ``formatting``: the exception family; the only module that
+  imports pint; the one formatter of numbers, names and notes;
 - ``model/``: the input concepts (frozen, self-checking, SI floats) and the one
   rule of what cases and combinations put on a model;
 - ``materials/``: the built-in material library;
@@ -17,7 +18,11 @@ The package is laid out by stage; a floor imports only the floors below it
 - ``checks/``: design checks of solved cases;
 - ``fits/``: press and shrink fits (ISO 286 limits, Lamé's cylinders, ``axialfe fit``);
 - ``joints/``: one bolted joint built into an axial model, its states, checks and sweep;
-- ``io/``: the model-file reader;
+- ``review/``: hand-calculation review (stated values, likely slips, the calculation sheet);
+- ``plastic/``: limit analysis (``axialfe collapse``) and the notes of a linear solve of
+  elastic-plastic materials (the elastic-plastic path itself is in ``tracking/``);
+- ``tolerance/``: toleranced inputs, batched worst-case and Monte Carlo studies;
+- ``io/``: the readers (model files, CSV tables, claims, joint and fit files share them);
 - ``output/``: terminal tables, JSON, CSV, diagrams and the report;
 - ``cli/``: the typer command line.
 """
