@@ -11,7 +11,7 @@ import json
 
 from ..formatting import number
 from ..units import OutputUnits, kelvin_to_temperature, unit_factor
-from .text import CAUTIONS, _grid
+from .text import CAUTIONS, _fit_grid, caution_lines, fitted
 
 __all__ = ["TOLERANCE_CAUTIONS", "study_dict", "study_json", "study_table"]
 
@@ -80,7 +80,7 @@ def study_table(study, units: OutputUnits | None = None) -> str:
     kinds = {(r["name"], r["case"]): r["kind"] for r in study.outputs}
     lines = [f"{data['title']}: tolerance study", ""]
     lines.append(f" inputs ({len(data['inputs'])})")
-    lines += _grid(["name", "nominal", "lower", "upper", "unit", "distribution"],
+    lines += _fit_grid(["name", "nominal", "lower", "upper", "unit", "distribution"],
                    [[e["name"], _g(e["nominal"]), _g(e["limits"][0]), _g(e["limits"][1]),
                      e["unit"] or "-", e["distribution"]] for e in data["inputs"]])
     lines.append("")
@@ -99,17 +99,17 @@ def study_table(study, units: OutputUnits | None = None) -> str:
             p = r["percentiles"]
             row += [_g(r["mean"]), _g(r["std"]), _g(p["0.135"]), _g(p["50"]), _g(p["99.865"])]
         rows.append(row)
-    lines += _grid(headers, rows)
+    lines += _fit_grid(headers, rows)
     if data["events"]:
         lines += ["", " events (probability with its 95 % Wilson score interval)"]
-        lines += _grid(["name", "event", "case", "count", "probability", "interval"],
+        lines += _fit_grid(["name", "event", "case", "count", "probability", "interval"],
                        [[e["name"], e["event"], e["case"], str(e["count"]),
                          _g(e["probability"]),
                          f"{_g(e['confidence_interval'][0])} to {_g(e['confidence_interval'][1])}"]
                         for e in data["events"]])
-    lines += ["", " notes"] + [f"  - {n}" for n in data["notes"]]
-    lines += ["", " cautions"] + [f"  - {c}" for c in TOLERANCE_CAUTIONS]
-    return "\n".join(lines) + "\n"
+    lines += ["", "notes:"] + [f" - {n}" for n in data["notes"]]
+    lines += [""] + caution_lines(TOLERANCE_CAUTIONS)
+    return fitted(lines)
 
 
 def _report_rows(study, units):
