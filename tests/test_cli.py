@@ -316,3 +316,11 @@ def test_help_keeps_the_names_of_tables():
     assert "states ([[claims]], claims_file)" in out
     out = " ".join(run("materials", "--help").stdout.replace("\u2502", " ").split())
     assert "its [units] system" in out
+
+
+def test_a_bad_choice_is_one_line_with_a_suggestion():
+    bad = subprocess.run([sys.executable, "-m", "axialfe", "solve", str(STEPPED), "-f", "jsn"],
+                         capture_output=True, text=True)
+    assert bad.returncode == 2
+    assert bad.stderr == ("error: '--format' / '-f': 'jsn' is not one of 'table', 'json', 'csv', "
+                          "'markdown'; did you mean 'json'? (see 'axialfe solve --help')\n")

@@ -213,4 +213,5 @@ def test_unknown_template_is_one_line(tmp_path):
     res = subprocess.run([sys.executable, "-m", "axialfe", "init", str(tmp_path / "x.toml"),
                           "--template", "pipe"], capture_output=True, text=True)
     assert res.returncode == 2 and len(res.stderr.strip().splitlines()) == 1
-    assert res.stderr.startswith("error: Invalid value for '--template'")
+    assert res.stderr == ("error: '--template': 'pipe' is not one of 'stepped-bar', 'bolt-sleeve', "
+                          "'pipe-anchors'; did you mean 'pipe-anchors'? (see 'axialfe init --help')\n")

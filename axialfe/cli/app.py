@@ -9,6 +9,7 @@ its traceback.  Heavy imports stay inside the commands that need them.
 from __future__ import annotations
 
 import contextlib
+import re
 import sys
 from enum import Enum
 from pathlib import Path
@@ -777,6 +778,25 @@ def verify_claims(model: ModelPath,
     raise typer.Exit(0 if review.differ == 0 else 1)
 
 
+_CHOICE = re.compile(r"Invalid value for (?P<option>.+?): Value error, '(?P<value>.*)' is not one "
+                     r"of (?P<choices>'.*')\.$")
+
+
+def _usage_text(message: str) -> str:
+    """click's message for a bad choice, in the tool's own shape, with a "did you mean"."""
+    from ..errors import suggest
+
+    found = _CHOICE.match(message.strip())
+    if found is None:
+        return message
+    choices = re.findall(r"'([^']*)'", found["choices"])
+    close = suggest(found["value"], choices) or next(
+        (c for c in choices if found["value"] and c.startswith(found["value"])), None)
+    hint = f"; did you mean '{close}'?" if close else ""
+    return (f"{found['option']}: '{found['value']}' is not one of "
+            + ", ".join(f"'{c}'" for c in choices) + hint)
+
+
 def main():
     """The entry point: a mistake on the command line is one ``error:`` line, exit 2.
 
@@ -795,7 +815,8 @@ def main():
         elif "UsageError" in kinds:
             ctx = getattr(exc, "ctx", None)
             command = ctx.command_path if ctx is not None else "axialfe"
-            typer.echo(f"error: {exc.format_message()} (see '{command} --help')", err=True)
+            typer.echo(f"error: {_usage_text(exc.format_message())} (see '{command} --help')",
+                       err=True)
             code = EXIT_INPUT
         elif "Abort" in kinds:
             typer.echo("error: aborted", err=True)
