@@ -58,7 +58,9 @@ def tolerance(model: ModelPath,
     { value = "0.20 mm", std = "0.01 mm" }) is an input.  The worst case
     evaluates every vertex of the tolerance box, then searches locally where
     the response is not affine; the Monte Carlo draws one seeded stream per
-    input.  Exit code 0, or 2 for bad input.
+    input.  A joint file (a [bolt] table) takes a toleranced nut factor; its
+    outputs are each state's bolt_force and clamp_force.  Exit code 0, or 2
+    for bad input.
     """
     from ..errors import ModelError
     from ..io.modelfile import read_toleranced
@@ -75,9 +77,18 @@ def tolerance(model: ModelPath,
             raise ModelError(f"--samples must lie from 0 to 10,000,000: got {samples}")
         if seed < 0:
             raise ModelError(f"--seed must not be negative: got {seed}")
-        nominal, build = read_toleranced(model)
-        study = run_study(nominal, build, samples=samples, seed=seed, outputs=output,
-                          progress=_progress_bar())
+        from ..joints import is_joint_file
+
+        if is_joint_file(model):  # a bolted joint: its states' bolt and clamp forces
+            from ..joints.reader import read_joint_toleranced
+            from ..tolerance.jointstudy import run_joint_study
+
+            joint, found, _ = read_joint_toleranced(model)
+            study = run_joint_study(joint, found, samples=samples, seed=seed, outputs=output)
+        else:
+            nominal, build = read_toleranced(model)
+            study = run_study(nominal, build, samples=samples, seed=seed, outputs=output,
+                              progress=_progress_bar())
         emit(study_json(study) if format is CheckFormat.json else study_table(study), None)
         if plot is not None:
             from ..output.toleranceplot import plot_study

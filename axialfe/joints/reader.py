@@ -16,12 +16,13 @@ from ..errors import ModelError, UnitError, suggest
 from ..formatting import number
 from ..io.modelfile import _Reader, builtin_materials
 from ..io.source import decode, read_text
+from ..tolerance.inputs import Toleranced, is_toleranced, parse_tolerance
 from ..units import OutputUnits, split_quantity, unit_base
 from .grades import bolting_steel, iso_class, sae_grade
 from .joint import ASSEMBLY, BOLT, Joint, Part, Service
 from .threads import thread
 
-__all__ = ["read_joint", "parse_joint", "is_joint_file", "NUT_FACTOR"]
+__all__ = ["read_joint", "parse_joint", "is_joint_file", "read_joint_toleranced", "NUT_FACTOR"]
 
 NUT_FACTOR = 0.2  # Shigley, 10th ed., Table 8-15: K = 0.2 for a bolt as received (from memory)
 
@@ -35,6 +36,8 @@ _KEYS = {
     "units": ("system", "force", "length", "stress"),
 }
 _TORQUE_DIMS = {"[length]": 2, "[mass]": 1, "[time]": -2}
+# the (table, key) pairs of a joint file whose plain numbers may carry a tolerance
+_TOLERABLE_NUMBERS = {("assembly", "nut_factor")}
 
 
 def is_joint_file(path) -> bool:
@@ -62,6 +65,25 @@ class _JointReader(_Reader):
         if key not in entry:
             self.fail(f"'{key}' is missing", table, index, place=place or table)
         return entry[key]
+
+    def number(self, value, *, table=None, index=None, key=None, place=None):
+        """A plain number, or a toleranced one where a joint file allows it (the nut factor)."""
+        if not is_toleranced(value):
+            return super().number(value, table=table, index=index, key=key, place=place)
+        if (table, key) not in _TOLERABLE_NUMBERS:
+            self.fail(f"{key}: a tolerance is not allowed here (a joint file takes one on "
+                      "assembly.nut_factor)", table, index, key, place=place)
+        line = self.line(table, index, key)
+        try:
+            tol = parse_tolerance(value, None)
+        except ModelError as exc:
+            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source, line=line,
+                            hint=exc.hint, options=exc.options) from exc
+        path = f"{table}.{key}"
+        problem = (f"{key} could fall to zero or below within the tolerance"
+                   if tol.spread[0] <= 0 else None)
+        self.tolerances[path] = Toleranced(path, tol, line, problem)
+        return float(self.overrides.get(path, tol.nominal))
 
     def torque(self, value, table, key):
         """A torque in N*m, checked for its dimension (e.g. '50 N*m', '30 lbf*ft')."""
@@ -285,7 +307,7 @@ class _JointReader(_Reader):
                              hint=exc.hint, options=exc.options) from exc
 
 
-def parse_joint(text: str, source: str | None = None) -> Joint:
+def parse_joint(text: str, source: str | None = None, overrides: dict | None = None) -> Joint:
     """Read a joint from TOML text (see README, "Bolted joints").
 
     Raises
@@ -294,10 +316,30 @@ def parse_joint(text: str, source: str | None = None) -> Joint:
         For malformed TOML, unknown keys, sizes, classes or names, wrong units,
         and a geometry that cannot be assembled.
     """
-    return _JointReader(decode(text, source), source, text).joint()
+    return _JointReader(decode(text, source), source, text, overrides=overrides).joint()
 
 
 def read_joint(path) -> Joint:
     """Read a joint file; see :func:`parse_joint`."""
     path = Path(path)
     return parse_joint(read_text(path, "joint file"), str(path))
+
+
+def read_joint_toleranced(path):
+    """Read a joint file for a tolerance study.
+
+    Returns
+    -------
+    joint : Joint
+        The joint at the nominal values.
+    found : tuple of Toleranced
+        Its toleranced inputs (``assembly.nut_factor``).
+    build : callable
+        ``build({path: value})``: the joint read again with those inputs moved.
+    """
+    path = Path(path)
+    text, source = read_text(path, "joint file"), str(path)
+    reader = _JointReader(decode(text, source), source, text)
+    joint = reader.joint()
+    return (joint, tuple(reader.tolerances.values()),
+            lambda values: parse_joint(text, source, overrides=values))

@@ -1,0 +1,145 @@
+"""Tolerance studies of bolted joint files: a toleranced nut factor at a given torque.
+
+Checks against the outside world name their source beside them; "from memory"
+where it is.
+"""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+from scipy import stats
+from typer.testing import CliRunner
+
+from axialfe.cli import app
+from axialfe.errors import ModelError
+from axialfe.joints.joint import solve_joint
+from axialfe.joints.reader import read_joint_toleranced
+from axialfe.tolerance.jointstudy import run_joint_study
+
+runner = CliRunner()
+EXAMPLE = (Path(__file__).resolve().parent.parent / "examples" / "tolerance"
+           / "pump-foot-bolt-torque-scatter.toml")
+T, D = 70.0, 0.012            # the example's torque (N*m) and M12's nominal diameter (m)
+K_LO, K_HI = 0.17, 0.23       # its nut factor 0.2 +-0.03, uniform
+C_MIN, P_EXT = 16e3, 14e3     # its minimum clamp force and external load (N)
+
+
+@pytest.fixture(scope="module")
+def study():
+    joint, found, _ = read_joint_toleranced(EXAMPLE)
+    return run_joint_study(joint, found, samples=20_000, seed=3)
+
+
+def test_preload_is_torque_over_nut_factor_times_diameter_for_every_sample(study):
+    # F_i = T/(K*d) (Shigley, Mechanical Engineering Design, 10th ed., eq. 8-27, from
+    # memory): the assembled bolt force of each sample gives back a nut factor inside the
+    # limits, and those nut factors are uniform on [0.17, 0.23]
+    preload = study.draws[("assembly", "bolt_force")]
+    k = T / (D * preload)
+    assert k.min() >= K_LO - 1e-12 and k.max() <= K_HI + 1e-12
+    assert stats.kstest(k, stats.uniform(K_LO, K_HI - K_LO).cdf).pvalue > 1e-3
+    # the closed joint carries the preload as its clamp force when assembled
+    assert np.allclose(study.draws[("assembly", "clamp_force")], preload, rtol=1e-9)
+
+
+def test_each_sample_agrees_with_the_joint_solver_of_its_own_file(study):
+    joint, found, build = read_joint_toleranced(EXAMPLE)
+    preload = study.draws[("assembly", "bolt_force")]
+    for i in (0, 7, 1234, 19_999):
+        k = T / (D * preload[i])
+        result = solve_joint(build({"assembly.nut_factor": float(k)}))
+        for out in ("bolt_force", "clamp_force"):
+            got = study.draws[("running", out)][i]
+            assert got == pytest.approx(getattr(result.state("running"), out), rel=1e-9)
+
+
+def test_clamp_below_minimum_matches_the_closed_form_for_a_uniform_nut_factor(study):
+    # joint diagram: F_m = F_i - (1 - C)*P (Shigley, 10th ed., eq. 8-25, from memory), so
+    # F_m < F_min where K > K* = T/(d*(F_min + (1 - C)*P)); for K uniform on [a, b] the
+    # probability is (b - K*)/(b - a)
+    joint, _, _ = read_joint_toleranced(EXAMPLE)
+    C = joint.joint_constant
+    k_star = T / (D * (C_MIN + (1 - C) * P_EXT))
+    expected = (K_HI - k_star) / (K_HI - K_LO)
+    assert 0.05 < expected < 0.95
+    event = next(e for e in study.events
+                 if e["event"] == "clamp-below-minimum" and e["case"] == "running")
+    lo, hi = event["confidence_interval"]
+    assert lo <= expected <= hi
+    assert event["count"] == int(np.count_nonzero(
+        study.draws[("running", "clamp_force")] < C_MIN))
+
+
+def test_worst_case_is_at_the_limits_of_the_nut_factor(study):
+    row = next(r for r in study.outputs if r["name"] == "running:clamp_force")
+    C = read_joint_toleranced(EXAMPLE)[0].joint_constant
+    # eqs. 8-25 and 8-27 above: least clamp at the greatest nut factor
+    assert row["worst_case"][0] == pytest.approx(T / (D * K_HI) - (1 - C) * P_EXT, rel=1e-9)
+    assert row["worst_case"][1] == pytest.approx(T / (D * K_LO) - (1 - C) * P_EXT, rel=1e-9)
+    assert row["worst_case_inputs"][0]["assembly.nut_factor"] == pytest.approx(K_HI)
+
+
+def test_a_separating_joint_is_solved_sample_by_sample(tmp_path):
+    text = EXAMPLE.read_text().replace('external_load = "14 kN"', 'external_load = "50 kN"')
+    path = tmp_path / "j.toml"
+    path.write_text(text)
+    joint, found, build = read_joint_toleranced(path)
+    study = run_joint_study(joint, found, samples=300, seed=1)
+    sep = next(e for e in study.events if e["event"] == "separates" and e["case"] == "running")
+    # 50 kN is above every sample's separation load F_i/(1 - C): each separates, and the
+    # bolt then carries the external load alone
+    assert sep["count"] == 300
+    assert np.allclose(study.draws[("running", "bolt_force")], 50e3, rtol=1e-9)
+    assert np.all(study.draws[("running", "clamp_force")] == 0.0)
+
+
+def test_cli_json_has_the_study_shape():
+    res = runner.invoke(app, ["tolerance", str(EXAMPLE), "--samples", "500", "--seed", "1",
+                              "--format", "json", "--output", "running:clamp_force"])
+    assert res.exit_code == 0, res.output
+    data = json.loads(res.stdout)
+    assert data["worst_case_method"] == "vertices"
+    assert [i["name"] for i in data["inputs"]] == ["assembly.nut_factor"]
+    assert [o["name"] for o in data["outputs"]] == ["running:clamp_force"]
+    assert {e["event"] for e in data["events"]} == {"separates", "clamp-below-minimum"}
+
+
+@pytest.mark.parametrize("line, message", [
+    ('nut_factor = "0.2 ±"', "nut_factor: '0.2 ±': the tolerance needs its deviation"),
+    ('nut_factor = "0.2 ±0.25"', "could fall to zero or below"),
+    ('nut_factor = { value = 0.2, plus = 0.03 }', "needs 'plus' and 'minus'"),
+])
+def test_bad_nut_factor_tolerances_are_one_located_error(tmp_path, line, message):
+    text = EXAMPLE.read_text().replace(
+        'nut_factor = { value = 0.2, plus = 0.03, minus = 0.03, distribution = "uniform" }', line)
+    path = tmp_path / "j.toml"
+    path.write_text(text)
+    res = runner.invoke(app, ["tolerance", str(path), "--samples", "10"])
+    assert res.exit_code == 2
+    lines = [s for s in res.stderr.splitlines() if s.startswith("error:")]
+    assert len(lines) == 1 and f"{path}:" in lines[0] and message in lines[0], res.stderr
+
+
+def test_a_tolerance_elsewhere_in_a_joint_file_is_refused(tmp_path):
+    text = EXAMPLE.read_text().replace('thickness = "14 mm"', 'thickness = "14 mm ±0.1"')
+    path = tmp_path / "j.toml"
+    path.write_text(text)
+    with pytest.raises(ModelError, match="a tolerance is not allowed here"):
+        read_joint_toleranced(path)
+
+
+def test_a_joint_separating_for_some_samples_counts_exactly_those(tmp_path):
+    text = EXAMPLE.read_text().replace('external_load = "14 kN"', 'external_load = "40 kN"')
+    path = tmp_path / "j.toml"
+    path.write_text(text)
+    joint, found, _ = read_joint_toleranced(path)
+    study = run_joint_study(joint, found, samples=300, seed=1)
+    preload = study.draws[("assembly", "bolt_force")]
+    # separation load F_i/(1 - C) (Shigley, 10th ed., eq. 8-28 rearranged, from memory)
+    expected = int(np.count_nonzero(preload / (1 - joint.joint_constant) < 40e3))
+    sep = next(e for e in study.events if e["event"] == "separates" and e["case"] == "running")
+    assert 0 < expected < 300 and sep["count"] == expected
