@@ -143,3 +143,14 @@ def test_a_joint_separating_for_some_samples_counts_exactly_those(tmp_path):
     expected = int(np.count_nonzero(preload / (1 - joint.joint_constant) < 40e3))
     sep = next(e for e in study.events if e["event"] == "separates" and e["case"] == "running")
     assert 0 < expected < 300 and sep["count"] == expected
+
+
+def test_the_joint_command_solves_at_the_stated_nut_factor_and_says_so():
+    res = runner.invoke(app, ["joint", str(EXAMPLE), "--format", "json"])
+    assert res.exit_code == 0, res.output
+    notes = [s for s in res.stderr.splitlines() if "toleranced input" in s]
+    assert len(notes) == 1 and "joint has 1 toleranced input" in notes[0]
+    states = json.loads(res.stdout)["states"]
+    assembly = next(s for s in states if s["name"] == "assembly")
+    # F_i = T/(K*d) at K = 0.2 (Shigley, 10th ed., eq. 8-27, from memory)
+    assert assembly["bolt_force"] == pytest.approx(T / (0.2 * D), rel=1e-9)

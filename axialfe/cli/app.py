@@ -168,7 +168,7 @@ def load(path, force=None, length=None, displacement=None, stress=None, temperat
     if model.tolerances:
         from ..io.modelfile import tolerance_note
 
-        typer.echo(tolerance_note(model), err=True)
+        typer.echo(tolerance_note(model.tolerances), err=True)
     return model, output_units(model, force, length, displacement, stress, temperature)
 
 

@@ -41,7 +41,7 @@ def joint(path: JointPath,
     reported and the exit code is 0.
     """
     from ..errors import ModelError
-    from ..joints import read_joint, solve_joint, sweep_joint
+    from ..joints import solve_joint, sweep_joint
     from ..output.jointtext import joint_json, joint_table, sweep_json, sweep_table
     from ..tracking.sweep import parse_range
 
@@ -50,7 +50,13 @@ def joint(path: JointPath,
             from ..output.plot import _suffix
 
             _suffix(plot)  # a wrong suffix is refused before any work
-        j = read_joint(path)
+        from ..joints.reader import read_joint_toleranced
+
+        j, found, _ = read_joint_toleranced(path)
+        if found:
+            from ..io.modelfile import tolerance_note
+
+            typer.echo(tolerance_note(found, "joint"), err=True)
         units = output_units(j, force_unit, length_unit, None, stress_unit)
         if sweep is None:
             for flag, value in (("--state", state), ("--part", part)):

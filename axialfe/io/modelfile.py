@@ -1013,13 +1013,13 @@ def read_toleranced(path):
     return parse_model(text, source), lambda values: parse_model(text, source, overrides=values)
 
 
-def tolerance_note(model) -> str | None:
-    """The one stderr line of a command run on a model with toleranced inputs, or None."""
-    found = model.tolerances
+def tolerance_note(found, what: str = "model") -> str | None:
+    """The one stderr line of a command run on a file with toleranced inputs (``found``,
+    the model's ``tolerances``), or None.  ``what`` names the file: model or joint."""
     if not found:
         return None
     one_sided = sum(t.tolerance.one_sided for t in found)
-    text = (f"note: the model has {len(found)} toleranced input{'s' if len(found) > 1 else ''}; "
+    text = (f"note: the {what} has {len(found)} toleranced input{'s' if len(found) > 1 else ''}; "
             "solved at the stated values")
     if one_sided:
         text += (f" ({one_sided} at the midpoint of limits that lie on one side of the stated "
