@@ -324,3 +324,13 @@ def test_a_bad_choice_is_one_line_with_a_suggestion():
     assert bad.returncode == 2
     assert bad.stderr == ("error: '--format' / '-f': 'jsn' is not one of 'table', 'json', 'csv', "
                           "'markdown'; did you mean 'json'? (see 'axialfe solve --help')\n")
+
+
+def test_fitted_wraps_prose_and_leaves_table_rows_whole():
+    from axialfe.output.text import fitted
+
+    prose = " - " + "word " * 30
+    row = "  name  " + "x" * 40 + "  " + "y" * 40
+    lines = fitted([prose.rstrip(), row], width=40).splitlines()
+    assert all(len(line) <= 40 for line in lines[:-1]) and lines[1].startswith("   word")
+    assert lines[-1] == row

@@ -100,14 +100,15 @@ def _fit_grid(headers, rows, indent="  "):
 def fitted(lines, width: int | None = None) -> str:
     """``lines`` as one text, each line longer than ``width`` (the terminal's by default)
     wrapped at its spaces under its own indent (and under the text of a ``- `` or ``1. ``
-    item).  Tables split by :func:`_grid` already fit; this wraps the prose around them."""
+    item).  Tables split by :func:`_grid` already fit, and a row of one that cannot (its
+    columns are set apart by two spaces) is left whole: this wraps the prose around them."""
     width = terminal_width() if width is None else width
     out = []
     for line in lines:
-        if len(line) <= width:
+        body = line.lstrip(" ")
+        if len(line) <= width or "  " in body:
             out.append(line)
             continue
-        body = line.lstrip(" ")
         lead = line[:len(line) - len(body)]
         item = re.match(r"(- |\d+\. )", body)
         rest = lead + " " * (len(item.group(1)) if item else 2)
