@@ -77,6 +77,7 @@ def tolerance(model: ModelPath,
             raise ModelError(f"--samples must lie from 0 to 10,000,000: got {samples}")
         if seed < 0:
             raise ModelError(f"--seed must not be negative: got {seed}")
+        from ..fits.reader import is_fit_file
         from ..joints import is_joint_file
 
         if is_joint_file(model):  # a bolted joint: its states' bolt and clamp forces
@@ -85,6 +86,12 @@ def tolerance(model: ModelPath,
 
             joint, found, _ = read_joint_toleranced(model)
             study = run_joint_study(joint, found, samples=samples, seed=seed, outputs=output)
+        elif is_fit_file(model):  # a press fit: pressure and holding force over its limits
+            from ..fits.reader import read_fit
+            from ..tolerance.fitstudy import run_fit_study
+
+            study = run_fit_study(read_fit(model), samples=samples, seed=seed, outputs=output,
+                                  source=str(model))
         else:
             nominal, build = read_toleranced(model)
             study = run_study(nominal, build, samples=samples, seed=seed, outputs=output,
