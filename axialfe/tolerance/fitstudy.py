@@ -24,7 +24,7 @@ from ..errors import ModelError, suggest
 from ..fits.fit import solve_fit
 from ..units import OutputUnits
 from .inputs import Tolerance
-from .study import PERCENTILES, Study, _draw, _event, _pct
+from .study import Study, _draw, _event, vertex_row
 
 __all__ = ["run_fit_study", "MAX_FIT_SAMPLES", "FIT_OUTPUTS"]
 
@@ -94,19 +94,8 @@ def run_fit_study(fit, samples=10_000, seed=1, outputs=None, source=None) -> Stu
     rows = []
     for name in chosen:
         state, out = name.rsplit(":", 1)
-        v = at_vertex[(state, out)]
-        i, j = int(np.argmin(v)), int(np.argmax(v))
-        row = {"name": name, "case": state, "kind": _KINDS[out],
-               "nominal": float(getattr(nominal.state(state), out)[0]),
-               "worst_case": [float(v[i]), float(v[j])],
-               "worst_case_inputs": [dict(zip(paths, vertices[i].tolist())),
-                                     dict(zip(paths, vertices[j].tolist()))]}
-        if samples:
-            d = draws[(state, out)]
-            row.update(mean=float(d.mean()), std=float(d.std(ddof=1)) if samples > 1 else 0.0,
-                       percentiles={_pct(p): float(q) for p, q
-                                    in zip(PERCENTILES, np.percentile(d, PERCENTILES))})
-        rows.append(row)
+        rows.append(vertex_row(name, state, _KINDS[out], getattr(nominal.state(state), out)[0], at_vertex[(state, out)],
+                               vertices, paths, draws[(state, out)] if samples else None))
     events = []
     if samples:
         for state in states:

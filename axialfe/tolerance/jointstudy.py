@@ -18,7 +18,7 @@ import numpy as np
 
 from ..errors import ModelError
 from ..joints.joint import solve_joint
-from .study import MAX_VERTEX_INPUTS, PERCENTILES, Study, _draw, _event, _pct
+from .study import MAX_VERTEX_INPUTS, Study, _draw, _event, vertex_row
 
 __all__ = ["run_joint_study", "JOINT_OUTPUTS"]
 
@@ -109,20 +109,8 @@ def run_joint_study(joint, found, samples=10_000, seed=1, outputs=None) -> Study
     rows = []
     for name in chosen:
         state, out = name.rsplit(":", 1)
-        key = (state, out)
-        v = at_vertex[key]
-        i, j = int(np.argmin(v)), int(np.argmax(v))
-        row = {"name": name, "case": state, "kind": "force",
-               "nominal": float(getattr(nominal.state(state), out)),
-               "worst_case": [float(v[i]), float(v[j])],
-               "worst_case_inputs": [dict(zip(paths, vertices[i].tolist())),
-                                     dict(zip(paths, vertices[j].tolist()))]}
-        if samples:
-            d = draws[key]
-            row.update(mean=float(d.mean()), std=float(d.std(ddof=1)) if samples > 1 else 0.0,
-                       percentiles={_pct(p): float(q) for p, q
-                                    in zip(PERCENTILES, np.percentile(d, PERCENTILES))})
-        rows.append(row)
+        rows.append(vertex_row(name, state, "force", getattr(nominal.state(state), out), at_vertex[(state, out)],
+                               vertices, paths, draws[(state, out)] if samples else None))
     events = []
     if samples:
         for state in states:

@@ -277,10 +277,7 @@ def run_study(model, build, samples=10_000, seed=1, outputs=None, progress=None,
                 row["worst_case_inputs"] = [dict(zip(paths, lo_x.tolist())),
                                             dict(zip(paths, hi_x.tolist()))]
             if samples:
-                v = draws[(s, name)]
-                row.update(mean=float(v.mean()), std=float(v.std(ddof=1)) if samples > 1 else 0.0,
-                           percentiles={_pct(p): float(q) for p, q
-                                        in zip(PERCENTILES, np.percentile(v, PERCENTILES))})
+                row.update(statistics(draws[(s, name)]))
             rows.append(row)
     events = _events(model, chosen, states, draws, nominal_out, samples) if samples else []
     shared = {}
@@ -318,6 +315,25 @@ def run_study(model, build, samples=10_000, seed=1, outputs=None, progress=None,
                  events=tuple(events), notes=tuple(notes),
                  draws={(states[s], n): v for (s, n), v in draws.items() if n != "closed"},
                  units=model.units)
+
+
+def statistics(v) -> dict:
+    """The mean, standard deviation and percentiles of one output's Monte Carlo values."""
+    return {"mean": float(v.mean()), "std": float(v.std(ddof=1)) if len(v) > 1 else 0.0,
+            "percentiles": {_pct(p): float(q) for p, q
+                            in zip(PERCENTILES, np.percentile(v, PERCENTILES))}}
+
+
+def vertex_row(name, case, kind, nominal, at_vertex, vertices, paths, draws=None) -> dict:
+    """One output's row from its values at the vertices of the box (and its draws, if any)."""
+    i, j = int(np.argmin(at_vertex)), int(np.argmax(at_vertex))
+    row = {"name": name, "case": case, "kind": kind, "nominal": float(nominal),
+           "worst_case": [float(at_vertex[i]), float(at_vertex[j])],
+           "worst_case_inputs": [dict(zip(paths, vertices[i].tolist())),
+                                 dict(zip(paths, vertices[j].tolist()))]}
+    if draws is not None:
+        row.update(statistics(draws))
+    return row
 
 
 def _pct(p):
