@@ -46,7 +46,7 @@ def test_worst_case_interference_is_the_iso_286_limits(study):
 
 def test_samples_lie_inside_the_worst_case_and_centre_on_the_mid_interference(study):
     for r in study.outputs:
-        d = study.draws[(r["case"], r["name"].rsplit(":", 1)[1])]
+        d = study.draws[(r["case"], r["name"])]
         lo, hi = r["worst_case"]
         # normal draws cut at +-6 sigma may pass the +-3 sigma box, by at most 2x its half-width
         assert d.min() >= lo - (hi - lo) and d.max() <= hi + (hi - lo)
@@ -70,7 +70,7 @@ def test_a_fit_that_can_lose_its_interference_loosens_and_slips_in_proportion():
     assert 0 < loose["count"] < 1000
     assert ev[("cold-start", "slips")]["count"] >= loose["count"]
     assert ev[("assembly", "slips")]["count"] == 0
-    p = study.draws[("cold-start", "pressure")]
+    p = study.draws[("cold-start", "cold-start:pressure")]
     assert np.count_nonzero(p == 0.0) == loose["count"]
 
 
@@ -94,3 +94,8 @@ def test_a_fit_without_limits_is_one_located_error(tmp_path):
     lines = [s for s in res.stderr.splitlines() if s.startswith("error:")]
     assert len(lines) == 1 and "no toleranced input" in lines[0], res.stderr
     assert lines[0].startswith(f"error: {path}")
+
+
+def test_every_output_has_its_draws_under_its_case_and_name(study):
+    # the plot and the report read the draws by (case, output name)
+    assert all((r["case"], r["name"]) in study.draws for r in study.outputs)

@@ -38,22 +38,22 @@ def test_preload_is_torque_over_nut_factor_times_diameter_for_every_sample(study
     # F_i = T/(K*d) (Shigley, Mechanical Engineering Design, 10th ed., eq. 8-27, from
     # memory): the assembled bolt force of each sample gives back a nut factor inside the
     # limits, and those nut factors are uniform on [0.17, 0.23]
-    preload = study.draws[("assembly", "bolt_force")]
+    preload = study.draws[("assembly", "assembly:bolt_force")]
     k = T / (D * preload)
     assert k.min() >= K_LO - 1e-12 and k.max() <= K_HI + 1e-12
     assert stats.kstest(k, stats.uniform(K_LO, K_HI - K_LO).cdf).pvalue > 1e-3
     # the closed joint carries the preload as its clamp force when assembled
-    assert np.allclose(study.draws[("assembly", "clamp_force")], preload, rtol=1e-9)
+    assert np.allclose(study.draws[("assembly", "assembly:clamp_force")], preload, rtol=1e-9)
 
 
 def test_each_sample_agrees_with_the_joint_solver_of_its_own_file(study):
     joint, found, build = read_joint_toleranced(EXAMPLE)
-    preload = study.draws[("assembly", "bolt_force")]
+    preload = study.draws[("assembly", "assembly:bolt_force")]
     for i in (0, 7, 1234, 19_999):
         k = T / (D * preload[i])
         result = solve_joint(build({"assembly.nut_factor": float(k)}))
         for out in ("bolt_force", "clamp_force"):
-            got = study.draws[("running", out)][i]
+            got = study.draws[("running", f"running:{out}")][i]
             assert got == pytest.approx(getattr(result.state("running"), out), rel=1e-9)
 
 
@@ -71,7 +71,7 @@ def test_clamp_below_minimum_matches_the_closed_form_for_a_uniform_nut_factor(st
     lo, hi = event["confidence_interval"]
     assert lo <= expected <= hi
     assert event["count"] == int(np.count_nonzero(
-        study.draws[("running", "clamp_force")] < C_MIN))
+        study.draws[("running", "running:clamp_force")] < C_MIN))
 
 
 def test_worst_case_is_at_the_limits_of_the_nut_factor(study):
@@ -93,8 +93,8 @@ def test_a_separating_joint_is_solved_sample_by_sample(tmp_path):
     # 50 kN is above every sample's separation load F_i/(1 - C): each separates, and the
     # bolt then carries the external load alone
     assert sep["count"] == 300
-    assert np.allclose(study.draws[("running", "bolt_force")], 50e3, rtol=1e-9)
-    assert np.all(study.draws[("running", "clamp_force")] == 0.0)
+    assert np.allclose(study.draws[("running", "running:bolt_force")], 50e3, rtol=1e-9)
+    assert np.all(study.draws[("running", "running:clamp_force")] == 0.0)
 
 
 def test_cli_json_has_the_study_shape():
@@ -138,7 +138,7 @@ def test_a_joint_separating_for_some_samples_counts_exactly_those(tmp_path):
     path.write_text(text)
     joint, found, _ = read_joint_toleranced(path)
     study = run_joint_study(joint, found, samples=300, seed=1)
-    preload = study.draws[("assembly", "bolt_force")]
+    preload = study.draws[("assembly", "assembly:bolt_force")]
     # separation load F_i/(1 - C) (Shigley, 10th ed., eq. 8-28 rearranged, from memory)
     expected = int(np.count_nonzero(preload / (1 - joint.joint_constant) < 40e3))
     sep = next(e for e in study.events if e["event"] == "separates" and e["case"] == "running")
@@ -154,3 +154,8 @@ def test_the_joint_command_solves_at_the_stated_nut_factor_and_says_so():
     assembly = next(s for s in states if s["name"] == "assembly")
     # F_i = T/(K*d) at K = 0.2 (Shigley, 10th ed., eq. 8-27, from memory)
     assert assembly["bolt_force"] == pytest.approx(T / (0.2 * D), rel=1e-9)
+
+
+def test_every_output_has_its_draws_under_its_case_and_name(study):
+    # the plot and the report read the draws by (case, output name)
+    assert all((r["case"], r["name"]) in study.draws for r in study.outputs)

@@ -116,5 +116,6 @@ def run_fit_study(fit, samples=10_000, seed=1, outputs=None, source=None) -> Stu
     u = fit.units
     return Study(title=fit.title, samples=samples, seed=seed, worst_case_method="vertices",
                  inputs=inputs, outputs=tuple(rows), events=tuple(events), notes=tuple(notes),
-                 draws={k: v for k, v in draws.items() if f"{k[0]}:{k[1]}" in chosen},
+                 draws={(k[0], f"{k[0]}:{k[1]}"): v for k, v in draws.items()
+                        if f"{k[0]}:{k[1]}" in chosen},
                  units=OutputUnits(u.force, u.length, u.length, u.stress))

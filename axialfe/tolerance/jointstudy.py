@@ -138,5 +138,6 @@ def run_joint_study(joint, found, samples=10_000, seed=1, outputs=None) -> Study
                     "unit": t.unit} for p, t in zip(paths, tols))
     return Study(title=joint.title, samples=samples, seed=seed, worst_case_method="vertices",
                  inputs=inputs, outputs=tuple(rows), events=tuple(events), notes=tuple(notes),
-                 draws={k: v for k, v in draws.items() if f"{k[0]}:{k[1]}" in chosen},
+                 draws={(k[0], f"{k[0]}:{k[1]}"): v for k, v in draws.items()
+                        if f"{k[0]}:{k[1]}" in chosen},
                  units=joint.units)
