@@ -159,3 +159,16 @@ def test_the_joint_command_solves_at_the_stated_nut_factor_and_says_so():
 def test_every_output_has_its_draws_under_its_case_and_name(study):
     # the plot and the report read the draws by (case, output name)
     assert all((r["case"], r["name"]) in study.draws for r in study.outputs)
+
+
+def test_report_refuses_a_tolerance_section_it_cannot_make(tmp_path):
+    # the joint report has no tolerance section: asking for one must not pass in silence
+    import subprocess
+    import sys
+
+    out = tmp_path / "r.html"
+    bad = subprocess.run([sys.executable, "-m", "axialfe", "report", str(EXAMPLE), "-o", str(out),
+                          "--tolerance"], capture_output=True, text=True)
+    assert bad.returncode == 2 and not out.exists()
+    assert bad.stderr == ("error: --tolerance: a report's tolerance section is made for model files "
+                          "only: run 'axialfe tolerance' on a joint or fit file\n")

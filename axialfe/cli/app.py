@@ -662,6 +662,11 @@ def report(model: ModelPath,
         fmt = report_format(output, format.value if format else None)
         from ..joints import is_joint_file
 
+        if tolerance and (is_joint_file(model) or is_fit_file(model)):
+            from ..errors import ModelError
+
+            raise ModelError("a report's tolerance section is made for model files only: run "
+                             "'axialfe tolerance' on a joint or fit file", place="--tolerance")
         if is_joint_file(model):  # a bolted joint: its own report (axialfe.output.jointreport)
             from ..joints import read_joint, solve_joint
             from ..output.jointreport import write_joint_report
