@@ -244,6 +244,16 @@ class _Reader:
         return si
 
     # --- toleranced values ------------------------------------------------
+    def parse_toleranced(self, value, kind, table, index, key, place):
+        """``value`` read as a tolerance of ``kind`` (None: a plain number), with its line;
+        a malformed one is an error located at its key."""
+        line = self.line(table, index, key)
+        try:
+            return parse_tolerance(value, kind), line
+        except ModelError as exc:
+            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source, line=line,
+                            hint=exc.hint, options=exc.options) from exc
+
     def toleranced(self, value, kind, table, index, key, place, item):
         """A toleranced value: recorded by its path, its nominal (or the study's value) returned."""
         top = (table or "").split(".")[0]
@@ -251,12 +261,7 @@ class _Reader:
             self.fail(f"{key}: a tolerance is not allowed here (positions, clearances, misfits, "
                       "preloads, temperatures, loads, moduli, expansion, section sizes and "
                       "supports take one)", table, index, key, place=place)
-        line = self.line(table, index, key)
-        try:
-            tol = parse_tolerance(value, kind)
-        except ModelError as exc:
-            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source, line=line,
-                            hint=exc.hint, options=exc.options) from exc
+        tol, line = self.parse_toleranced(value, kind, table, index, key, place)
         self.in_range(tol.nominal, table, index, key, place, tol.nominal)
         path = self._tolerance_path(table, index, key, place, item)
         # what a study must refuse before it samples: a draw outside the key's range

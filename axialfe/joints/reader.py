@@ -16,7 +16,7 @@ from ..errors import ModelError, UnitError, suggest
 from ..formatting import number
 from ..io.modelfile import _Reader, builtin_materials
 from ..io.source import decode, read_text
-from ..tolerance.inputs import Toleranced, is_toleranced, parse_tolerance
+from ..tolerance.inputs import Toleranced, is_toleranced
 from ..units import OutputUnits, split_quantity, unit_base
 from .grades import bolting_steel, iso_class, sae_grade
 from .joint import ASSEMBLY, BOLT, Joint, Part, Service
@@ -73,12 +73,7 @@ class _JointReader(_Reader):
         if (table, key) not in _TOLERABLE_NUMBERS:
             self.fail(f"{key}: a tolerance is not allowed here (a joint file takes one on "
                       "assembly.nut_factor)", table, index, key, place=place)
-        line = self.line(table, index, key)
-        try:
-            tol = parse_tolerance(value, None)
-        except ModelError as exc:
-            raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source, line=line,
-                            hint=exc.hint, options=exc.options) from exc
+        tol, line = self.parse_toleranced(value, None, table, index, key, place)
         path = f"{table}.{key}"
         problem = (f"{key} could fall to zero or below within the tolerance"
                    if tol.spread[0] <= 0 else None)

@@ -24,7 +24,7 @@ from ..errors import ModelError, suggest
 from ..fits.fit import solve_fit
 from ..units import OutputUnits
 from .inputs import Tolerance
-from .study import Study, _draw, _event, vertex_row
+from .study import Study, _draw, _event, input_rows, vertex_row
 
 __all__ = ["run_fit_study", "MAX_FIT_SAMPLES", "FIT_OUTPUTS"]
 
@@ -110,9 +110,7 @@ def run_fit_study(fit, samples=10_000, seed=1, outputs=None, source=None) -> Stu
              "practice), draws cut at +-6 sigma (a mass of 2e-9)",
              "slips: the holding force is below the state's axial load or the torque "
              "capacity below its torque, with no safety factor"]
-    inputs = tuple({"name": p, "nominal": t.nominal, "limits": [t.lower, t.upper],
-                    "distribution": t.distribution, "sigma": t.sigma, "kind": t.kind,
-                    "unit": t.unit} for p, t in zip(paths, tols))
+    inputs = input_rows(paths, tols)
     u = fit.units
     return Study(title=fit.title, samples=samples, seed=seed, worst_case_method="vertices",
                  inputs=inputs, outputs=tuple(rows), events=tuple(events), notes=tuple(notes),

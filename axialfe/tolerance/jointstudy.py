@@ -18,7 +18,8 @@ import numpy as np
 
 from ..errors import ModelError
 from ..joints.joint import solve_joint
-from .study import MAX_VERTEX_INPUTS, Study, _draw, _event, vertex_row
+from .study import (MAX_VERTEX_INPUTS, Study, _draw, _event, input_notes, input_rows,
+                    vertex_row)
 
 __all__ = ["run_joint_study", "JOINT_OUTPUTS"]
 
@@ -126,16 +127,8 @@ def run_joint_study(joint, found, samples=10_000, seed=1, outputs=None) -> Study
                                     "solved one by one" if alone else ""),
              "worst case by vertices: exact, as the bolt and clamp forces are monotone in "
              "the nut factor"]
-    if any(t.distribution == "normal" for t in tols):
-        notes.append("normal inputs: limits at +-3 sigma about their midpoint (common "
-                     "practice; a 'std' gives sigma itself), draws cut at +-6 sigma (a mass "
-                     "of 2e-9)")
-    if any(t.one_sided for t in tols):
-        notes.append("inputs whose deviations both have one sign are used at the midpoint of "
-                     "their limits as the nominal")
-    inputs = tuple({"name": p, "nominal": t.nominal, "limits": [t.lower, t.upper],
-                    "distribution": t.distribution, "sigma": t.sigma, "kind": t.kind,
-                    "unit": t.unit} for p, t in zip(paths, tols))
+    notes += input_notes(tols)
+    inputs = input_rows(paths, tols)
     return Study(title=joint.title, samples=samples, seed=seed, worst_case_method="vertices",
                  inputs=inputs, outputs=tuple(rows), events=tuple(events), notes=tuple(notes),
                  draws={(k[0], f"{k[0]}:{k[1]}"): v for k, v in draws.items()

@@ -290,13 +290,7 @@ def run_study(model, build, samples=10_000, seed=1, outputs=None, progress=None,
     for path, users in shared.items():
         notes.append(f"{path} is drawn once per material: segments {', '.join(users)} share "
                      "each draw")
-    if any(t.distribution == "normal" for t in tols):
-        notes.append("normal inputs: limits at +-3 sigma about their midpoint (common "
-                     "practice; a 'std' gives sigma itself), draws cut at +-6 sigma (a mass "
-                     "of 2e-9)")
-    if any(t.one_sided for t in tols):
-        notes.append("inputs whose deviations both have one sign are used at the midpoint of "
-                     "their limits as the nominal")
+    notes += input_notes(tols)
     if method and method != "vertices":
         notes.append(f"worst case by {method}: the extremes found are local ones; they are "
                      "exact for outputs monotone in each input")
@@ -307,14 +301,32 @@ def run_study(model, build, samples=10_000, seed=1, outputs=None, progress=None,
     elif batch.fallbacks:
         notes.append(f"{batch.fallbacks} samples were solved on their own (the batch could not "
                      "certify them)")
-    inputs = tuple({"name": p, "nominal": t.nominal, "limits": [t.lower, t.upper],
-                    "distribution": t.distribution, "sigma": t.sigma, "kind": t.kind,
-                    "unit": t.unit} for p, t in zip(paths, tols))
+    inputs = input_rows(paths, tols)
     return Study(title=model.title, samples=samples, seed=seed,
                  worst_case_method=method or "none", inputs=inputs, outputs=tuple(rows),
                  events=tuple(events), notes=tuple(notes),
                  draws={(states[s], n): v for (s, n), v in draws.items() if n != "closed"},
                  units=model.units)
+
+
+def input_rows(paths, tols) -> tuple[dict, ...]:
+    """The ``inputs`` of a study: each toleranced input by its path, as JSON shows it."""
+    return tuple({"name": p, "nominal": t.nominal, "limits": [t.lower, t.upper],
+                  "distribution": t.distribution, "sigma": t.sigma, "kind": t.kind,
+                  "unit": t.unit} for p, t in zip(paths, tols))
+
+
+def input_notes(tols) -> list[str]:
+    """What a study's reader must know of its inputs' distributions."""
+    notes = []
+    if any(t.distribution == "normal" for t in tols):
+        notes.append("normal inputs: limits at +-3 sigma about their midpoint (common "
+                     "practice; a 'std' gives sigma itself), draws cut at +-6 sigma (a mass "
+                     "of 2e-9)")
+    if any(t.one_sided for t in tols):
+        notes.append("inputs whose deviations both have one sign are used at the midpoint of "
+                     "their limits as the nominal")
+    return notes
 
 
 def statistics(v) -> dict:
