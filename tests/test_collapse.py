@@ -153,3 +153,46 @@ def test_collapse_command_json_and_table(tmp_path, cli):
     bad = cli("collapse", path, "--case", "wind")
     assert bad.exit_code == 2
     assert bad.stderr.strip() == "error: --case: unknown case 'wind'; expected one of: 'base'"
+
+
+# --- yield strengths from tables against temperature ------------------------------------------
+def _hot_bar(temperatures, fy_table=None, fy=None):
+    """The fixed bar of the tests above, its parts at their own temperatures in one case.
+
+    ``fy_table`` (temperatures, values): one material with a yield table; ``fy``: one
+    constant material per part.
+    """
+    from axialfe.model import Case, Material, PropertyTable
+
+    if fy_table is not None:
+        mats = [Material("hot", 200e9, 12e-6, fy_table[1][0], behaviour="elastic-plastic",
+                         yield_table=PropertyTable(*fy_table))] * 2
+    else:
+        mats = [Material(f"hot{i}", 200e9, 12e-6, f, behaviour="elastic-plastic")
+                for i, f in enumerate(fy)]
+    return Model([Station("A", 0.0), Station("C", 0.4), Station("B", 1.0)],
+                 [Segment("AC", "A", "C", mats[0], area("s1", 3e-4)),
+                  Segment("CB", "C", "B", mats[1], area("s2", 1e-4))],
+                 [Support("A"), Support("B")],
+                 cases=[Case("hot", loads=(Load("C", 1000.0),),
+                             temperature_change=(("AC", temperatures[0]),
+                                                 ("CB", temperatures[1])))],
+                 reference_temperature=293.15)
+
+
+def test_collapse_over_tables_takes_the_yield_strength_at_each_segments_temperature():
+    # the static theorem: temperature stresses are self-equilibrated and leave the limit
+    # load of perfect plasticity unchanged (Gere & Goodno, sec. 2.12, from memory; common
+    # practice), so the factor over tables is that of the constants f_y(T_i), interpolated
+    # here by hand: f_y = 250 MPa at 20 degC, 170 MPa at 420 degC, linear between
+    table = ((293.15, 693.15), (250e6, 170e6))
+    dT = (150.0, 330.0)
+    fy = tuple(250e6 - 80e6 * d / 400.0 for d in dT)       # 220 MPa and 184 MPa
+    tabled = collapse(_hot_bar(dT, fy_table=table))
+    constant = collapse(_hot_bar(dT, fy=fy))
+    assert_close(tabled.load_factor, constant.load_factor, rel=1e-12)
+    assert_close(tabled.load_factor * 1000.0, fy[0] * 3e-4 + fy[1] * 1e-4)
+    assert tabled.mechanism == ("AC", "CB")
+    assert any("f_y at each segment's temperature" in n and "case 'hot'" in n
+               for n in tabled.notes)
+    assert "the temperature enters only through the yield strengths" in tabled.notes[-1]

@@ -69,13 +69,18 @@ def _case_parts(model: Model, case: Case, num, dtype):
     """What one case sets: point forces, and its temperatures and settlements with masks."""
     n = len(model.stations)
     index = model._station_index  # the model has checked every load's station
-    at = (model.load_stations if case.loads is model.loads else
-          np.fromiter(map(index.__getitem__, map(_AT, case.loads)), dtype=np.int64,
-                      count=len(case.loads)))
-    if num is float:
+    if num is float and case.loads is model.loads:   # the model's own loads, as arrays
+        arr = model.arrays
+        forces = np.bincount(arr.load_at, arr.load_force, minlength=n)
+    elif num is float:
+        at = np.fromiter(map(index.__getitem__, map(_AT, case.loads)), dtype=np.int64,
+                         count=len(case.loads))
         forces = np.bincount(at, np.fromiter(map(_FORCE, case.loads), dtype=float,
                                              count=len(at)), minlength=n)
     else:
+        at = (model.load_stations if case.loads is model.loads else
+              np.fromiter(map(index.__getitem__, map(_AT, case.loads)), dtype=np.int64,
+                          count=len(case.loads)))
         forces = np.zeros(n, dtype=dtype)
         for i, load in zip(at, case.loads):
             forces[i] += num(load.force)

@@ -16,6 +16,11 @@ from a tolerance on the forces.  Temperature, misfit and settlement put only
 self-equilibrated forces on the model and do not change the collapse factor.
 Self-weight is held; point and distributed loads are scaled.
 
+With properties against temperature the strengths are those at each segment's
+temperature in the case (:func:`axialfe.model.temperature.at_temperature`): the
+thermal strains still put only self-equilibrated forces on the model, and the
+temperature enters the collapse factor only through f_y(T).
+
 Springs and segments without a yield strength are of unlimited strength here.
 Models with gaps are refused: their clearances decide which path carries the
 load, which :mod:`axialfe.tracking.plastic` follows.
@@ -170,11 +175,8 @@ def collapse(model: Model, case: str | None = None, check_buckling: bool = True)
     1.0
     """
     from ..engine.assembly import assemble
+    from ..model.temperature import at_temperature, basis_note, has_tables
 
-    from ..model.temperature import refuse_tables
-
-    refuse_tables(model, "limit analysis", "give the yield strengths at the temperature of "
-                  "interest as constants")
     if model.gaps:
         raise ModelError("limit analysis cannot follow gaps (the clearances decide which parts "
                          "carry the load): track the loading with 'axialfe path' instead",
@@ -185,9 +187,15 @@ def collapse(model: Model, case: str | None = None, check_buckling: bool = True)
                              "supported: split the segment into shorter prismatic ones",
                              file=model.source, place=f"segments ('{seg.name}')")
     state = pick_state(model, case)
+    notes = []
+    tabled = has_tables(model)
+    if tabled:
+        # the strengths (and the moduli of the buckling check) at each segment's temperature
+        # in the case; the thermal strains themselves do not enter the programme
+        notes.append(basis_note(model) + f", in case '{state.name}'")
+        model = at_temperature(model, state)
     asm = assemble(model)
     t_cap, c_cap = strengths(model)
-    notes = []
     free = [s.name for s, t in zip(model.segments, t_cap) if not np.isfinite(t)]
     if free:
         notes.append("no yield strength, taken as unlimited: "
@@ -249,6 +257,8 @@ def collapse(model: Model, case: str | None = None, check_buckling: bool = True)
                          "at its buckling capacity (a buckled strut sheds load, so even that "
                          "factor is not a safe collapse load)")
     notes.append("temperature, misfit and settlement do not change the collapse factor "
-                 "(they stress the model in self-equilibrium)")
+                 "(they stress the model in self-equilibrium)"
+                 + ("; the temperature enters only through the yield strengths at it"
+                    if tabled else ""))
     return CollapseResult(state.name, factor, mechanism, sides, forces, capped, tuple(notes),
                           model)
