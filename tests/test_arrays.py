@@ -4,8 +4,13 @@ import pickle
 
 import numpy as np
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from axialfe import Gap, Load, Material, Model, ModelError, Section, Segment, Station, Support, solve
+from axialfe.io.modelfile import read_model
+from axialfe.model.arrays import ModelArrays
+from axialfe.model.parts import PointLoads
 from conftest import assert_close
 
 
@@ -100,3 +105,144 @@ def test_a_model_from_arrays_is_solved_without_an_object_per_segment(monkeypatch
     thermal = 200e9 * 1e-4 * 12e-6 * 30.0
     assert case.reactions[0] == pytest.approx(thermal - 500.0, rel=1e-9)
     assert case.reactions[1] == pytest.approx(-thermal - 500.0, rel=1e-9)
+
+
+# --- one array form from three routes ------------------------------------------------
+# Random models (invented data) with parallel segments, tapers, densities, misfits,
+# distributed loads, point loads, springs and stops, built by Model.from_arrays, by the
+# object API and by the file reader: all three must give the same ModelArrays, bit for
+# bit, and the same supports, loads and gaps.
+
+_pos = st.floats(0.05, 2.0).map(lambda v: round(v, 6))
+
+
+@st.composite
+def _random_models(draw):
+    n = draw(st.integers(3, 7))
+    x = np.cumsum([0.0] + [draw(_pos) for _ in range(n - 1)])
+    pairs = [(i, i + 1) for i in range(n - 1)]
+    for _ in range(draw(st.integers(0, 2))):   # parallel parts over a span of stations
+        a = draw(st.integers(0, n - 3))
+        pairs.append((a, draw(st.integers(a + 2, n - 1))))
+    m = len(pairs)
+    real = lambda lo, hi: st.integers(0, 10_000).map(  # noqa: E731
+        lambda k: float(f"{lo + (hi - lo) * k / 1e4:.6g}"))
+    seg = lambda s: np.array([draw(s) for _ in range(m)])  # noqa: E731
+    A = seg(real(1e-5, 1e-3))
+    taper = seg(st.booleans())
+    spec = dict(
+        x=x, start=np.array([p[0] for p in pairs]), end=np.array([p[1] for p in pairs]),
+        E=seg(real(50e9, 250e9)), A=A, A2=np.where(taper, seg(real(1e-5, 1e-3)), A),
+        alpha=seg(real(1e-6, 25e-6)), dT=seg(real(-50.0, 80.0)),
+        misfit=seg(real(-1e-4, 1e-4)), q=seg(st.sampled_from([0.0, 150.0, -2500.0])),
+        g=draw(st.sampled_from([0.0, -9.81])))
+    # self-weight needs a density on every segment (the reader says so); without it, some
+    # materials have none
+    spec["rho"] = seg(st.sampled_from([2700.0, 7850.0] if spec["g"] else [0.0, 2700.0, 7850.0]))
+    spec["load_at"] = np.array(draw(st.lists(st.integers(1, n - 1), max_size=3)), dtype=int)
+    spec["load_force"] = np.array([draw(real(-5e4, 5e4)) for _ in spec["load_at"]])
+    spec["spring_at"] = np.array(draw(st.lists(st.integers(1, n - 1), max_size=2,
+                                               unique=True)), dtype=int)
+    spec["spring_k"] = np.array([draw(real(1e6, 1e9)) for _ in spec["spring_at"]])
+    spec["gap_at"] = np.array([n - 1] if draw(st.booleans()) else [], dtype=int)
+    spec["gap_side"] = ["+x"] * len(spec["gap_at"])
+    spec["gap_c"] = np.array([draw(real(0.0, 1e-3)) for _ in spec["gap_at"]])
+    return spec
+
+
+def _by_arrays(s):
+    return Model.from_arrays(
+        s["x"], s["start"], s["end"], s["E"], s["A"], s["alpha"], s["dT"], fixed=[0],
+        load_at=s["load_at"], load_force=s["load_force"], density=s["rho"], gravity=s["g"],
+        spring_at=s["spring_at"], spring_stiffness=s["spring_k"], gap_at=s["gap_at"],
+        gap_side=s["gap_side"], gap_clearance=s["gap_c"], end_area=s["A2"], misfit=s["misfit"],
+        distributed_load=s["q"])
+
+
+def _by_objects(s):
+    stations = [Station(f"s{i}", float(v)) for i, v in enumerate(s["x"])]
+    segments = []
+    for j, (a, b) in enumerate(zip(s["start"], s["end"])):
+        rho = float(s["rho"][j]) or None
+        end = (None if s["A2"][j] == s["A"][j] else
+               Section(f"e{j}-end", "area", (("area", float(s["A2"][j])),)))
+        segments.append(Segment(
+            f"e{j}", f"s{a}", f"s{b}",
+            Material(f"e{j}", float(s["E"][j]), float(s["alpha"][j]), density=rho),
+            Section(f"e{j}", "area", (("area", float(s["A"][j])),)), end,
+            temperature_change=float(s["dT"][j]), misfit=float(s["misfit"][j]),
+            distributed_load=float(s["q"][j])))
+    supports = ([Support("s0")] + [Support(f"s{i}", "spring", float(k))
+                                   for i, k in zip(s["spring_at"], s["spring_k"])])
+    loads = [Load(f"s{i}", float(f)) for i, f in zip(s["load_at"], s["load_force"])]
+    gaps = [Gap(f"g{j}", (f"s{i}",), float(c), side=side)
+            for j, (i, side, c) in enumerate(zip(s["gap_at"], s["gap_side"], s["gap_c"]))]
+    return Model(stations, segments, supports, loads, gaps, gravity=s["g"])
+
+
+def _by_file(s, folder):
+    out = ['title = "random"', "", "[settings]", f'gravity = "{float(s["g"])!r} m/s^2"', ""]
+    for j in range(len(s["start"])):
+        out += [f"[materials.e{j}]", f'elastic_modulus = "{float(s["E"][j])!r} Pa"',
+                f'thermal_expansion = "{float(s["alpha"][j])!r} 1/K"']
+        if s["rho"][j]:
+            out.append(f'density = "{float(s["rho"][j])!r} kg/m^3"')
+        out += ["", f"[sections.e{j}]", 'shape = "area"', f'area = "{float(s["A"][j])!r} m^2"',
+                ""]
+        if s["A2"][j] != s["A"][j]:
+            out += [f'[sections."e{j}-end"]', 'shape = "area"',
+                    f'area = "{float(s["A2"][j])!r} m^2"', ""]
+    out += ["[stations]"] + [f's{i} = "{float(v)!r} m"' for i, v in enumerate(s["x"])] + [""]
+    for j, (a, b) in enumerate(zip(s["start"], s["end"])):
+        out += ["[[segments]]", f'name = "e{j}"', f'from = "s{a}"', f'to = "s{b}"',
+                f'material = "e{j}"', f'section = "e{j}"',
+                f'temperature_change = "{float(s["dT"][j])!r} K"',
+                f'misfit = "{float(s["misfit"][j])!r} m"',
+                f'distributed_load = "{float(s["q"][j])!r} N/m"']
+        if s["A2"][j] != s["A"][j]:
+            out.append(f'end_section = "e{j}-end"')
+        out.append("")
+    out += ["[[supports]]", 'at = "s0"', ""]
+    for i, k in zip(s["spring_at"], s["spring_k"]):
+        out += ["[[supports]]", f'at = "s{i}"', 'kind = "spring"',
+                f'stiffness = "{float(k)!r} N/m"', ""]
+    for i, f in zip(s["load_at"], s["load_force"]):
+        out += ["[[loads]]", f'at = "s{i}"', f'force = "{float(f)!r} N"', ""]
+    for j, (i, side, c) in enumerate(zip(s["gap_at"], s["gap_side"], s["gap_c"])):
+        out += ["[[gaps]]", f'name = "g{j}"', f'at = "s{i}"', f'side = "{side}"',
+                f'clearance = "{float(c)!r} m"', ""]
+    path = folder / "random.toml"
+    path.write_text("\n".join(out), encoding="utf-8")
+    return read_model(path)
+
+
+@given(_random_models())
+def test_arrays_objects_and_files_build_the_same_array_form(tmp_path_factory, spec):
+    models = (_by_arrays(spec), _by_objects(spec), _by_file(spec, tmp_path_factory.mktemp("m")))
+    first = models[0].arrays
+    for other in models[1:]:
+        for key in ModelArrays.__dataclass_fields__:
+            np.testing.assert_array_equal(getattr(other.arrays, key), getattr(first, key),
+                                          err_msg=key)
+        assert other.supports == models[0].supports and other.gaps == models[0].gaps
+        assert tuple(other.loads) == tuple(models[0].loads) and models[0].loads == other.loads
+        assert [s.x for s in other.stations] == [s.x for s in models[0].stations]
+    # the segments an array model shows on request are those of the object model
+    assert tuple(models[0].segments) == tuple(models[1].segments)
+    a, b = solve(models[0])["base"], solve(models[1])["base"]
+    np.testing.assert_array_equal(a.axial_force, b.axial_force)
+
+
+def test_an_array_model_keeps_its_point_loads_as_arrays():
+    # no Load object is made to build or solve the model; one is made when asked for
+    n = 1000
+    m = Model.from_arrays(np.linspace(0.0, 1.0, n + 1), np.arange(n), np.arange(1, n + 1),
+                          200e9, 1e-4, fixed=[0], load_at=np.arange(1, n + 1),
+                          load_force=np.full(n, 10.0))
+    assert isinstance(m.loads, PointLoads) and m.all_cases[0].loads is m.loads
+    np.testing.assert_array_equal(m.arrays.load_at, np.arange(1, n + 1))
+    case = solve(m)["base"]
+    # a bar fixed at one end with equal loads at every station: N in segment j is 10*(n - j)
+    np.testing.assert_allclose(case.axial_force[:, 0], 10.0 * (n - np.arange(n)), rtol=1e-9)
+    assert m.loads[-1] == Load(f"s{n}", 10.0) and len(m.loads[2:5]) == 3
+    assert pickle.loads(pickle.dumps(m)).loads == m.loads

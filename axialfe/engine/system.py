@@ -223,6 +223,7 @@ class System:
         F, u_presc, terms = self.state_vectors(state)
         lam, shift, closed = self.contact(F, u_presc, state.name, with_state=True)
         u = self.displacements(F, u_presc, lam, shift)
+        u.setflags(write=False)   # made here for the result alone, which keeps it uncopied
         return self.recover(state, u, F, lam, terms, closed)
 
     def contact(self, F, u_presc, label="", with_state=False):

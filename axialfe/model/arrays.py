@@ -48,6 +48,9 @@ class ModelArrays:
         default filled in (0 without one).
     preload : ndarray, shape (m,)
         Each segment's installed force (N), NaN where it has none.
+    load_at, load_force : ndarray, shape (k,)
+        The model's own point loads (the case ``base`` of a model without
+        cases): station index (int) and force (N, + toward +x) of each, in order.
     """
 
     x: np.ndarray
@@ -65,6 +68,8 @@ class ModelArrays:
     distributed_load: np.ndarray
     temperature_change: np.ndarray
     preload: np.ndarray
+    load_at: np.ndarray
+    load_force: np.ndarray
 
     def __post_init__(self):
         for name in self.__dataclass_fields__:
@@ -133,7 +138,16 @@ def _gather(model) -> ModelArrays:
         c=c, p1=p1, q1=q1, p2=p2, q2=q2, elastic_modulus=E, thermal_expansion=alpha, density=rho,
         misfit=np.asarray(misfit, dtype=float), distributed_load=np.asarray(q, dtype=float),
         temperature_change=np.array([default if v is None else v for v in dT], dtype=float),
-        preload=np.array([np.nan if v is None else v for v in preload], dtype=float))
+        preload=np.array([np.nan if v is None else v for v in preload], dtype=float),
+        load_at=model.load_stations, load_force=_load_forces(model.loads))
+
+
+def _load_forces(loads):
+    from .parts import PointLoads
+
+    if isinstance(loads, PointLoads):
+        return loads.force
+    return np.fromiter(map(operator.attrgetter("force"), loads), dtype=float, count=len(loads))
 
 
 # --- Model.from_arrays ------------------------------------------------------------
@@ -158,7 +172,8 @@ class _Stations(Sequence):
 
 class _Segments(Sequence):
     """The segments of an array model, made on access (``e0, e1, ...``, each with its
-    own material and plain-area section of the same name)."""
+    own material and plain-area section of the same name; a taper's end section is
+    ``e0-end``)."""
 
     constant_properties = True   # materials of plain values: none against temperature
 
@@ -179,31 +194,34 @@ class _Segments(Sequence):
         fy, rho = self._fy[i], a.density[i]
         material = Material(name, float(a.elastic_modulus[i]), float(a.thermal_expansion[i]),
                             None if math.isnan(fy) else float(fy), float(rho) if rho else None)
-        dims = (("area", float(a.p1[i])),)
-        if not math.isnan(self._inertia[i]):
-            dims += (("second_moment", float(self._inertia[i])),)
-        return Segment(name, f"s{a.start[i]}", f"s{a.end[i]}", material, Section(name, "area", dims),
-                       temperature_change=float(a.temperature_change[i]))
-
-
-def _loads(cls, at, force):
-    """:class:`Load` objects at stations ``at`` whose values were checked as arrays (no
-    second check per object)."""
-    new, put = object.__new__, object.__setattr__
-    out = []
-    for i, f in zip(at.tolist(), force.tolist()):
-        load = new(cls)
-        put(load, "at", f"s{i}")
-        put(load, "force", f)
-        out.append(load)
-    return tuple(out)
+        extra = (() if math.isnan(self._inertia[i])
+                 else (("second_moment", float(self._inertia[i])),))
+        section = Section(name, "area", (("area", float(a.p1[i])),) + extra)
+        end_section = (None if a.p2[i] == a.p1[i] else
+                       Section(f"{name}-end", "area", (("area", float(a.p2[i])),) + extra))
+        preload = float(a.preload[i])
+        return Segment(name, f"s{a.start[i]}", f"s{a.end[i]}", material, section, end_section,
+                       temperature_change=float(a.temperature_change[i]),
+                       misfit=float(a.misfit[i]), distributed_load=float(a.distributed_load[i]),
+                       preload=None if math.isnan(preload) else preload)
 
 
 def _fixed(value, shape):
-    """A read-only array of one value (shared by the fields it fills)."""
-    arr = np.full(shape, value)
-    arr.setflags(write=False)
-    return arr
+    """A read-only array of one value: a view of a single number (no memory per segment),
+    shared by the fields it fills."""
+    one = np.array(float(value))
+    one.setflags(write=False)
+    return np.broadcast_to(one, shape)
+
+
+def _value(value, shape, what, allow_nan=False):
+    """A per-segment array, or one shared read-only value where a scalar is given."""
+    if np.ndim(value) == 0:
+        v = float(value)
+        if not (math.isfinite(v) or (allow_nan and math.isnan(v))):
+            raise ModelError(f"{what}[0] must be finite: got {v:g}", place="from_arrays")
+        return _fixed(v, shape)
+    return _array(value, shape, what, allow_nan=allow_nan)
 
 
 def _array(value, shape, what, positive=False, nonnegative=False, allow_nan=False):
@@ -248,9 +266,10 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
                 temperature_change=0.0, fixed=(), load_at=(), load_force=(), *,
                 yield_strength=None, second_moment=None, density=None, gravity=0.0,
                 spring_at=(), spring_stiffness=(), gap_at=(), gap_side=(), gap_clearance=(),
+                end_area=None, misfit=0.0, distributed_load=0.0, preload=None,
                 title="axial model"):
     """Build a :class:`Model` from arrays (see :meth:`Model.from_arrays`)."""
-    from .parts import Gap, Load, Support
+    from .parts import Gap, PointLoads, Support
 
     x = _array(x, np.shape(x), "x")
     if x.ndim != 1 or len(x) < 2:
@@ -268,17 +287,13 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
         raise ModelError(f"segment {i} joins stations at one position ({x[start[i]]:g} m); a "
                          "segment needs a length", place="from_arrays")
     A = _array(area, m, "area", positive=True)
+    A2 = A if end_area is None else _array(end_area, m, "end_area", positive=True)
     start.setflags(write=False)   # fresh arrays of this call: the struct keeps them uncopied
     end.setflags(write=False)
-    ones, zeros = _fixed(1.0, m), _fixed(0.0, m)
-    arrays = ModelArrays(
-        x=x, start=start, end=end, c=ones, p1=A, q1=ones, p2=A, q2=ones,
-        elastic_modulus=_array(elastic_modulus, m, "elastic_modulus", positive=True),
-        thermal_expansion=_array(thermal_expansion, m, "thermal_expansion"),
-        density=_array(0.0 if density is None else density, m, "density", nonnegative=True),
-        misfit=zeros, distributed_load=zeros,
-        temperature_change=_array(temperature_change, m, "temperature_change"),
-        preload=_fixed(np.nan, m))
+    E = _array(elastic_modulus, m, "elastic_modulus", positive=True)
+    alpha = _array(thermal_expansion, m, "thermal_expansion")
+    rho = _array(0.0 if density is None else density, m, "density", nonnegative=True)
+    dT = _array(temperature_change, m, "temperature_change")
     fy = _array(np.nan if yield_strength is None else yield_strength, m, "yield_strength",
                 allow_nan=True)
     inertia = _array(np.nan if second_moment is None else second_moment, m, "second_moment",
@@ -290,6 +305,16 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
     fixed = _indices(fixed, n, "fixed", unique=True)
     load_at = _indices(load_at, n, "load_at")
     load_force = _array(load_force, load_at.shape, "load_force")
+    load_at.setflags(write=False)
+    ones = _fixed(1.0, m)
+    arrays = ModelArrays(
+        x=x, start=start, end=end, c=ones, p1=A, q1=ones, p2=A2, q2=ones,
+        elastic_modulus=E, thermal_expansion=alpha, density=rho,
+        misfit=_value(misfit, m, "misfit"),
+        distributed_load=_value(distributed_load, m, "distributed_load"),
+        temperature_change=dT,
+        preload=_value(np.nan if preload is None else preload, m, "preload", allow_nan=True),
+        load_at=load_at, load_force=load_force)
     spring_at = _indices(spring_at, n, "spring_at")
     spring_k = _array(spring_stiffness, spring_at.shape, "spring_stiffness", positive=True)
     gap_at = _indices(gap_at, n, "gap_at")
@@ -299,7 +324,7 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
                 + tuple(Support(f"s{i}", "spring", float(k)) for i, k in zip(spring_at, spring_k)))
     gaps = tuple(Gap(f"g{j}", (f"s{i}",), float(c), side=side)
                  for j, (i, c, side) in enumerate(zip(gap_at, clearance, sides)))
-    loads = _loads(Load, load_at, load_force)
+    loads = PointLoads(arrays.load_at, arrays.load_force)
     model = object.__new__(cls)
     defaults = {"supports": supports, "loads": loads, "gaps": gaps, "gravity": float(gravity),
                 "title": title, "stations": _Stations(x),
@@ -313,8 +338,7 @@ def from_arrays(cls, x, start, end, elastic_modulus, area, thermal_expansion=0.0
             value = fd.default
         object.__setattr__(model, name, value)
     model.__dict__["arrays"] = arrays
-    load_at.setflags(write=False)
-    model.__dict__["load_stations"] = load_at
+    model.__dict__["load_stations"] = arrays.load_at
     object.__setattr__(model, "_station_index", _NameIndex("s", n))
     object.__setattr__(model, "_segment_index", _NameIndex("e", m[0]))
     return model

@@ -69,13 +69,18 @@ def _case_parts(model: Model, case: Case, num, dtype):
     """What one case sets: point forces, and its temperatures and settlements with masks."""
     n = len(model.stations)
     index = model._station_index  # the model has checked every load's station
-    at = (model.load_stations if case.loads is model.loads else
-          np.fromiter(map(index.__getitem__, map(_AT, case.loads)), dtype=np.int64,
-                      count=len(case.loads)))
-    if num is float:
+    if num is float and case.loads is model.loads:   # the model's own loads, as arrays
+        arr = model.arrays
+        forces = np.bincount(arr.load_at, arr.load_force, minlength=n)
+    elif num is float:
+        at = np.fromiter(map(index.__getitem__, map(_AT, case.loads)), dtype=np.int64,
+                         count=len(case.loads))
         forces = np.bincount(at, np.fromiter(map(_FORCE, case.loads), dtype=float,
                                              count=len(at)), minlength=n)
     else:
+        at = (model.load_stations if case.loads is model.loads else
+              np.fromiter(map(index.__getitem__, map(_AT, case.loads)), dtype=np.int64,
+                          count=len(case.loads)))
         forces = np.zeros(n, dtype=dtype)
         for i, load in zip(at, case.loads):
             forces[i] += num(load.force)
@@ -137,14 +142,23 @@ def loading(model: Model, name: str, num=float):
 
 def case_state(model: Model, case: Case) -> LoadState:
     """Return the load state of one case."""
-    return LoadState(case.name, *loading(model, case.name))
+    return _state(model, case.name)
+
+
+def _state(model: Model, name: str) -> LoadState:
+    """The load state of case or combination ``name``; its arrays, made for it alone, are
+    read-only (results keep them without a copy)."""
+    state = LoadState(name, *loading(model, name))
+    for value in (state.forces, state.dT, state.settlement):
+        value.setflags(write=False)
+    return state
 
 
 def load_states(model: Model) -> list[LoadState]:
     """Return the load states of every case, in file order, then every combination
     (see :func:`loading` for the rule)."""
     names = [c.name for c in model.all_cases] + [c.name for c in model.combinations]
-    return [LoadState(name, *loading(model, name)) for name in names]
+    return [_state(model, name) for name in names]
 
 
 def pick_state(model: Model, case: str | None) -> LoadState:

@@ -12,7 +12,10 @@ from __future__ import annotations
 import functools
 import math
 import numbers
+from collections.abc import Sequence
 from dataclasses import dataclass, field
+
+import numpy as np
 
 from ..errors import ModelError, suggest
 from ..mechanics import sections
@@ -20,8 +23,8 @@ from ..units import OutputUnits
 
 __all__ = [
     "Material", "Section", "Station", "Segment", "Support", "Load", "Gap",
-    "Case", "Combination", "Project", "Model", "PropertyTable", "BASE_CASE", "COLUMN_CURVES",
-    "MODULUS_AT",
+    "Case", "Combination", "Project", "Model", "PropertyTable", "PointLoads", "BASE_CASE",
+    "COLUMN_CURVES", "MODULUS_AT",
 ]
 
 BASE_CASE = "base"
@@ -390,6 +393,48 @@ class Load:
         _finite(self.force, "force", f"loads ('{self.at}')")
 
 
+class PointLoads(Sequence):
+    """Point loads kept as two arrays, as a model built from arrays holds them.
+
+    ``at`` holds station indices and ``force`` the forces (N, + toward +x); the
+    stations are named ``s0, s1, ...``.  Both were checked as arrays by their
+    maker (:func:`axialfe.model.arrays.from_arrays`), so a :class:`Load` is made
+    only when one is read, and not checked again.  It compares equal to any
+    sequence of the same loads.
+    """
+
+    def __init__(self, at, force):
+        self.at, self.force = at, force
+
+    def __len__(self):
+        return len(self.at)
+
+    def __getitem__(self, i):
+        if isinstance(i, slice):
+            return tuple(self[j] for j in range(*i.indices(len(self))))
+        i = range(len(self))[i]
+        load = object.__new__(Load)
+        object.__setattr__(load, "at", f"s{self.at[i]}")
+        object.__setattr__(load, "force", float(self.force[i]))
+        return load
+
+    def names(self):
+        """The station name of each load, in order."""
+        return [f"s{i}" for i in self.at.tolist()]
+
+    def __eq__(self, other):
+        if isinstance(other, PointLoads):
+            return (np.array_equal(self.at, other.at)
+                    and np.array_equal(self.force, other.force))
+        return isinstance(other, Sequence) and tuple(self) == tuple(other)
+
+    def __hash__(self):
+        return hash(tuple(self))
+
+    def __repr__(self):
+        return f"PointLoads({len(self)} loads)"
+
+
 @dataclass(frozen=True)
 class Gap:
     """A clearance that closes (``contact``) or a link that goes taut (``slack``).
@@ -466,11 +511,13 @@ class Case:
     def __post_init__(self):
         _name(self.name, "a case's name", "cases")
         place = f"cases ('{self.name}')"
-        for key in ("loads", "temperature_change", "settlements"):
+        for key in ("temperature_change", "settlements"):
             object.__setattr__(self, key, tuple(getattr(self, key)))
-        for load in self.loads:
-            if not isinstance(load, Load):
-                raise ModelError(f"loads must be Load objects: got {load!r}", place=place)
+        if not isinstance(self.loads, PointLoads):   # arrays checked by their maker stay arrays
+            object.__setattr__(self, "loads", tuple(self.loads))
+            for load in self.loads:
+                if not isinstance(load, Load):
+                    raise ModelError(f"loads must be Load objects: got {load!r}", place=place)
         for key in ("temperature_change", "settlements"):
             for name, value in getattr(self, key):
                 _name(name, f"a name in {key}", place)
@@ -659,7 +706,8 @@ class Model:
     def __post_init__(self):
         for key in ("stations", "segments", "supports", "loads", "gaps", "cases",
                     "combinations", "limits", "symbols", "tolerances"):
-            object.__setattr__(self, key, tuple(getattr(self, key)))
+            if not (key == "loads" and isinstance(self.loads, PointLoads)):
+                object.__setattr__(self, key, tuple(getattr(self, key)))
         index = {}
         for i, st in enumerate(self.stations):
             if st.name in index:
@@ -701,8 +749,10 @@ class Model:
                 raise ModelError(f"station '{sup.at}' has two fixed or settlement supports",
                                  place=f"supports[{i + 1}]")
             kinds_at[sup.at] = kinds_at.get(sup.at, False) or prescribed
-        for i, load in enumerate(self.loads):
-            self._need_station(load.at, f"loads[{i + 1}]")
+        at_names = (self.loads.names() if isinstance(self.loads, PointLoads)
+                    else [load.at for load in self.loads])
+        for i, at in enumerate(at_names):
+            self._need_station(at, f"loads[{i + 1}]")
         gap_names = set()
         for i, gap in enumerate(self.gaps):
             if gap.name in gap_names:
@@ -780,6 +830,8 @@ class Model:
             SI) with ``gravity`` (m/s^2 along +x); springs ``spring_at`` with
             ``spring_stiffness`` (N/m); gaps against ground ``gap_at``, ``gap_side``
             ('+x' or '-x') and ``gap_clearance`` (m), named ``g0, g1, ...``;
+            ``end_area`` (m^2, a taper's area at its ``end`` station), ``misfit``
+            (m), ``distributed_load`` (N/m), ``preload`` (N, NaN where none);
             ``title``.
 
         The arrays are copied.
@@ -810,11 +862,10 @@ class Model:
     @functools.cached_property
     def load_stations(self):
         """The station index of each of :attr:`loads` (known at once when built from arrays)."""
-        import numpy as np
-
         index = self._station_index
-        at = np.fromiter((index[load.at] for load in self.loads), dtype=np.int64,
-                         count=len(self.loads))
+        names = (self.loads.names() if isinstance(self.loads, PointLoads)
+                 else [load.at for load in self.loads])
+        at = np.fromiter(map(index.__getitem__, names), dtype=np.int64, count=len(names))
         at.setflags(write=False)
         return at
 
