@@ -18,7 +18,7 @@ from .model import Model
 from .model.arrays import frozen as _frozen
 from .units import OutputUnits
 
-__all__ = ["CaseResult", "Solution", "RESIDUAL_BOUND", "certify", "rounding_bounds", "TABLES"]
+__all__ = ["CaseResult", "Deferred", "Solution", "RESIDUAL_BOUND", "certify", "rounding_bounds", "TABLES"]
 
 # The largest station imbalance, relative to the largest force, a result may have
 # and still be called accurate (far above rounding, far below any error that matters).
@@ -27,6 +27,62 @@ RESIDUAL_BOUND = 1e-9
 _ARRAYS = ("u", "axial_force", "stress", "mechanical_strain", "elongation", "elastic_elongation",
            "thermal_elongation", "thermal_strain", "temperature_change", "length", "reactions",
            "applied", "gap_force", "gap_opening", "gap_closed")
+
+
+class Deferred:
+    """A value of a result made on first use: ``Deferred(function, *args)`` stands for
+    ``function(*args)``, computed (and checked) the first time it is read, then kept.
+
+    Recovery defers what only some readers need and what follows from the arrays it
+    has checked (the fields inside the segments, stresses and strains), so a solve
+    makes them only for the checks, diagrams and envelopes that read them.
+    """
+
+    __slots__ = ("function", "args")
+
+    def __init__(self, function, *args):
+        self.function, self.args = function, args
+
+    def __call__(self):
+        return self.function(*self.args)
+
+
+class _OnFirstUse:
+    """A field of :class:`CaseResult` that may be given as a :class:`Deferred`: it is
+    made, checked as the result checks that field, and kept when first read."""
+
+    def __init__(self, check=None, default=None, required=True):
+        self.check, self.default, self.required = check, default, required
+
+    def __set_name__(self, owner, name):
+        self.name = name
+
+    def __get__(self, obj, owner=None):
+        if obj is None:
+            # what the dataclass takes for the field's default: none for a required field
+            if self.required:
+                raise AttributeError(self.name)
+            return self.default
+        value = obj.__dict__[self.name]
+        if isinstance(value, Deferred):
+            value = value()
+            if self.check is not None:
+                value = self.check(obj, self.name, value)
+            obj.__dict__[self.name] = value
+        return value
+
+    def __set__(self, obj, value):
+        obj.__dict__[self.name] = value
+
+
+def _kept(result, key, value):
+    """``value`` as a result keeps an array: read-only, a view where nothing can change it
+    (read-only all the way down), a copy otherwise; and finite."""
+    arr = value.view() if _frozen(value) else np.array(value)
+    arr.setflags(write=False)
+    if arr.dtype.kind == "f" and not np.all(np.isfinite(arr)):
+        raise FloatingPointError(f"non-finite {key} in case '{result.name}'")
+    return arr
 
 
 # the tables of a result (to_frame, _repr_html_): name, the rows of a to_dict, its columns as
@@ -132,21 +188,24 @@ class CaseResult:
 
     Every array is read-only: an array given read-only, with every array it is a
     view of read-only too, is kept as a view (the engine hands over the arrays
-    it has just made that way); any other is copied.
+    it has just made that way); any other is copied.  ``fields`` and the arrays
+    that follow from the checked ones (stresses, strains, the parts of the
+    elongation) may be given as :class:`Deferred`: each is made, kept and checked
+    (read-only, finite) when it is first read.
     """
 
     name: str
     model: Model
     u: np.ndarray
     axial_force: np.ndarray
-    stress: np.ndarray
-    mechanical_strain: np.ndarray
-    elongation: np.ndarray
-    elastic_elongation: np.ndarray
-    thermal_elongation: np.ndarray
-    thermal_strain: np.ndarray
-    temperature_change: np.ndarray
-    length: np.ndarray
+    stress: np.ndarray = _OnFirstUse(_kept)
+    mechanical_strain: np.ndarray = _OnFirstUse(_kept)
+    elongation: np.ndarray = _OnFirstUse(_kept)
+    elastic_elongation: np.ndarray = _OnFirstUse(_kept)
+    thermal_elongation: np.ndarray = _OnFirstUse(_kept)
+    thermal_strain: np.ndarray = _OnFirstUse(_kept)
+    temperature_change: np.ndarray = _OnFirstUse(_kept)
+    length: np.ndarray = _OnFirstUse(_kept)
     reactions: np.ndarray
     applied: np.ndarray
     gap_force: np.ndarray
@@ -154,22 +213,16 @@ class CaseResult:
     gap_closed: np.ndarray
     equilibrium_residual: float
     notes: tuple[str, ...] = field(default=())
-    fields: Fields | None = None
+    fields: Fields | None = _OnFirstUse(required=False)
     status: str = "ok"
     message: str | None = None
     compatibility_defect: float = 0.0
 
     def __post_init__(self):
         for key in _ARRAYS:
-            value = getattr(self, key)
-            if _frozen(value):     # read-only all the way down: nothing can change it
-                arr = value.view()
-            else:
-                arr = np.array(value)          # a copy: no result shares a writable array
-            arr.setflags(write=False)
-            object.__setattr__(self, key, arr)
-            if arr.dtype.kind == "f" and not np.all(np.isfinite(arr)):
-                raise FloatingPointError(f"non-finite {key} in case '{self.name}'")
+            value = self.__dict__[key]
+            if not isinstance(value, Deferred):   # a deferred one is kept when it is made
+                object.__setattr__(self, key, _kept(self, key, value))
 
     # --- look-ups -------------------------------------------------------
     def displacement(self, station: str) -> float:

@@ -228,3 +228,38 @@ def test_a_wide_general_band_solves_blocks():
     rhs = np.random.default_rng(0).standard_normal((len(system.free), 3))
     K_ff = system._K_ff().toarray()
     assert np.abs(K_ff @ system.factor.solve(rhs) - rhs).max() <= 1e-9 * np.abs(rhs).max()
+
+
+@PROPS
+@given(models())
+def test_values_made_on_first_read_are_those_of_the_relations(model):
+    # a result makes its fields, stresses, strains and parts of the elongation when first
+    # read: the same numbers as the relations give from the arrays it checked, read-only
+    from axialfe.mechanics import Fields
+    from axialfe.results import Deferred
+
+    system = System(model)
+    asm = system.asm
+    for state in load_states(model):
+        case = system.solve_state(state)
+        assert isinstance(case.__dict__["fields"], Deferred)
+        N = case.axial_force
+        expected = {"stress": N / asm.area, "mechanical_strain": N / asm.area / asm.modulus[:, None],
+                    "elastic_elongation": case.elongation - (asm.expansion * state.dT * asm.length
+                                                             + asm.misfit),
+                    "thermal_strain": asm.expansion * state.dT,
+                    "thermal_elongation": asm.expansion * state.dT * asm.length,
+                    "length": asm.length}
+        for key, value in expected.items():
+            got = getattr(case, key)
+            assert not isinstance(case.__dict__[key], Deferred)   # made once, then kept
+            assert np.array_equal(got, value), key
+            with pytest.raises(ValueError, match="read-only"):
+                got[...] = 0
+        fields = case.fields
+        direct = Fields.of(N[:, 0], state.q_factor * asm.q * asm.direction, asm.rho_g,
+                           *asm.factors.T, asm.length, asm.modulus, end_force=N,
+                           x_from=system.x[asm.start], x_to=system.x[asm.end])
+        for key in ("force", "area", "end_force", "x_from", "x_to"):
+            assert np.array_equal(getattr(fields, key), getattr(direct, key)), key
+        assert case.fields is fields

@@ -38,6 +38,30 @@ def test_small_graphs_are_split_as_scipy_splits_them(graph):
     assert labels.tolist() == ref.tolist()
 
 
+@PROPS
+@given(st.integers(1, 30).flatmap(lambda n: st.tuples(
+    st.just(n), st.lists(st.integers(0, n - 1), min_size=n - 1, max_size=n - 1),
+    st.lists(st.tuples(st.integers(0, n - 1), st.integers(0, n - 1)), max_size=20),
+    st.randoms(use_true_random=False))))
+def test_graphs_joined_downward_are_one_part_as_scipy_finds(graph):
+    # every station but the first tied to one of lower index (a chain, parallel parts
+    # numbered along the bar): the shortcut's one part, against scipy's own count
+    import scipy.sparse as sp
+    from scipy.sparse.csgraph import connected_components as scipy_components
+
+    n, lower, extra, rnd = graph
+    edges = [(min(lower[i - 1], i - 1), i) for i in range(1, n)] + list(extra)
+    rnd.shuffle(edges)
+    edges = [e if rnd.random() < 0.5 else e[::-1] for e in edges]
+    a = np.array([e[0] for e in edges], dtype=int)
+    b = np.array([e[1] for e in edges], dtype=int)
+    count, labels = connected_components(n, a, b)
+    ref_count, ref = scipy_components(sp.coo_matrix((np.ones(len(a)), (a, b)), shape=(n, n)),
+                                      directed=False)
+    assert count == ref_count == 1
+    assert labels.tolist() == ref.tolist()
+
+
 def run(code, cache):
     env = dict(os.environ, AXIALFE_CACHE_DIR=str(cache), PYTHONPATH=str(ROOT))
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env,

@@ -30,8 +30,8 @@ C_MIN, P_EXT = 16e3, 14e3     # its minimum clamp force and external load (N)
 
 @pytest.fixture(scope="module")
 def study():
-    joint, found, _ = read_joint_toleranced(EXAMPLE)
-    return run_joint_study(joint, found, samples=20_000, seed=3)
+    joint, found, build = read_joint_toleranced(EXAMPLE)
+    return run_joint_study(joint, found, build, samples=20_000, seed=3)
 
 
 def test_preload_is_torque_over_nut_factor_times_diameter_for_every_sample(study):
@@ -88,7 +88,7 @@ def test_a_separating_joint_is_solved_sample_by_sample(tmp_path):
     path = tmp_path / "j.toml"
     path.write_text(text)
     joint, found, build = read_joint_toleranced(path)
-    study = run_joint_study(joint, found, samples=300, seed=1)
+    study = run_joint_study(joint, found, build, samples=300, seed=1)
     sep = next(e for e in study.events if e["event"] == "separates" and e["case"] == "running")
     # 50 kN is above every sample's separation load F_i/(1 - C): each separates, and the
     # bolt then carries the external load alone
@@ -105,7 +105,8 @@ def test_cli_json_has_the_study_shape():
     assert data["worst_case_method"] == "vertices"
     assert [i["name"] for i in data["inputs"]] == ["assembly.nut_factor"]
     assert [o["name"] for o in data["outputs"]] == ["running:clamp_force"]
-    assert {e["event"] for e in data["events"]} == {"separates", "clamp-below-minimum"}
+    assert {e["event"] for e in data["events"]} == {"separates", "clamp-below-minimum",
+                                                   "check-fails"}
 
 
 @pytest.mark.parametrize("line, message", [
@@ -125,7 +126,7 @@ def test_bad_nut_factor_tolerances_are_one_located_error(tmp_path, line, message
 
 
 def test_a_tolerance_elsewhere_in_a_joint_file_is_refused(tmp_path):
-    text = EXAMPLE.read_text().replace('thickness = "14 mm"', 'thickness = "14 mm ±0.1"')
+    text = EXAMPLE.read_text() + 'safety_factor = "1.5 ±0.1"\n'  
     path = tmp_path / "j.toml"
     path.write_text(text)
     with pytest.raises(ModelError, match="a tolerance is not allowed here"):
@@ -136,8 +137,8 @@ def test_a_joint_separating_for_some_samples_counts_exactly_those(tmp_path):
     text = EXAMPLE.read_text().replace('external_load = "14 kN"', 'external_load = "40 kN"')
     path = tmp_path / "j.toml"
     path.write_text(text)
-    joint, found, _ = read_joint_toleranced(path)
-    study = run_joint_study(joint, found, samples=300, seed=1)
+    joint, found, build = read_joint_toleranced(path)
+    study = run_joint_study(joint, found, build, samples=300, seed=1)
     preload = study.draws[("assembly", "assembly:bolt_force")]
     # separation load F_i/(1 - C) (Shigley, 10th ed., eq. 8-28 rearranged, from memory)
     expected = int(np.count_nonzero(preload / (1 - joint.joint_constant) < 40e3))
@@ -172,3 +173,86 @@ def test_report_refuses_a_tolerance_section_it_cannot_make(tmp_path):
     assert bad.returncode == 2 and not out.exists()
     assert bad.stderr == ("error: --tolerance: a report's tolerance section is made for model files "
                           "only: run 'axialfe tolerance' on a joint or fit file\n")
+
+
+STACK = (Path(__file__).resolve().parent.parent / "examples" / "tolerance"
+         / "cover-bolt-stack-tolerances.toml")
+
+
+def _stack_samples(n=200, seed=5):
+    from axialfe.tolerance.jointstudy import _Joints
+    from axialfe.tolerance.study import _draw
+
+    joint, found, build = read_joint_toleranced(STACK)
+    joints = _Joints(joint, found, build)
+    x = _draw([t.tolerance for t in found], n, seed)
+    return joint, found, build, joints, x, joints.evaluate(x)
+
+
+def test_every_sample_of_many_toleranced_inputs_agrees_with_the_joint_solver():
+    # torque, nut factor, thicknesses, a modulus, temperatures and loads all drawn: each
+    # sample's forces and check verdicts are those of solve_joint on the file read again
+    # with the sample's values (the engine's axial model, an independent path)
+    joint, found, build, joints, x, (out, flags, _) = _stack_samples()
+    assert len(found) == 9
+    for i in range(0, 200, 9):
+        result = solve_joint(build(dict(zip(joints.paths, x[i].tolist()))))
+        for st in result.states:
+            for o in ("bolt_force", "clamp_force"):
+                assert out[f"{st.name}:{o}"][i] == pytest.approx(getattr(st, o), rel=1e-12)
+            assert flags[(st.name, "separates", st.name)][i] == st.separated
+        for case in result.checks.cases:
+            for e in case.entries:
+                assert flags[(e.kind, "check-fails", case.case)][i] == (e.ok is False)
+            assert flags[("checks", "check-fails", case.case)][i] == any(
+                e.ok is False for e in case.entries)
+
+
+def test_a_toleranced_torque_gives_the_preload_t_over_k_d_of_each_sample():
+    # F_i = T/(K*d) (Shigley, Mechanical Engineering Design, 10th ed., eq. 8-27, from
+    # memory) with both the torque and the nut factor drawn, M10: d = 10 mm
+    _, found, _, joints, x, (out, _, _) = _stack_samples(n=2000, seed=8)
+    col = {t.path: j for j, t in enumerate(found)}
+    T, K = x[:, col["assembly.torque"]], x[:, col["assembly.nut_factor"]]
+    assert np.allclose(out["assembly:bolt_force"], T / (K * 0.010), rtol=1e-12, atol=0)
+    assert T.std() == pytest.approx(1.0, rel=0.1)   # 40 N*m +-3: sigma 1 N*m
+
+
+def test_a_study_of_the_stack_runs_and_its_worst_case_brackets_the_samples():
+    joint, found, build = read_joint_toleranced(STACK)
+    study = run_joint_study(joint, found, build, samples=3000, seed=2)
+    assert study.worst_case_method == "vertices+local"
+    for row in study.outputs:
+        d = study.draws[(row["case"], row["name"])]
+        lo, hi = row["worst_case"]
+        assert lo <= row["nominal"] <= hi
+        # normal draws cut at +-6 sigma may pass the +-3 sigma box; the box itself holds
+        # most of them (a mass of 0.27 % outside per normal input)
+        assert np.mean((d >= lo) & (d <= hi)) > 0.97
+    names = {(e["name"], e["case"]) for e in study.events if e["event"] == "check-fails"}
+    assert ("checks", "cold-start") in names and ("bolt-proof", "hot") in names
+
+
+@pytest.mark.parametrize("old, new, message", [
+    ('thickness = "12 mm ±0.3"', 'thickness = "12 mm ±7"',
+     "clamped.cover.thickness: thickness could fall to zero or below"),
+    ('length = "50 mm"', 'length = "50 mm ±8"',
+     "bolt.length: within the tolerance of bolt.length: thread_length: the thread starts"),
+    ('torque = "40 N*m ±3"', 'torque = "40 N*m ±"', "torque: '40 N*m ±': the tolerance needs"),
+    ('torque = "40 N*m ±3"', 'torque = "40 N*m ±35"', "assembly.torque: torque could fall to"),
+    ('temperature = "-30 degC"', 'temperature = "-30 degC ±300"',
+     "service.cold-start.temperature: temperature could fall to or below absolute zero"),
+    ('minimum_clamp_force = "10 kN"', 'minimum_clamp_force = "10 kN ±1 kN"',
+     "the deviation must be one positive number"),
+    ('minimum_clamp_force = "10 kN"', 'minimum_clamp_force = "10 kN"\nsafety_factor = "1.5 ±0.1"',
+     "safety_factor: a tolerance is not allowed here"),
+])
+def test_bad_joint_tolerances_are_one_located_error(tmp_path, old, new, message):
+    text = STACK.read_text()
+    assert old in text
+    path = tmp_path / "j.toml"
+    path.write_text(text.replace(old, new, 1))
+    res = runner.invoke(app, ["tolerance", str(path), "--samples", "10"])
+    assert res.exit_code == 2
+    lines = [s for s in res.stderr.splitlines() if s.startswith("error:")]
+    assert len(lines) == 1 and f"{path}:" in lines[0] and message in lines[0], res.stderr

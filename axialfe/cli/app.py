@@ -749,9 +749,13 @@ def _solved_fit(path, force=None, length=None, stress=None, torque=None):
     """Read and solve a fit file; return it with its units and the command line's overrides."""
     from ..errors import UnitError
     from ..fits.fit import FitUnits, solve_fit
-    from ..fits.reader import read_fit
+    from ..fits.reader import read_fit_toleranced
+    from ..io.modelfile import tolerance_note
 
-    spec = read_fit(path)
+    spec, found, _ = read_fit_toleranced(path)
+    stated = [t for t in found if t.path not in ("fit.bore", "fit.shaft")]
+    if stated:   # the limits of a designation are the fit's own range, not a tolerance
+        typer.echo(tolerance_note(stated, "fit"), err=True)
     base = spec.units.as_dict()
     for key, value in (("force", force), ("length", length), ("stress", stress),
                        ("torque", torque)):

@@ -77,6 +77,11 @@ class Assembly:
                 value.setflags(write=False)
 
     @functools.cached_property
+    def forward(self) -> bool:
+        """True when every segment runs toward +x (direction +1), as in a chain numbered by x."""
+        return bool(np.all(self.direction > 0))
+
+    @functools.cached_property
     def area_table(self):
         """The coefficients of A(t) of each segment (:meth:`Fields.area_table`), shape (m, 3)."""
         table = Fields.area_table(*self.factors.T)

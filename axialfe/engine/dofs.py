@@ -28,8 +28,13 @@ def connected_components(n, a, b):
     Returns ``(count, labels)`` with parts labelled in the order of their least
     station, as ``scipy.sparse.csgraph.connected_components`` labels them.  Small
     graphs are joined by a union-find here, which spares loading scipy's graph
-    and linear algebra modules when a small model starts.
+    and linear algebra modules when a small model starts.  A graph in which every
+    station but the first has an edge to a station of lower index (a chain, or
+    parallel parts, numbered along the bar) is one part, by induction on the
+    index: that is seen in a few passes over the edges.
     """
+    if n and _joined_downward(n, a, b):
+        return 1, np.zeros(n, dtype=np.int32)
     if n > _SMALL:
         import scipy.sparse as sp
         from scipy.sparse.csgraph import connected_components as components
@@ -52,6 +57,22 @@ def connected_components(n, a, b):
     # the least station of a part is its root (unions keep the smaller root)
     uniq, labels = np.unique(roots, return_inverse=True)
     return len(uniq), labels.reshape(-1)
+
+
+def _joined_downward(n, a, b) -> bool:
+    """True when every station but station 0 has an edge to a station of lower index."""
+    if np.any(a == b):
+        return False
+    lower = np.zeros(n, dtype=bool)
+    lower[np.maximum(a, b)] = True
+    return bool(lower[1:].all())
+
+
+def _any_per_part(labels, count, flags):
+    """For each of ``count`` parts, whether any of its stations is flagged."""
+    if count == 1:
+        return np.array([bool(flags.any())])
+    return np.bincount(labels, flags, minlength=count) > 0
 
 
 @dataclass(frozen=True)
@@ -120,12 +141,12 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
         n_all, all_label = n_seg, seg_label
     grounded = held.copy()
     grounded[cons.a[~two]] = True
-    comp_grounded = np.bincount(all_label, grounded, minlength=n_all) > 0
-    used = np.zeros(n, dtype=bool)
-    used[start] = used[end] = True
-    used[cons.a] = True
-    used[cons.b[two]] = True
+    comp_grounded = _any_per_part(all_label, n_all, grounded)
     for c in np.flatnonzero(~comp_grounded):
+        used = np.zeros(n, dtype=bool)
+        used[start] = used[end] = True
+        used[cons.a] = True
+        used[cons.b[two]] = True
         names = [st.name for st in model.stations]
         members = [names[i] for i in np.flatnonzero(all_label == c)]
         line = model.line_of(f"stations.{members[0]}")
@@ -136,7 +157,7 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
         raise SolveError(f"stations {names_text(members)} float: no support, spring or "
                          "gap holds them (a rigid-body mechanism); add a support or connect "
                          "them", file=model.source, line=line)
-    comp_held = np.bincount(seg_label, held, minlength=n_seg) > 0
+    comp_held = _any_per_part(seg_label, n_seg, held)
     free_comps = np.flatnonzero(~comp_held)
     # A part held only through gaps: its first station is an anchor, and its
     # rigid shift is solved with the gap forces.

@@ -13,7 +13,7 @@ import numpy as np
 
 from ..mechanics import Fields, end_forces
 from ..model.cases import LoadState
-from ..results import CaseResult
+from ..results import CaseResult, Deferred
 from .certificate import check_unique_gaps, compatibility, status_of
 
 __all__ = ["recover", "gap_tolerance"]
@@ -30,33 +30,55 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     size of the numbers u, F, lam and the terms were computed from, as
     (|u|, |F|, |lam|, |delta0|, |G|, |W|), when they come from a sum (a sweep's
     a + s*b) that may have cancelled; it sets the rounding bounds below.
+
+    The certificate (the station balance, the compatibility defect, the gap
+    checks) is computed here for every result; what only some readers need and
+    what follows from the checked arrays (the fields inside the segments,
+    stresses, strains, the parts of the elongation) is handed to the result as
+    :class:`~axialfe.results.Deferred`, made when first read.
     """
     asm, model = system.asm, system.model
+    start, end, k, e = asm.start, asm.end, asm.stiffness, asm.direction
     delta0, G, W = terms
     mu, mF, mlam, md0, mG, mW = magnitudes if magnitudes is not None else (
         np.abs(u), np.abs(F), np.abs(lam), np.abs(delta0), np.abs(G), np.abs(W))
-    e = asm.direction
-    du = e * (u[asm.end] - u[asm.start])
-    k = asm.stiffness
+    forward = asm.forward
+    stretch_u = u[end] - u[start]        # the change of distance, read once for du and K u
+    du = stretch_u if forward else e * stretch_u
     n_from, _ = end_forces(asm.terms, du, delta0, G, W)
     # rounding bound of N: du is a difference of two displacements, so its error
     # scales with their size, not with du itself
-    noise = 1e3 * _EPS * (k * (mu[asm.start] + mu[asm.end] + md0 + mG) + mW)
-    n_from = np.where(np.abs(n_from) < noise, 0.0, n_from)
+    pair = mu[start] + mu[end]
+    noise = pair + md0
+    noise += mG
+    noise *= k
+    noise += mW
+    noise *= _ULPS
+    _zero_below(n_from, noise)
     n_to = n_from - W                     # the element's N_to, from the N_from kept
-    n_to = np.where(np.abs(n_to) < noise, 0.0, n_to)
+    _zero_below(n_to, noise)
     N = np.column_stack([n_from, n_to])
-    x = system.x
-    fields = Fields.of(n_from, state.q_factor * asm.q * e, asm.rho_g, *asm.factors.T,
-                       asm.length, asm.modulus, end_force=N, x_from=x[asm.start],
-                       x_to=x[asm.end], area=asm.area_table)
 
     g = len(model.gaps)
-    gap_nodal = system.BT @ lam if g else np.zeros(asm.n)
-    Ku = system.stiffness_times(u)
-    R_station = Ku - F + gap_nodal
-    noise_R = 1e3 * _EPS * (system.stiffness_times(mu, magnitude=True) + mF + (abs(system.BT) @ mlam if g else 0.0))
-    R_station = np.where(np.abs(R_station) < noise_R, 0.0, R_station)
+    gap_nodal = system.BT @ lam if g else None
+    # K u and |K| |u| from the segment arrays (as System.stiffness_times), sharing the
+    # differences and sums of the end displacements read above
+    n = asm.n
+    spring = system.spring_diagonal
+    t = k * stretch_u
+    R_station = np.bincount(end, t, minlength=n) - np.bincount(start, t, minlength=n)
+    R_station += spring * u
+    R_station -= F
+    if g:
+        R_station += gap_nodal
+    np.multiply(k, pair, out=t)
+    noise_R = np.bincount(start, t, minlength=n) + np.bincount(end, t, minlength=n)
+    noise_R += spring * mu
+    noise_R += mF
+    if g:
+        noise_R += abs(system.BT) @ mlam
+    noise_R *= _ULPS
+    _zero_below(R_station, noise_R)
     reactions = np.zeros(len(model.supports))
     reactions[system.presc_support] = R_station[system.presc]
     spring_force = -system.spring_k * u[system.spring_at]
@@ -65,57 +87,111 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     # prescribed support's own share, whatever spring stands beside it)
 
     # Station balance from the recovered segment forces: an independent check.
-    balance = (state.forces + np.bincount(asm.start, e * n_from, minlength=asm.n)
-               - np.bincount(asm.end, e * n_to, minlength=asm.n) - gap_nodal)
-    balance += np.bincount(system.spring_at, spring_force, minlength=asm.n)
-    sup_at = np.array([model._station_index[s.at] for s in model.supports], dtype=int)
-    presc_reac = np.bincount(sup_at[system.presc_support], reactions[system.presc_support],
-                             minlength=asm.n)
-    balance += presc_reac
+    balance = np.bincount(start, n_from if forward else e * n_from, minlength=n)
+    balance += state.forces
+    balance -= np.bincount(end, n_to if forward else e * n_to, minlength=n)
+    if g:
+        balance -= gap_nodal
+    balance += np.bincount(system.spring_at, spring_force, minlength=n)
+    # each prescribed support's reaction at its station
+    balance += np.bincount(system.presc, reactions[system.presc_support], minlength=n)
     # out-of-balance at the level of rounding (the same bound that zeroes noise in
     # forces) is no imbalance: it cannot be told from a force that is truly zero
-    station_noise = (np.bincount(asm.start, noise, minlength=asm.n)
-                     + np.bincount(asm.end, noise, minlength=asm.n) + noise_R)
-    balance = np.where(np.abs(balance) <= station_noise, 0.0, balance)
+    station_noise = np.bincount(start, noise, minlength=n)
+    station_noise += np.bincount(end, noise, minlength=n)
+    station_noise += noise_R
+    np.abs(balance, out=balance)
+    balance *= balance > station_noise
     # the forces the free changes of length and the loads would cause if held count
     # too: free thermal growth has no force of its own to measure rounding against
-    scale = max(np.abs(state.forces).max(initial=0), np.abs(reactions).max(initial=0),
-                np.abs(N).max(initial=0), np.abs(lam).max(initial=0),
-                np.abs(k * delta0).max(initial=0), np.abs(k * G).max(initial=0),
-                np.abs(W).max(initial=0))
-    residual = float(np.abs(balance).max() / scale) if scale > 0 else 0.0
+    scale = max(_largest(state.forces), _largest(reactions), _largest(n_from), _largest(n_to),
+                _largest(lam), _largest(k * delta0), _largest(k * G), _largest(W))
+    residual = float(balance.max(initial=0.0) / scale) if scale > 0 else 0.0
 
     opening = system.clearance - system.B @ u if g else np.zeros(0)
+    tol_gap = gap_tolerance(system, u, delta0, F)
     if closed is None:
-        closed = opening <= gap_tolerance(system, u, delta0, F) if g else np.zeros(0, dtype=bool)
+        closed = opening <= tol_gap if g else np.zeros(0, dtype=bool)
     closed = np.array(closed, dtype=bool)  # its own: the search may keep its set
     # the rest of the certificate: compatibility, and gap forces that are unique
-    tol_gap = gap_tolerance(system, u, delta0, F)
     defect, defect_at = compatibility(system, u, du, n_from, terms, lam, closed, tol_gap)
     check_unique_gaps(system, lam, closed, opening, tol_gap, state.name)
     # an overlap at the level of rounding shows as 0; a real one would stay visible
-    tiny = (opening < 0) & (opening >= -gap_tolerance(system, u, delta0, F)) if g else closed
+    tiny = (opening < 0) & (opening >= -tol_gap) if g else closed
     opening = np.where(closed | tiny, 0.0, opening)
     gap_force = system.cons.force_sign * lam if g else np.zeros(0)
     gap_force = np.where(gap_force == 0, 0.0, gap_force)
 
-    area = asm.area
-    stress = N / area
-    E = asm.modulus[:, None]
-    flex_part = du - delta0  # elastic part of the elongation (N/EA integrated)
-    thermal_strain = asm.expansion * state.dT
-    made = dict(axial_force=N, stress=stress, mechanical_strain=stress / E, elongation=du,
-                elastic_elongation=flex_part, thermal_elongation=thermal_strain * asm.length,
-                thermal_strain=thermal_strain, reactions=reactions, gap_force=gap_force,
-                gap_opening=opening, gap_closed=closed, length=asm.length.copy())
+    made = dict(axial_force=N, elongation=du, reactions=reactions, gap_force=gap_force,
+                gap_opening=opening, gap_closed=closed)
     for value in made.values():
         # made here and referenced nowhere else: the result keeps them without a copy
         value.setflags(write=False)
+    later = dict(stress=(_stress, N, asm.area), mechanical_strain=(_strain, N, asm.area, asm.modulus),
+                 elastic_elongation=(_difference, du, delta0),
+                 thermal_strain=(_product, asm.expansion, state.dT),
+                 thermal_elongation=(_thermal_elongation, asm.expansion, state.dT, asm.length),
+                 length=(_copy, asm.length),
+                 fields=(_fields, asm, state.q_factor, n_from, N, system.x))
     return CaseResult(
         name=state.name, model=model, u=u, temperature_change=state.dT,
-        applied=state.forces, equilibrium_residual=residual, fields=fields,
+        applied=state.forces, equilibrium_residual=residual,
         compatibility_defect=defect, **made,
+        **{key: Deferred(*how) for key, how in later.items()},
         **dict(zip(("status", "message"), status_of(residual, defect, defect_at))))
+
+
+_ULPS = 1e3 * _EPS   # values within this many units of rounding of their bound are noise
+
+
+def _zero_below(values, bound):
+    """Set to 0, in place, the values whose magnitude is below ``bound`` (rounding noise)."""
+    small = np.abs(values) < bound
+    if small.any():
+        values[small] = 0.0
+
+
+def _largest(values) -> float:
+    """The largest magnitude in ``values`` (0 for none), without an array of magnitudes."""
+    return max(float(values.max(initial=0.0)), -float(values.min(initial=0.0)))
+
+
+# --- what a result makes when it is first read (read-only, referenced nowhere else) ----
+
+def _read_only(value):
+    value.setflags(write=False)
+    return value
+
+
+def _stress(N, area):
+    return _read_only(N / area)
+
+
+def _strain(N, area, modulus):
+    return _read_only(N / area / modulus[:, None])
+
+
+def _difference(a, b):
+    return _read_only(a - b)
+
+
+def _product(a, b):
+    return _read_only(a * b)
+
+
+def _thermal_elongation(expansion, dT, length):
+    return _read_only(expansion * dT * length)
+
+
+def _copy(value):
+    return _read_only(value.copy())
+
+
+def _fields(asm, q_factor, n_from, N, x):
+    """The fields inside the segments (:meth:`Fields.of`) of a recovered state."""
+    return Fields.of(n_from, q_factor * asm.q * asm.direction, asm.rho_g, *asm.factors.T,
+                     asm.length, asm.modulus, end_force=N, x_from=x[asm.start],
+                     x_to=x[asm.end], area=asm.area_table)
 
 
 def gap_tolerance(system, u, delta0=None, F=None):

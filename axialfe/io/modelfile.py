@@ -254,23 +254,34 @@ class _Reader:
             raise type(exc)(f"{key}: {exc.message}", place=place, file=self.source, line=line,
                             hint=exc.hint, options=exc.options) from exc
 
-    def toleranced(self, value, kind, table, index, key, place, item):
-        """A toleranced value: recorded by its path, its nominal (or the study's value) returned."""
+    # which keys of the file may carry a tolerance, and the words that say so in an error
+    TAKERS = ("positions, clearances, misfits, preloads, temperatures, loads, moduli, "
+              "expansion, section sizes and supports take one")
+
+    def may_tolerance(self, table, key) -> bool:
+        """Whether ``key`` of ``table`` may carry a tolerance (a model file's keys)."""
         top = (table or "").split(".")[0]
-        if (top, key) not in _TOLERABLE and not (top == "stations" and table == "stations"):
-            self.fail(f"{key}: a tolerance is not allowed here (positions, clearances, misfits, "
-                      "preloads, temperatures, loads, moduli, expansion, section sizes and "
-                      "supports take one)", table, index, key, place=place)
-        tol, line = self.parse_toleranced(value, kind, table, index, key, place)
-        self.in_range(tol.nominal, table, index, key, place, tol.nominal)
-        path = self._tolerance_path(table, index, key, place, item)
-        # what a study must refuse before it samples: a draw outside the key's range
+        return (top, key) in _TOLERABLE or (top == "stations" and table == "stations")
+
+    def tolerance_problem(self, tol, table, key) -> str | None:
+        """Why a study must refuse this tolerance before it samples (a draw outside the
+        key's physical range), or None."""
         problem = None
         for end in tol.spread:
             problem = problem or check_range(float(end), table, key)
         if problem is None and key == "clearance" and tol.spread[0] < 0:
             problem = "clearance could fall below zero"
-        self.tolerances[path] = Toleranced(path, tol, line, problem)
+        return problem
+
+    def toleranced(self, value, kind, table, index, key, place, item=None):
+        """A toleranced value: recorded by its path, its nominal (or the study's value) returned."""
+        if not self.may_tolerance(table, key):
+            self.fail(f"{key}: a tolerance is not allowed here ({self.TAKERS})", table, index,
+                      key, place=place)
+        tol, line = self.parse_toleranced(value, kind, table, index, key, place)
+        self.in_range(tol.nominal, table, index, key, place, tol.nominal)
+        path = self._tolerance_path(table, index, key, place, item)
+        self.tolerances[path] = Toleranced(path, tol, line, self.tolerance_problem(tol, table, key))
         if self.symbolic:   # the closed form takes the nominal value, exactly as written
             return _rational(_expr().exact_decimal(tol.nominal))
         return float(self.overrides.get(path, tol.nominal))
@@ -398,7 +409,7 @@ class _Reader:
         if "elastic_modulus" not in entry:
             self.fail("a material needs 'elastic_modulus'", table, place=place)
         kwargs = {k: self.quantity(entry[k], kind, table=table, key=k, place=place)
-                  for k, kind in kinds.items() if k in entry and not isinstance(entry[k], dict)}
+                  for k, kind in kinds.items() if k in entry and not _against_temperature(entry[k])}
         kwargs.update(self.property_tables(entry, table, place))
         for k in ("proof_strength", "tensile_strength"):  # stated for the record, checked only
             if k in entry:
@@ -423,7 +434,7 @@ class _Reader:
         out = {}
         for key, field, kind in (("elastic_modulus", "modulus_table", "stress"),
                                  ("yield_strength", "yield_table", "stress")):
-            if isinstance(entry.get(key), dict):
+            if _against_temperature(entry.get(key)):
                 tab = self.property_table(entry[key], kind, table, key, place, False)
                 out[field] = tab
                 out[key] = tab.values[0]
@@ -929,6 +940,12 @@ _TOLERABLE = {("stations", "x"), ("gaps", "clearance"), ("segments", "misfit"),
                                           "inner_diameter", "width", "height", "area"))}
 _RANGE_GOT = re.compile(r"^(\w+ must (?:be positive|not be negative|be a finite number)): got .*$")
 _FILE_KEY = {"start": "from", "end": "to", "stations": "between"}
+
+
+def _against_temperature(value) -> bool:
+    """Whether a material property is written as a table against temperature (a table
+    that is not a toleranced value)."""
+    return isinstance(value, dict) and not is_toleranced(value)
 
 
 def _key_in(message: str, keys) -> str | None:

@@ -40,7 +40,8 @@ from .threads import INCH, Thread
 
 __all__ = ["Part", "Service", "Joint", "JointState", "JointResult", "JointSweep", "solve_joint",
            "DiagramLine", "diagram_lines",
-           "sweep_joint", "build_model", "ASSEMBLY", "EVENTS", "CHECK_KINDS"]
+           "sweep_joint", "build_model", "joint_parameters", "closed_states", "ClosedStates",
+           "ASSEMBLY", "EVENTS", "CHECK_KINDS"]
 
 ASSEMBLY = "assembly"
 EVENTS = ("separates", "clamp-below-minimum", "reaches-proof")
@@ -57,10 +58,11 @@ def default_thread_length(thread: Thread, length: float) -> float:
     """
     d = thread.nominal_diameter
     if thread.system == "metric":
-        if length <= 0.125 + 1e-12:
-            return 2 * d + 0.006
-        return 2 * d + (0.012 if length <= 0.200 + 1e-12 else 0.025)
-    return 2 * d + (0.25 if length <= 6 * INCH + 1e-12 else 0.5) * INCH
+        extra = np.where(np.less_equal(length, 0.125 + 1e-12), 0.006,
+                         np.where(np.less_equal(length, 0.200 + 1e-12), 0.012, 0.025))
+    else:
+        extra = np.where(np.less_equal(length, 6 * INCH + 1e-12), 0.25, 0.5) * INCH
+    return 2 * d + (float(extra) if np.ndim(extra) == 0 else extra)
 
 
 @dataclass(frozen=True)
@@ -141,6 +143,8 @@ class Joint:
     minimum_clamp_force: float | None = None
     units: OutputUnits = field(default_factory=OutputUnits)
     source: str | None = None
+    torque: float | None = None
+    nut_factor: float | None = None
 
     def __post_init__(self):
         object.__setattr__(self, "parts", tuple(self.parts))
@@ -497,6 +501,115 @@ def solve_joint(joint: Joint) -> JointResult:
     solution = solve(build_model(joint))
     states = _states(joint, solution, services)
     return JointResult(joint, tuple(states), solution, _checks(joint, states))
+
+
+# --- many joints at once: the closed forms on arrays -------------------------
+def joint_parameters(joint: Joint) -> dict[str, float]:
+    """The joint's scalar inputs by name (NaN where not given): what a tolerance study
+    moves.  :func:`closed_states` turns arrays of them into each state's forces."""
+    nan = float("nan")
+    p = {"length": joint.length,
+         "thread_length": nan if joint.thread_length is None else joint.thread_length,
+         "preload": joint.preload if joint.torque is None else nan,
+         "torque": nan if joint.torque is None else joint.torque,
+         "nut_factor": nan if joint.nut_factor is None else joint.nut_factor,
+         "assembly_temperature": joint.assembly_temperature,
+         "bolt:modulus": joint.bolt_material.elastic_modulus,
+         "bolt:expansion": joint.bolt_material.thermal_expansion,
+         "minimum_clamp_force": (nan if joint.minimum_clamp_force is None
+                                 else joint.minimum_clamp_force)}
+    for i, part in enumerate(joint.parts):
+        p[f"part:{i}:thickness"] = part.thickness
+        p[f"part:{i}:modulus"] = part.material.elastic_modulus
+        p[f"part:{i}:expansion"] = part.material.thermal_expansion
+    for service in (None, *joint.services):
+        name = service.name if service is not None else ASSEMBLY
+        for who, T in joint.temperatures_of(service).items():
+            p[f"state:{name}:temperature:{who}"] = T
+        p[f"state:{name}:load"] = service.external_load if service is not None else 0.0
+    return p
+
+
+@dataclass(frozen=True)
+class ClosedStates:
+    """Each state's forces and checks of many joints (arrays over the joints), from the
+    joint-diagram closed forms; ``unsure`` marks the joints these do not describe (a
+    state that separates under no pull), which must be solved on their own."""
+
+    bolt_force: dict
+    clamp_force: dict
+    separated: dict
+    checks: dict          # (state, check kind) -> ok: 1 passes, 0 fails, -1 undecided
+    unsure: np.ndarray
+    assembles: np.ndarray  # the geometry a Joint accepts: the bolt passes the grip, the
+                           # thread starts within it (or above the tapped part)
+
+
+def closed_states(joint: Joint, p: dict) -> ClosedStates:
+    """The states of the joints whose inputs are the arrays ``p`` (the names of
+    :func:`joint_parameters`; ``joint`` gives the fixed rest: thread, parts, states).
+
+    Before separation F_b = F_i + dF_th + C*P and F_m = F_i + dF_th - (1 - C)*P; once
+    F_m would fall to zero the joint is open and the bolt carries P alone (Shigley,
+    10th ed., eqs. 8-24, 8-25, from memory), as :func:`solve_joint`'s model gives it.
+    The preload is T/(K*d) where a torque is given (eq. 8-27).  The geometry and
+    stiffness are the :class:`Joint`'s own formulas on arrays.
+    """
+    th = joint.thread
+    d = th.nominal_diameter
+    n = np.broadcast(*[np.asarray(v) for v in p.values()]).shape
+    length = np.asarray(p["length"], dtype=float)
+    thick = [np.asarray(p[f"part:{i}:thickness"], dtype=float) for i in range(len(joint.parts))]
+    engaged = list(thick)
+    if joint.into is not None:
+        t2 = thick[-1]
+        engaged[-1] = np.where(t2 < d, t2 / 2, d / 2)
+    grip = sum(engaged)
+    given = np.asarray(p["thread_length"], dtype=float)
+    thread_len = np.where(np.isnan(given), default_thread_length(th, length), given)
+    shank = np.maximum(length - thread_len, 0.0)
+    in_thread = np.maximum(grip - shank, 0.0)
+    kb = bolt_stiffness(th.shank_area, th.tensile_stress_area, np.asarray(p["bolt:modulus"]),
+                        shank, in_thread)
+    _, km = member_stiffness([(p[f"part:{i}:modulus"], t) for i, t in enumerate(engaged)], d)
+    C, kk = kb / (kb + km), kb * km / (kb + km)
+    preload = np.asarray(p["preload"], dtype=float)
+    preload = np.where(np.isnan(preload), np.asarray(p["torque"]) / (np.asarray(p["nut_factor"]) * d),
+                       preload)
+    t0 = np.asarray(p["assembly_temperature"])
+    Fmin = np.asarray(p["minimum_clamp_force"], dtype=float)
+    bolt_f, clamp_f, sep, checks = {}, {}, {}, {}
+    unsure = np.zeros(n, dtype=bool)
+    for service in (None, *joint.services):
+        name = service.name if service is not None else ASSEMBLY
+        T = lambda who: np.asarray(p[f"state:{name}:temperature:{who}"])  # noqa: E731
+        delta = sum(np.asarray(p[f"part:{i}:expansion"]) * t * (T(part.name) - t0)
+                    for i, (part, t) in enumerate(zip(joint.parts, engaged)))
+        delta = delta - np.asarray(p["bolt:expansion"]) * grip * (T(BOLT) - t0)
+        dF = delta * kk
+        P = np.asarray(p[f"state:{name}:load"], dtype=float)
+        fm = preload + dF - (1 - C) * P
+        open_ = np.broadcast_to(fm <= 0.0, n)
+        unsure |= open_ & (P <= 0.0)
+        bolt = np.broadcast_to(np.where(open_, P, preload + dF + C * P), n).astype(float)
+        clamp = np.broadcast_to(np.where(open_, 0.0, fm), n).astype(float)
+        bolt_f[name], clamp_f[name], sep[name] = bolt, clamp, open_.copy()
+        # the checks of _checks, on arrays (tests hold the two together)
+        stress = bolt / th.tensile_stress_area
+        if joint.proof_strength is None:
+            proof = np.full(n, -1)
+        else:
+            proof = np.where(stress * joint.safety_factor / joint.proof_strength <= 1.0, 1, 0)
+        checks[(name, "bolt-proof")] = np.where(bolt <= 0, -1, proof)
+        if joint.minimum_clamp_force is not None:
+            checks[(name, "clamp-force")] = np.where((clamp > 0) & (Fmin <= clamp), 1, 0)
+        sep_load = np.maximum((preload + dF) / (1 - C), 0.0)
+        load = np.maximum(P, 0.0)
+        checks[(name, "separation")] = np.where(
+            (sep_load > 0) & (load < sep_load) & ~open_, 1, 0)
+    limit = grip if joint.into is None else sum(thick[:-1])
+    assembles = np.broadcast_to((length > limit) & (shank <= limit * (1 + 1e-12)), n)
+    return ClosedStates(bolt_f, clamp_f, sep, checks, unsure, assembles)
 
 
 # --- temperature sweep -----------------------------------------------------

@@ -36,8 +36,16 @@ _KEYS = {
     "units": ("system", "force", "length", "stress"),
 }
 _TORQUE_DIMS = {"[length]": 2, "[mass]": 1, "[time]": -2}
-# the (table, key) pairs of a joint file whose plain numbers may carry a tolerance
-_TOLERABLE_NUMBERS = {("assembly", "nut_factor")}
+# the (table, key) pairs of a joint file whose values may carry a tolerance
+_TOLERABLE = {("bolt", "length"), ("bolt", "thread_length"), ("clamped", "thickness"),
+              ("assembly", "preload"), ("assembly", "torque"), ("assembly", "nut_factor"),
+              ("assembly", "temperature"), ("service", "temperature"),
+              ("service", "temperatures"), ("service", "external_load"),
+              ("checks", "minimum_clamp_force"), ("materials", "elastic_modulus"),
+              ("materials", "thermal_expansion")}
+# toleranced keys whose draws must stay above zero (absolute temperatures: above 0 K)
+_POSITIVE = ("length", "thread_length", "thickness", "preload", "torque", "nut_factor",
+             "minimum_clamp_force", "elastic_modulus", "temperature", "temperatures")
 
 
 def is_joint_file(path) -> bool:
@@ -66,22 +74,41 @@ class _JointReader(_Reader):
             self.fail(f"'{key}' is missing", table, index, place=place or table)
         return entry[key]
 
+    TAKERS = ("a joint file takes one on the bolt's length and thread_length, the clamped "
+              "parts' thickness, the assembly's preload, torque, nut_factor and temperature, "
+              "the service states' temperatures and external_load, minimum_clamp_force, and "
+              "its own materials' elastic_modulus and thermal_expansion")
+
+    def may_tolerance(self, table, key) -> bool:
+        return ((table or "").split(".")[0], key) in _TOLERABLE
+
+    def tolerance_problem(self, tol, table, key) -> str | None:
+        problem = super().tolerance_problem(tol, table, key)
+        if problem is None and key in _POSITIVE and tol.spread[0] <= 0:
+            problem = (f"{key} could fall to or below absolute zero" if key.startswith("temp")
+                       else f"{key} could fall to zero or below")
+        return problem
+
+    def _tolerance_path(self, table, index, key, place, item):
+        """``bolt.length``, ``clamped.<name>.thickness``, ``service.<name>.external_load``,
+        ``service.<name>.temperatures.<part>``, ``materials.<name>.elastic_modulus``."""
+        top = table.split(".")[0]
+        if top in ("clamped", "service"):
+            entry = self.data[top][index - 1]
+            name = entry.get("name") if isinstance(entry.get("name"), str) else f"{top}-{index}"
+            return f"{top}.{name}.{key}" + (f".{item}" if item is not None else "")
+        return f"{table}.{key}"
+
     def number(self, value, *, table=None, index=None, key=None, place=None):
         """A plain number, or a toleranced one where a joint file allows it (the nut factor)."""
         if not is_toleranced(value):
             return super().number(value, table=table, index=index, key=key, place=place)
-        if (table, key) not in _TOLERABLE_NUMBERS:
-            self.fail(f"{key}: a tolerance is not allowed here (a joint file takes one on "
-                      "assembly.nut_factor)", table, index, key, place=place)
-        tol, line = self.parse_toleranced(value, None, table, index, key, place)
-        path = f"{table}.{key}"
-        problem = (f"{key} could fall to zero or below within the tolerance"
-                   if tol.spread[0] <= 0 else None)
-        self.tolerances[path] = Toleranced(path, tol, line, problem)
-        return float(self.overrides.get(path, tol.nominal))
+        return self.toleranced(value, None, table, index, key, place)
 
     def torque(self, value, table, key):
         """A torque in N*m, checked for its dimension (e.g. '50 N*m', '30 lbf*ft')."""
+        if is_toleranced(value):
+            return self.toleranced(value, "torque", table, None, key, table)
         parts = split_quantity(value) if isinstance(value, str) else None
         if parts is None or not parts[1]:
             self.fail(f"{key}: expected a torque with its unit, e.g. '50 N*m': got {value!r}",
@@ -222,6 +249,7 @@ class _JointReader(_Reader):
                 self.fail(f"preload must be positive (a tension): got '{asm['preload']}'",
                           "assembly", None, "preload", place="assembly")
             preload_basis = "given"
+            torque = K = None
         else:
             torque = self.torque(asm["torque"], "assembly", "torque")
             K = (self.number(asm["nut_factor"], table="assembly", key="nut_factor",
@@ -230,7 +258,8 @@ class _JointReader(_Reader):
                 self.fail(f"nut_factor must be positive: got {K:g}", "assembly", None,
                           "nut_factor", place="assembly")
             preload = torque / (K * th.nominal_diameter)
-            preload_basis = (f"from the tightening torque {asm['torque']} with nut factor K = {K:g}"
+            preload_basis = (f"from the tightening torque {number(torque)} N*m with nut factor "
+                             f"K = {K:g}"
                              + (" (default)" if "nut_factor" not in asm else "")
                              + ": F_i = T/(K*d) (Shigley, 10th ed., eq. 8-27, from memory); the "
                              "nut factor scatters widely with lubrication and finish")
@@ -270,7 +299,8 @@ class _JointReader(_Reader):
                               "temperatures", place=place, hint=suggest(part_name, names),
                               options=names)
                 temps.append((part_name, self.quantity(value, "temperature", table="service",
-                                                       index=i, key="temperatures", place=place)))
+                                                       index=i, key="temperatures", place=place,
+                                                       item=part_name)))
             load = (q(entry, "external_load", "force", "service", i, place)
                     if "external_load" in entry else 0.0)
             services.append(self.build(Service, {"name": name, "temperature": temp,
@@ -287,7 +317,8 @@ class _JointReader(_Reader):
                   "parts": tuple(parts), "preload": preload, "assembly_temperature": t_asm,
                   "services": tuple(services), "thread_length": thread_length, "into": into,
                   "preload_basis": preload_basis, "safety_factor": sf,
-                  "minimum_clamp_force": cmin, "units": units, "source": self.source}
+                  "minimum_clamp_force": cmin, "units": units, "source": self.source,
+                  "torque": torque, "nut_factor": K}
         try:
             return Joint(**kwargs)
         except ModelError as exc:
@@ -328,7 +359,7 @@ def read_joint_toleranced(path):
     joint : Joint
         The joint at the nominal values.
     found : tuple of Toleranced
-        Its toleranced inputs (``assembly.nut_factor``).
+        Its toleranced inputs, by path (``assembly.nut_factor``, ``bolt.length``, ...).
     build : callable
         ``build({path: value})``: the joint read again with those inputs moved.
     """

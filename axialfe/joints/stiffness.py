@@ -13,11 +13,16 @@ from memory).
   under the nut at the washer-face diameter 1.5*d and meet at mid-grip; each
   part's slice of a cone is one frustum with its own modulus, and all slices
   act in series.
+
+Every function takes floats or numpy arrays alike (a tolerance study evaluates
+many joints at once); floats in, floats out.
 """
 
 from __future__ import annotations
 
 import math
+
+import numpy as np
 
 __all__ = ["bolt_stiffness", "frustum_stiffness", "member_stiffness", "HALF_ANGLE",
            "WASHER_FACTOR", "METHOD"]
@@ -43,7 +48,7 @@ def frustum_stiffness(modulus, d, D, t, half_angle=HALF_ANGLE):
     """Stiffness of one frustum of thickness t, smaller diameter D, hole d (eq. 8-20)."""
     tan = math.tan(half_angle)
     ratio = ((2 * t * tan + D - d) * (D + d)) / ((2 * t * tan + D + d) * (D - d))
-    return math.pi * modulus * d * tan / math.log(ratio)
+    return _plain(math.pi * modulus * d * tan / np.log(ratio))
 
 
 def member_stiffness(parts, d, washer=None, half_angle=HALF_ANGLE):
@@ -85,13 +90,22 @@ def member_stiffness(parts, d, washer=None, half_angle=HALF_ANGLE):
     z = 0.0
     for E, t in parts:
         a, b = z, z + t
-        flex = 0.0
-        if a < mid:  # the cone under the head, depth measured from the head
-            top, bottom = a, min(b, mid)
-            flex += 1 / frustum_stiffness(E, d, D0 + 2 * top * tan, bottom - top, half_angle)
-        if b > mid:  # the cone under the nut, depth measured from the nut
-            top, bottom = grip - b, grip - max(a, mid)
-            flex += 1 / frustum_stiffness(E, d, D0 + 2 * top * tan, bottom - top, half_angle)
-        flex_parts.append(flex)
+        # the cone under the head, depth measured from the head (where the part starts
+        # above mid-grip), and the cone under the nut, depth measured from the nut
+        head, nut = np.less(a, mid), np.greater(b, mid)
+        top1, bottom1 = a, np.minimum(b, mid)
+        top2, bottom2 = grip - b, grip - np.maximum(a, mid)
+        flex = (np.where(head, 1 / frustum_stiffness(E, d, D0 + 2 * top1 * tan,
+                                                     np.where(head, bottom1 - top1, 1.0),
+                                                     half_angle), 0.0)
+                + np.where(nut, 1 / frustum_stiffness(E, d, D0 + 2 * top2 * tan,
+                                                      np.where(nut, bottom2 - top2, 1.0),
+                                                      half_angle), 0.0))
+        flex_parts.append(_plain(flex))
         z = b
-    return [1 / f for f in flex_parts], 1 / sum(flex_parts)
+    return [_plain(1 / f) for f in flex_parts], _plain(1 / sum(flex_parts))
+
+
+def _plain(value):
+    """A float for a 0-d result, the array otherwise."""
+    return float(value) if np.ndim(value) == 0 else value

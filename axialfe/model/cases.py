@@ -142,14 +142,23 @@ def loading(model: Model, name: str, num=float):
 
 def case_state(model: Model, case: Case) -> LoadState:
     """Return the load state of one case."""
-    return LoadState(case.name, *loading(model, case.name))
+    return _state(model, case.name)
+
+
+def _state(model: Model, name: str) -> LoadState:
+    """The load state of case or combination ``name``; its arrays, made for it alone, are
+    read-only (results keep them without a copy)."""
+    state = LoadState(name, *loading(model, name))
+    for value in (state.forces, state.dT, state.settlement):
+        value.setflags(write=False)
+    return state
 
 
 def load_states(model: Model) -> list[LoadState]:
     """Return the load states of every case, in file order, then every combination
     (see :func:`loading` for the rule)."""
     names = [c.name for c in model.all_cases] + [c.name for c in model.combinations]
-    return [LoadState(name, *loading(model, name)) for name in names]
+    return [_state(model, name) for name in names]
 
 
 def pick_state(model: Model, case: str | None) -> LoadState:

@@ -1,136 +1,114 @@
 """A tolerance study of a bolted joint file: its states' bolt and clamp forces over toleranced inputs.
 
-The preload of each sample is F_i = T/(K*d) with its sampled nut factor
-(Shigley, 10th ed., eq. 8-27, from memory).  A closed joint's forces are
-affine in the preload, so two solves by :func:`axialfe.joints.joint.solve_joint`
-at the ends of the range of preloads give every sample at once; samples at
-which a state separates are solved one by one.  The worst case evaluates
-every vertex of the tolerance box; the bolt and clamp forces are monotone in
-the nut factor, so the vertices give them exactly.
+Any toleranced value of a joint file is an input (torque, nut factor, preload,
+lengths and thicknesses, moduli and expansion coefficients of its own
+materials, temperatures, external loads, the minimum clamp force).  Every
+sample is evaluated at once by the joint-diagram closed forms on arrays
+(:func:`axialfe.joints.joint.closed_states`: the preload F_i = T/(K*d) with
+the sampled torque and nut factor, Shigley, 10th ed., eq. 8-27, from memory;
+F_b and F_m of eqs. 8-24 and 8-25; the stiffness of eqs. 8-17 and 8-20).
+Samples the closed forms do not describe (a state that separates under no
+pull) are solved one by one by :func:`axialfe.joints.joint.solve_joint`.  The
+forces are monotone in each load-type input (torque, nut factor, preload,
+temperatures, loads, expansion), so the vertices give their worst case
+exactly; lengths, thicknesses and moduli set the stiffness and are polished by
+the model study's local search.
 """
 
 from __future__ import annotations
 
-import itertools
-from dataclasses import replace
-
 import numpy as np
 
-from ..errors import ModelError
-from ..joints.joint import solve_joint
-from .study import (MAX_VERTEX_INPUTS, Study, _draw, _event, input_notes, input_rows,
-                    vertex_row)
+from ..errors import suggest, ModelError
+from ..joints.joint import closed_states, joint_parameters, solve_joint
+from .closed import ClosedBatch, refuse_problems, run_closed_study
 
 __all__ = ["run_joint_study", "JOINT_OUTPUTS"]
 
 JOINT_OUTPUTS = ("bolt_force", "clamp_force")
+# inputs through which the forces are monotone (so the vertices give the worst case)
+_MONOTONE = ("torque", "nut_factor", "preload", "temperature", "temperatures",
+             "external_load", "minimum_clamp_force", "thermal_expansion")
 
 
-def _at_preload(joint, preload):
-    """The joint's states with the preload replaced: ``{(state, output): value}``, separated."""
-    result = solve_joint(replace(joint, preload=float(preload)))
-    values = {(st.name, out): getattr(st, out) for st in result.states for out in JOINT_OUTPUTS}
-    return values, {st.name: bool(st.separated) for st in result.states}
+class _Joints(ClosedBatch):
+    """Many samples of one joint: outputs, separation, clamp and check verdicts on arrays."""
+
+    def __init__(self, joint, found, build):
+        super().__init__(joint_parameters, build, found, joint.source)
+        self.joint = joint
+        self.refuse_geometry(("length", "thread_length", "thickness"),
+                             lambda p: closed_states(joint, p).assembles,
+                             "the bolt could fail to pass the grip, or its thread start "
+                             "outside it")
+
+    def chunk(self, rows):
+        p = self.map.at(rows)
+        cs = closed_states(self.joint, p)
+        out = {f"{s}:{o}": np.array(getattr(cs, o)[s]) for s in cs.bolt_force
+               for o in JOINT_OUTPUTS}
+        sep = {s: np.array(v) for s, v in cs.separated.items()}
+        checks = {k: np.array(np.broadcast_to(v, len(rows))) for k, v in cs.checks.items()}
+        for i in np.flatnonzero(cs.unsure):   # not described by the closed forms
+            self.alone += 1
+            result = solve_joint(self.build(self.values(rows[i])))
+            for st in result.states:
+                for o in JOINT_OUTPUTS:
+                    out[f"{st.name}:{o}"][i] = getattr(st, o)
+                sep[st.name][i] = st.separated
+            for case in result.checks.cases:
+                for e in case.entries:
+                    checks[(case.case, e.kind)][i] = -1 if e.ok is None else int(e.ok)
+        flags, undecided = {}, 0
+        for s in sep:
+            flags[(s, "separates", s)] = sep[s]
+            if self.joint.minimum_clamp_force is not None:
+                flags[(s, "clamp-below-minimum", s)] = np.broadcast_to(
+                    out[f"{s}:clamp_force"] < p["minimum_clamp_force"], len(rows))
+            fails = np.zeros(len(rows), dtype=bool)
+            for (state, kind), ok in checks.items():
+                if state == s:
+                    flags[(kind, "check-fails", s)] = ok == 0
+                    fails |= ok == 0
+                    undecided += int(np.count_nonzero(ok == -1))
+            flags[("checks", "check-fails", s)] = fails
+        return out, flags, undecided
 
 
-def _evaluate(joint, preloads, names):
-    """The states at each preload of ``preloads``: ``{(state, output): values}`` and the
-    separation flags ``{state: bools}``.
-
-    While the joint stays closed its forces are affine in the preload (the joint
-    diagram: F_b = F_i + C*P, F_m = F_i - (1 - C)*P, Shigley, 10th ed., eqs. 8-24,
-    8-25, from memory), so two solves at the ends of the range give every sample
-    at once; samples at which a state separates are solved one by one.
-    """
-    preloads = np.asarray(preloads, dtype=float)
-    lo, hi = float(preloads.min()), float(preloads.max())
-    a, sep_a = _at_preload(joint, lo)
-    b, sep_b = _at_preload(joint, hi) if hi > lo else (a, sep_a)
-    states = list(sep_a)
-    t = (preloads - lo) / (hi - lo) if hi > lo else np.zeros_like(preloads)
-    values = {k: a[k] + t * (b[k] - a[k]) for k in a}
-    separated = {s: np.zeros(len(preloads), dtype=bool) for s in states}
-    if any(sep_a.values()) or any(sep_b.values()):
-        alone = np.ones(len(preloads), dtype=bool)   # the line is not certified: every sample
-    else:
-        alone = np.zeros(len(preloads), dtype=bool)
-        for s in states:
-            alone |= values[(s, "clamp_force")] <= 0.0
-    for i in np.flatnonzero(alone):
-        v, sep = _at_preload(joint, preloads[i])
-        for k in values:
-            values[k][i] = v[k]
-        for s in states:
-            separated[s][i] = sep[s]
-    return values, separated, int(alone.sum())
-
-
-def _preloads(joint, paths, tols, points):
-    """The preload of each row of ``points``: F_i = T/(K*d) with the sampled nut factor K
-    (Shigley, 10th ed., eq. 8-27, from memory), i.e. the nominal preload scaled by K0/K."""
-    k = paths.index("assembly.nut_factor")
-    return joint.preload * tols[k].nominal / points[:, k]
-
-
-def run_joint_study(joint, found, samples=10_000, seed=1, outputs=None) -> Study:
+def run_joint_study(joint, found, build, samples=10_000, seed=1, outputs=None,
+                    progress=None):
     """Study a joint over its toleranced inputs (see :func:`axialfe.tolerance.study.run_study`
-    for the fields of the result).  Outputs are ``<state>:bolt_force`` and
-    ``<state>:clamp_force``; events ``separates`` and ``clamp-below-minimum``."""
-    if not found:
-        raise ModelError("the joint has no toleranced input: write one as, e.g., "
-                         "nut_factor = \"0.2 ±0.03\"", file=joint.source)
-    for t in found:
-        if t.problem:
-            raise ModelError(f"{t.path}: {t.problem}; narrow the tolerance", file=joint.source,
-                             line=t.line)
-    if len(found) > MAX_VERTEX_INPUTS:
-        raise ModelError(f"a joint study takes at most {MAX_VERTEX_INPUTS} toleranced inputs")
-    nominal = solve_joint(joint)
-    states = [s.name for s in nominal.states]
-    known = [f"{s}:{o}" for s in states for o in JOINT_OUTPUTS]
-    if outputs:
-        from ..errors import suggest
+    for the fields of the result).
 
-        for name in outputs:
-            if name not in known:
-                raise ModelError(f"unknown output '{name}'", place="--output",
-                                 hint=suggest(name, known), options=known)
-    chosen = list(dict.fromkeys(outputs)) if outputs else known
-    paths = [t.path for t in found]
-    tols = [t.tolerance for t in found]
-    lower = np.array([t.lower for t in tols])
-    upper = np.array([t.upper for t in tols])
-    corners = np.array(list(itertools.product((0, 1), repeat=len(tols))), dtype=float)
-    vertices = lower + corners * (upper - lower)
-    at_vertex, _, _ = _evaluate(joint, _preloads(joint, paths, tols, vertices), chosen)
-    draws, separated, alone = {}, {}, 0
-    if samples:
-        x = _draw(tols, samples, seed)
-        draws, separated, alone = _evaluate(joint, _preloads(joint, paths, tols, x), chosen)
-    rows = []
-    for name in chosen:
-        state, out = name.rsplit(":", 1)
-        rows.append(vertex_row(name, state, "force", getattr(nominal.state(state), out), at_vertex[(state, out)],
-                               vertices, paths, draws[(state, out)] if samples else None))
-    events = []
-    if samples:
-        for state in states:
-            events.append(_event(state, "separates", state,
-                                 int(np.count_nonzero(separated[state])), samples))
-            if joint.minimum_clamp_force is not None:
-                below = draws[(state, "clamp_force")] < joint.minimum_clamp_force
-                events.append(_event(state, "clamp-below-minimum", state,
-                                     int(np.count_nonzero(below)), samples))
-    notes = ["the preload of each sample is T/(K*d) with its nut factor; the forces of a "
-             "closed joint are affine in the preload, so they come from two solves at the "
-             "ends of the range" + (f"; {alone:,} samples at which the joint separates were "
-                                    "solved one by one" if alone else ""),
-             "worst case by vertices: exact, as the bolt and clamp forces are monotone in "
-             "the nut factor"]
-    notes += input_notes(tols)
-    inputs = input_rows(paths, tols)
-    return Study(title=joint.title, samples=samples, seed=seed, worst_case_method="vertices",
-                 inputs=inputs, outputs=tuple(rows), events=tuple(events), notes=tuple(notes),
-                 draws={(k[0], f"{k[0]}:{k[1]}"): v for k, v in draws.items()
-                        if f"{k[0]}:{k[1]}" in chosen},
-                 units=joint.units)
+    Parameters
+    ----------
+    joint : Joint
+        The joint at its nominal values.
+    found : sequence of Toleranced
+        Its toleranced inputs (:func:`axialfe.joints.reader.read_joint_toleranced`).
+    build : callable
+        ``build({path: SI value})``: the joint read again with those inputs moved.
+
+    Outputs are ``<state>:bolt_force`` and ``<state>:clamp_force``; events
+    ``separates``, ``clamp-below-minimum`` and ``check-fails`` (one per check of
+    each state, and ``checks`` for any of them).
+    """
+    refuse_problems(found, joint.source, "the joint has no toleranced input: write one as, "
+                    "e.g., nut_factor = \"0.2 ±0.03\" or torque = \"70 N*m ±5\"")
+    nominal = solve_joint(joint)
+    values = {f"{s.name}:{o}": (s.name, "force", getattr(s, o)) for s in nominal.states
+              for o in JOINT_OUTPUTS}
+    for name in outputs or ():
+        if name not in values:
+            raise ModelError(f"unknown output '{name}'", place="--output",
+                             hint=suggest(name, list(values)), options=list(values))
+    batch = _Joints(joint, found, build)
+    monotone = all(p.rsplit(".", 1)[-1] in _MONOTONE or p.split(".")[-2] in _MONOTONE
+                   for p in batch.paths)
+    notes = ["each sample by the joint-diagram closed forms on arrays: F_i = T/(K*d) where a "
+             "torque is given (Shigley, 10th ed., eq. 8-27), F_b = F_i + dF_th + C*P and "
+             "F_m = F_i + dF_th - (1 - C)*P until the joint separates, then F_b = P "
+             "(eqs. 8-24, 8-25; from memory)"]
+    return run_closed_study(batch, joint.title, joint.units, values,
+                            list(dict.fromkeys(outputs)) if outputs else list(values),
+                            samples, seed, monotone, notes, progress)
