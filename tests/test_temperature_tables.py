@@ -128,7 +128,6 @@ def test_a_temperature_outside_a_table_is_one_located_error(tmp_path, cli):
 
 @pytest.mark.parametrize("command, what", [
     (("closed-form",), "the closed form"),
-    (("path", "--path", "load 0..1"), "the elastic-plastic path"),
 ])
 def test_commands_that_need_constant_properties_say_so(tmp_path, cli, command, what):
     path = tmp_path / "bar.toml"

@@ -21,7 +21,7 @@ import numpy as np
 from ..errors import ModelError, SolveError
 from ..model import Model
 from ..model.cases import LoadState, load_states
-from ..model.temperature import at_temperature, basis_note, has_tables
+from ..model.temperature import at_temperature, basis_note, has_tables, refuse_tabled_preloads
 from ..results import CaseResult, Solution
 from .active_set import active_set, ground_gaps
 from .assembly import Assembly, assemble, element_loads
@@ -328,12 +328,7 @@ def solve(model: Model, method: str = "auto") -> Solution:
     from .preload import resolve_preloads  # it solves models itself
 
     # the array form: an array model makes no object per segment here
-    preloaded = [model.segments[i].name for i in np.flatnonzero(~np.isnan(model.arrays.preload))]
-    if preloaded and has_tables(model):
-        raise ModelError("a preload in a model with properties against temperature is not "
-                         "solved: give the misfit instead, or constant properties",
-                         file=model.source, line=model.line_of(f"segments.{preloaded[0]}"),
-                         place=f"segments ('{preloaded[0]}')")
+    refuse_tabled_preloads(model)
     model = resolve_preloads(model)  # a preload is a force: find its misfit first
     if has_tables(model):
         return Solution(model, tuple(_solve_at_temperature(model, s, method)

@@ -14,11 +14,14 @@ from __future__ import annotations
 
 import dataclasses
 
+import numpy as np
+
 from ..errors import ModelError
 from ..mechanics.thermal import free_strain, interpolate, outside
 from ..units import kelvin_to_temperature
 
-__all__ = ["has_tables", "at_temperature", "basis_note", "refuse_tables"]
+__all__ = ["has_tables", "at_temperature", "basis_note", "refuse_tables",
+           "refuse_tabled_preloads"]
 
 
 def has_tables(model) -> bool:
@@ -38,6 +41,16 @@ def refuse_tables(model, what: str, instead: str) -> None:
                          place=f"materials.{tabled[0]}")
 
 
+def refuse_tabled_preloads(model) -> None:
+    """Refuse a preload (a force) in a model with tables: its misfit is not searched for there."""
+    preloaded = [model.segments[i].name for i in np.flatnonzero(~np.isnan(model.arrays.preload))]
+    if preloaded and has_tables(model):
+        raise ModelError("a preload in a model with properties against temperature is not "
+                         "solved: give the misfit instead, or constant properties",
+                         file=model.source, line=model.line_of(f"segments.{preloaded[0]}"),
+                         place=f"segments ('{preloaded[0]}')")
+
+
 def basis_note(model) -> str:
     """Which temperature each tabled property is taken at (for the output)."""
     T0 = model.reference_temperature
@@ -51,12 +64,12 @@ def _degc(T):
     return f"{float(kelvin_to_temperature(T, 'degC')):.6g} degC"
 
 
-def _table_value(model, seg, table, key, T, case):
+def _table_value(model, seg, table, key, T, context):
     if outside(table.temperatures, T):
         lo, hi = table.span
         where = (f"the reference temperature is {_degc(T)}"
                  if T == model.reference_temperature else
-                 f"segment '{seg.name}' is at {_degc(T)} in case '{case}'")
+                 f"segment '{seg.name}' is at {_degc(T)} {context}")
         raise ModelError(f"{key}: the table covers {_degc(lo)} to {_degc(hi)}, but {where}: "
                          "extend the table or check the temperature", file=model.source,
                          line=(model.line_of(f"materials.{seg.material.name}.{key}")
@@ -65,7 +78,7 @@ def _table_value(model, seg, table, key, T, case):
     return float(interpolate(table.temperatures, table.values, T))
 
 
-def at_temperature(model, state):
+def at_temperature(model, state, context=None):
     """The model with each tabled segment's properties at its temperature in ``state``.
 
     Parameters
@@ -73,6 +86,9 @@ def at_temperature(model, state):
     model : Model
     state : LoadState
         Its ``dT`` gives each segment's temperature change from the reference.
+    context : str, optional
+        Where the state stands, for the error of a temperature outside a table
+        (default ``"in case 'NAME'"``).
 
     Returns
     -------
@@ -87,6 +103,7 @@ def at_temperature(model, state):
     if not has_tables(model):
         return model
     T0 = model.reference_temperature
+    context = context or f"in case '{state.name}'"
     segments = []
     for i, seg in enumerate(model.segments):
         mat = seg.material
@@ -101,17 +118,17 @@ def at_temperature(model, state):
             key = ("mean_thermal_expansion" if mat.expansion_kind == "mean"
                    else "thermal_expansion_total")
             for at in (T0, T):
-                _table_value(model, seg, table, key, at, state.name)
+                _table_value(model, seg, table, key, at, context)
             strain = float(free_strain(mat.expansion_kind, table.temperatures, table.values,
                                        table.reference, T0, T))
             changes["thermal_expansion"] = strain / dT if dT != 0 else 0.0
         if mat.modulus_table is not None:
             changes["elastic_modulus"] = _table_value(
                 model, seg, mat.modulus_table, "elastic_modulus",
-                T0 if model.modulus_at == "reference" else T, state.name)
+                T0 if model.modulus_at == "reference" else T, context)
         if mat.yield_table is not None:
             changes["yield_strength"] = _table_value(model, seg, mat.yield_table,
-                                                     "yield_strength", T, state.name)
+                                                     "yield_strength", T, context)
         segments.append(dataclasses.replace(seg, material=dataclasses.replace(mat, **changes)))
     return dataclasses.replace(model, segments=tuple(segments))
 

@@ -225,6 +225,14 @@ class _Thermal:
         self.mode, self.value = mode, value
 
 
+def point_state(base, lam, thermal) -> LoadState:
+    """The load state of a point of the path: the case's loads times ``lam``, the thermal input."""
+    dT = (np.full(len(base.dT), float(thermal.value)) if thermal.mode == "change"
+          else thermal.value * base.dT if thermal.mode == "factor" else np.zeros(len(base.dT)))
+    return LoadState(base.name, base.forces * lam, dT, base.settlement * lam,
+                     base.q_factor * lam)
+
+
 def _nodal(asm, delta):
     """Equivalent nodal forces of free changes of length ``delta`` (columns allowed)."""
 
@@ -308,10 +316,7 @@ class _Tracker:
         self.XF = self.elastic(self.state(0.0, _Thermal("factor", 1.0))) - self.X0
 
     def state(self, lam, thermal) -> LoadState:
-        b = self.base
-        dT = (np.full(len(b.dT), float(thermal.value)) if thermal.mode == "change"
-              else thermal.value * b.dT if thermal.mode == "factor" else np.zeros(len(b.dT)))
-        return LoadState(b.name, b.forces * lam, dT, b.settlement * lam, b.q_factor * lam)
+        return point_state(self.base, lam, thermal)
 
     def elastic(self, state):
         """(forces of the plastic segments, gap openings) with no plastic strain, gaps open."""
@@ -468,6 +473,100 @@ class _Tracker:
         return self.system.recover(state, u, F, gl, (delta0 + full, G, W), closed)
 
 
+class _AffineCourse:
+    """A leg on which the properties hold: one tracker, and everything affine in the leg's t.
+
+    ``rate`` is the change of the elastic response per unit t; ``step`` goes from
+    ``t`` to the next event, the least affine root (an elastic segment reaching a
+    bound, a closed gap's force or an open gap's opening reaching zero).
+    :class:`axialfe.tracking.plastictables.TabledCourse` is the same interface for
+    legs over tables against temperature.
+    """
+
+    tol = 1e-10      # the rounding bound of the rates (exact affine responses)
+
+    def __init__(self, tr, dX_el):
+        self.tr, self.dX_el = tr, dX_el
+
+    def tracker(self, t):
+        return self.tr
+
+    def rate(self, t, side, p, gl):
+        return self.dX_el
+
+    def step(self, t, side, z, dg, v, closed, touching, p, gl, N, o):
+        """``(t_next, hit, tension, release, g_hit, p, gl)`` at the next event.
+
+        ``hit``: elastic segments reaching a bound (``tension`` says which);
+        ``release``: segments whose flow stops inside the interval (never here:
+        affine rates keep their sign); ``g_hit``: gaps reaching a change.
+        """
+        tr = self.tr
+        nP = len(side)
+        dp = side * z
+        dN = self.dX_el[:nP] + tr.S @ dp + tr.R @ dg
+        slope = dN - tr.h * dp
+        excess = N - tr.h * p
+        # roots of the elastic segments reaching a bound, of a closed gap's force and an
+        # open gap's opening reaching zero
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            up = np.where((side == 0) & (slope > 0), (tr.Nt - excess) / slope, np.inf)
+            down = np.where((side == 0) & (slope < 0), (-tr.Nc - excess) / slope, np.inf)
+            g_root = np.where(closed & (dg < 0), -gl / dg,
+                              np.where(~closed & ~touching & (v < 0), -o / v, np.inf))
+        root = np.maximum(np.minimum(up, down), 0.0)
+        g_root = np.maximum(g_root, 0.0)
+        t_next = min(float(min(root.min(initial=np.inf), g_root.min(initial=np.inf))) + t, 1.0)
+        if t_next >= 1.0 - _SAME:
+            t_next = 1.0
+        hit = (root + t <= t_next + _SAME) & np.isfinite(root)
+        g_hit = (g_root + t <= t_next + _SAME) & np.isfinite(g_root)
+        step = t_next - t
+        gl = np.where(g_hit & closed, 0.0, np.maximum(gl + dg * step, 0.0))
+        return (t_next, hit, up <= down, np.zeros(nP, dtype=bool), g_hit, p + dp * step, gl)
+
+
+def _motion(leg, thermal):
+    """The leg's rates per unit t in [0, 1]: ``(d load factor, thermal mode, d thermal value)``."""
+    d_lam = d_th = 0.0
+    mode = thermal.mode
+    if leg.parameter == "load":
+        d_lam = leg.stop - leg.start
+    elif leg.parameter == "temperature-factor":
+        mode, d_th = "factor", leg.stop - leg.start
+    else:
+        mode = "change"
+        if leg.parameter == "temperature-change":
+            d_th = (leg.stop - leg.start) * unit_factor(leg.unit, "temperature_difference")
+        else:
+            d_th = (temperature_to_kelvin(leg.stop, leg.unit)
+                    - temperature_to_kelvin(leg.start, leg.unit))
+    return d_lam, mode, d_th
+
+
+def _check_ranges(model, base, legs):
+    """A temperature outside a table anywhere on the path, as one located error, before any solve.
+
+    The temperatures are affine along each leg, so its ends bound them.
+    """
+    from .plastictables import temperatures_at
+
+    lam, thermal = 0.0, _Thermal()
+    temperatures_at(model, base, lam, thermal, "at the start of the path")
+    for leg in legs:          # each leg ends at its own stop
+        if leg.parameter == "load":
+            lam = leg.stop
+        elif leg.parameter == "temperature-factor":
+            thermal = _Thermal("factor", leg.stop)
+        elif leg.parameter == "temperature-change":
+            thermal = _Thermal("change", leg.stop * unit_factor(leg.unit,
+                                                                "temperature_difference"))
+        else:
+            thermal = _Thermal("change", temperature_to_kelvin(leg.stop, leg.unit)
+                               - model.reference_temperature)
+        temperatures_at(model, base, lam, thermal, f"on leg {leg.index} of the path")
+
+
 def _current(leg, lam, thermal, reference):
     """The current value of the leg's parameter, in its unit (None: it cannot be told)."""
     if leg.parameter == "load":
@@ -521,13 +620,21 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     1.0
     """
     from ..engine.preload import resolve_preloads
-    from ..model.temperature import refuse_tables
+    from ..model.temperature import basis_note, has_tables, refuse_tabled_preloads
 
-    refuse_tables(model, "the elastic-plastic path", "give constant properties (their values "
-                  "at the temperatures of interest)")
+    refuse_tabled_preloads(model)
     model = resolve_preloads(model)
     base = pick_state(model, case)
-    tr = _Tracker(model, base)
+    tabled = has_tables(model)
+    if tabled:
+        from .plastictables import TabledCourse, tracker_at
+
+        _check_ranges(model, base, legs)
+
+        reference_tracker = tracker_at(model, base, 0.0, _Thermal(), "at the start of the path")
+    else:
+        reference_tracker = _Tracker(model, base)
+    tr = reference_tracker
     P, names = tr.P, [model.segments[i].name for i in tr.P]
     gap_names = [gp.name for gp in model.gaps]
     reference = model.reference_temperature
@@ -535,6 +642,9 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
         raise ModelError("a leg of absolute temperature needs settings.reference_temperature",
                          file=model.source, place="settings")
     notes = []
+    if tabled:
+        notes.append(basis_note(model) + "; on legs that change the temperature the events are "
+                     "found by bracketed root-finding between the table entries")
     if not len(P):
         notes.append("no segment is elastic-plastic (behaviour = \"elastic-plastic\"): the path "
                      "is linear-elastic")
@@ -575,29 +685,24 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             raise ModelError(f"leg {leg.index} starts at {leg.start:g}{shown}, but the "
                              f"{leg.parameter.replace('-', ' ')} is {now:.6g}{shown} there: start "
                              "the leg where the path stands", place="--path")
-        # the leg's rates of (load factor, thermal value) per unit t in [0, 1]
         lam0, th0 = lam, _Thermal(thermal.mode, thermal.value)
-        d_lam = d_th = 0.0
-        mode = thermal.mode
-        if leg.parameter == "load":
-            d_lam = leg.stop - leg.start
-        elif leg.parameter == "temperature-factor":
-            mode, d_th = "factor", leg.stop - leg.start
-        else:
-            mode = "change"
-            if leg.parameter == "temperature-change":
-                d_th = (leg.stop - leg.start) * unit_factor(leg.unit, "temperature_difference")
-            else:
-                d_th = (temperature_to_kelvin(leg.stop, leg.unit)
-                        - temperature_to_kelvin(leg.start, leg.unit))
-        dX_el = d_lam * tr.XL + d_th * (tr.XU if mode == "change" else tr.XF)
+        d_lam, mode, d_th = _motion(leg, thermal)
         moved = np.zeros(len(P))
         t = 0.0
 
-        def at(t_):
-            return lam0 + t_ * d_lam, _Thermal(mode, th0.value + t_ * d_th)
+        def at(t_, lam0=lam0, d_lam=d_lam, mode=mode, th0=th0.value, d_th=d_th):
+            return lam0 + t_ * d_lam, _Thermal(mode, th0 + t_ * d_th)
 
+        if tabled and d_th != 0:
+            course = TabledCourse(model, base, at, leg)
+        else:
+            if tabled:   # the temperatures hold on this leg: so do the properties
+                tr = tracker_at(model, base, *at(0.0), f"on leg {leg.index} of the path")
+            course = _AffineCourse(tr, d_lam * tr.XL
+                                   + d_th * (tr.XU if mode == "change" else tr.XF))
         for _ in range(10_000 + 100 * (len(P) + tr.g)):
+            tr = course.tracker(t)
+            dX_el = course.rate(t, side, p, gl)
             held = closed & (gl > 0)
             contact = touching | (closed & ~held)
             z, w, dg, v = tr.rates(side, held, contact, dX_el)
@@ -641,13 +746,13 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
                 events.append(PathEvent(leg.index, ", ".join(n for n, s in zip(names, side) if s),
                                         "collapses", leg.value(t)))
                 break
-            tol_w = 1e-10 * max(np.abs(dX_el[:len(P)]).max(initial=0.0), 1e-300)
+            tol_w = course.tol * max(np.abs(dX_el[:len(P)]).max(initial=0.0), 1e-300)
             leave = (side != 0) & (z <= 0) & (w > tol_w)
             # the gaps in contact: closed where their force grows, open where they part (a
             # gap event exactly at a leg's end belongs to that leg: `pending`)
-            tol_v = 1e-10 * max(np.abs(dX_el[len(P):]).max(initial=0.0),
-                                np.abs(v).max(initial=0.0), 1e-300)
-            tol_g = 1e-10 * max(np.abs(dg).max(initial=0.0), 1e-300)
+            tol_v = course.tol * max(np.abs(dX_el[len(P):]).max(initial=0.0),
+                                     np.abs(v).max(initial=0.0), 1e-300)
+            tol_g = course.tol * max(np.abs(dg).max(initial=0.0), 1e-300)
             decided = contact & ((dg > tol_g) | (v > tol_v))
             now_closed = np.where(decided, dg > tol_g, closed)
             for j in np.flatnonzero(now_closed != closed):
@@ -667,34 +772,14 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             side = np.where(leave, 0, side)
             flowing = z > 0
             dg = np.where(closed, dg, 0.0)
-            dp = side * z
-            dN = dX_el[:len(P)] + tr.S @ dp + tr.R @ dg
-            slope = dN - tr.h * dp
-            excess = N - tr.h * p
-            # roots of the elastic segments reaching a bound, of a closed gap's force and an
-            # open gap's opening reaching zero
-            with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-                up = np.where((side == 0) & (slope > 0), (tr.Nt - excess) / slope, np.inf)
-                down = np.where((side == 0) & (slope < 0), (-tr.Nc - excess) / slope, np.inf)
-                g_root = np.where(closed & (dg < 0), -gl / dg,
-                                  np.where(~closed & ~touching & (v < 0), -o / v, np.inf))
-            root = np.maximum(np.minimum(up, down), 0.0)
-            g_root = np.maximum(g_root, 0.0)
-            t_next = min(float(min(root.min(initial=np.inf), g_root.min(initial=np.inf))) + t,
-                         1.0)
-            if t_next >= 1.0 - _SAME:
-                t_next = 1.0
-            hit = (root + t <= t_next + _SAME) & np.isfinite(root)
-            g_hit = (g_root + t <= t_next + _SAME) & np.isfinite(g_root)
-            step = t_next - t
-            p = p + dp * step
-            gl = np.where(g_hit & closed, 0.0, np.maximum(gl + dg * step, 0.0))
-            moved += np.abs(dp) * step
-            t = t_next
+            t_next, hit, tension, release, g_hit, p_next, gl = course.step(
+                t, side, z, dg, v, closed, touching, p, gl, N, o)
+            moved += np.abs(p_next - p)
+            p, t = p_next, t_next
             lam, thermal = at(t)
+            tr = course.tracker(t)
             N, o = tr.response(lam, thermal, p, gl)
-            for j in np.flatnonzero(hit):
-                side[j] = 1 if up[j] <= down[j] else -1
+            side = np.where(hit, np.where(tension, 1, -1), np.where(release, 0, side))
             for j in np.flatnonzero(g_hit):
                 pending[j] = (leg.index, leg.value(t))
                 touching[j] = touching[j] or not closed[j]
@@ -707,8 +792,11 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
         activity.append(moved)
         plastic = np.zeros(len(model.segments))
         plastic[P] = p / tr.asm.length[P] if len(P) else 0.0
+        # the plastic displacement: what stays with every load and thermal input removed
+        # elastically, so with the stiffness at the reference temperature
         states.append(PathState(leg.index, leg.value(t), tr.result(lam, thermal, p, gl, closed),
-                                plastic, tr.U @ p if len(P) else np.zeros(len(model.stations))))
+                                plastic, reference_tracker.U @ p if len(P)
+                                else np.zeros(len(model.stations))))
         plastic_at_end.append(p.copy())
         if collapsed_on is not None:
             left = [g.index for g in legs if g.index > leg.index]
@@ -719,7 +807,8 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             break
     cycles = None
     if cycle_legs:
-        cycles = _cycle_outcome(cycle_legs, activity, plastic_at_end, tr.yield_elongation,
+        cycles = _cycle_outcome(cycle_legs, activity, plastic_at_end,
+                                reference_tracker.yield_elongation,
                                 collapsed_on, notes)
     return PathResult(tuple(legs), tuple(events), tuple(states), cycles, collapsed_on,
                       tuple(history), tuple(notes), model, base.name)

@@ -440,6 +440,9 @@ def hostile_cases():
                                                     "cases__1__temperature"))
     add("table:modulus-at", _with(settings__modulus_at="installed"))
     add("table:preload", _with(segments__2__preload="5 kN"))
+    # tables against temperature on an elastic-plastic path (the case and path in PATHS)
+    for name in PATHS:
+        add(name, base)
     # toleranced values
     add("tolerance:trailing-plus-minus", _with(gaps__0__clearance="0.20 mm ±"))
     add("tolerance:deviations-reversed", _with(segments__0__misfit="0.1 mm -0.02/+0.03"))
@@ -469,6 +472,14 @@ def _set(data, path, value):
     return data
 
 
+# entries run through `axialfe path` instead of `solve`: name -> (case, path)
+PATHS = {
+    "path:table-above": ("cold", "temperature-change 0 K..500 K"),
+    "path:table-below": ("hot", "temperature 20 degC..-80 degC"),
+    "path:table-factor-later-leg": ("cold", "temperature-factor 0..1; temperature-factor 1..2.5"),
+}
+
+
 def all_cases():
     seen, out = set(), []
     for name, text in schema_cases() + hostile_cases():
@@ -479,15 +490,24 @@ def all_cases():
     return out
 
 
-def outcome(text: str) -> str:
-    """The one line the tool gives for ``text``: ``error: ...``, or ``solved: ...``."""
+def outcome(text: str, name: str | None = None) -> str:
+    """The one line the tool gives for ``text``: ``error: ...``, or ``solved: ...``.
+
+    An entry named in ``PATHS`` is tracked along its path instead of solved.
+    """
     from axialfe.cli.guards import numerics_guarded
     from axialfe.engine.system import solve
     from axialfe.errors import AxialfeError
     from axialfe.io.modelfile import parse_model
+    from axialfe.tracking.plastic import parse_path, track_path
 
     try:
         with numerics_guarded("m.toml"):
+            if name in PATHS:
+                case, path = PATHS[name]
+                legs, groups = parse_path(path)
+                track_path(parse_model(text, "m.toml"), legs, case, groups)
+                return "tracked"
             solution = solve(parse_model(text, "m.toml"))
     except AxialfeError as exc:
         return f"error: {exc}"
@@ -496,7 +516,7 @@ def outcome(text: str) -> str:
 
 
 def regenerate():
-    lines = [f"{name}\t{outcome(text)}" for name, text in all_cases()]
+    lines = [f"{name}\t{outcome(text, name)}" for name, text in all_cases()]
     with open(EXPECTED, "w", encoding="utf-8") as fh:
         fh.write("\n".join(lines) + "\n")
     print(f"wrote {len(lines)} expected lines to {EXPECTED}")

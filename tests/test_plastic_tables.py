@@ -1,0 +1,242 @@
+"""Elastic-plastic paths over tables against temperature: events by root-finding, residual stress.
+
+The references: a bar fixed between rigid walls and heated carries
+sigma = -E*eps_th until it yields (Gere & Goodno, Mechanics of Materials,
+sec. 2.5, thermal effects, sigma = E*alpha*dT, from memory); with properties
+against temperature the same equilibrium and compatibility give
+E(T)*(eps_th(T) + eps_p) = -sigma at each temperature, which the tests solve
+on their own with scipy's brentq on the tables interpolated here by numpy,
+not by the tool (common practice for temperature-dependent properties).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from hypothesis import given, settings, strategies as st
+from scipy.optimize import brentq
+
+from axialfe import Load, Model, ModelError, Segment, Station, Support
+from axialfe.model import Case, Material, PropertyTable
+from axialfe.plastic import collapse
+from axialfe.tracking.plastic import parse_path, track_path
+
+from conftest import area, assert_close, examples
+
+C = 273.15
+T0 = 20 + C                                     # the model's and the tables' reference
+TEMPS = np.array([20.0, 200.0, 400.0]) + C
+E_TAB = np.array([203e9, 191e9, 178e9])
+FY_TEMPS, FY_TAB = np.array([20.0, 400.0]) + C, np.array([250e6, 180e6])
+ALPHA_TAB = np.array([11.5e-6, 12.2e-6, 13.0e-6])   # mean coefficients from 20 degC
+A = 1e-4
+
+
+def E_of(T):
+    return float(np.interp(T, TEMPS, E_TAB))
+
+
+def fy_of(T):
+    return float(np.interp(T, FY_TEMPS, FY_TAB))
+
+
+def strain_of(T):
+    """The free strain from 20 degC: the mean coefficient at T times (T - 20 degC)."""
+    return float(np.interp(T, TEMPS, ALPHA_TAB)) * (T - T0)
+
+
+def hot_steel(name="hot"):
+    return Material(name, E_TAB[0], 0.0, FY_TAB[0], behaviour="elastic-plastic",
+                    modulus_table=PropertyTable(TEMPS, E_TAB),
+                    yield_table=PropertyTable(FY_TEMPS, FY_TAB),
+                    expansion_table=PropertyTable(TEMPS, ALPHA_TAB, reference=T0),
+                    expansion_kind="mean")
+
+
+def restrained(mat=None, **kw):
+    mat = mat or hot_steel()
+    return Model([Station("a", 0.0), Station("b", 1.0)],
+                 [Segment("bar", "a", "b", mat, area("r", A))],
+                 [Support("a"), Support("b")], reference_temperature=T0, **kw)
+
+
+def run(model, text, case=None, cycles=None, cycle_from=None):
+    legs, groups = parse_path(text, cycles, cycle_from)
+    return track_path(model, legs, case, groups)
+
+
+def events(result):
+    return [(e.leg, e.name, e.event) for e in result.events]
+
+
+def first_yield():
+    """The temperature at which E(T)*eps_th(T) = f_y(T), by brentq on the tables here."""
+    return brentq(lambda T: E_of(T) * strain_of(T) - fy_of(T), T0 + 1.0, 400 + C, xtol=1e-13)
+
+
+def test_heated_restrained_bar_first_yields_at_the_root_of_E_eps_th_equal_f_y():
+    T_y = first_yield()
+    assert 100 + C < T_y < 200 + C          # inside the first interval of the modulus table
+    result = run(restrained(), "temperature 20 degC..300 degC")
+    assert events(result) == [(1, "bar", "yields")]
+    assert_close(result.events[0].value + C, T_y, rel=1e-11)
+    end = result.states[0]
+    T = 300 + C
+    assert_close(end.result.stress[0, 0], -fy_of(T), rel=1e-10)
+    # eps = 0 = eps_th + sigma/E + eps_p at 300 degC
+    assert_close(end.plastic_strain[0], -(strain_of(T) - fy_of(T) / E_of(T)), rel=1e-9)
+
+
+def test_heated_past_yield_and_cooled_back_keeps_the_residual_stress_of_the_tables():
+    # heated to 180 degC, then cooled to 20 degC: the plastic strain of 180 degC stays and
+    # the bar unloads elastically with E(20 degC): sigma_res = -E(20)*eps_p
+    Tm = 180 + C
+    eps_p = -(strain_of(Tm) - fy_of(Tm) / E_of(Tm))
+    result = run(restrained(), "temperature 20 degC..180 degC; temperature 180 degC..20 degC")
+    assert events(result) == [(1, "bar", "yields"), (2, "bar", "unloads")]
+    assert result.events[1].value == 180.0
+    assert_close(result.states[1].result.stress[0, 0], -E_of(T0) * eps_p, rel=1e-9)
+    assert -E_of(T0) * eps_p < fy_of(T0)     # so no yield on the way back
+    assert_close(result.states[1].plastic_strain[0], eps_p, rel=1e-9)
+
+
+def test_heated_to_300_degC_the_bar_yields_again_in_tension_on_cooling():
+    # the residual tension of 300 degC, -E(T)*(eps_th(T) + eps_p), reaches f_y(T) on the way
+    # down: the root of that equation, found here by brentq
+    Tm = 300 + C
+    eps_p = -(strain_of(Tm) - fy_of(Tm) / E_of(Tm))
+    T_r = brentq(lambda T: -E_of(T) * (strain_of(T) + eps_p) - fy_of(T), T0, Tm - 1.0,
+                 xtol=1e-13)
+    result = run(restrained(), "temperature 20 degC..300 degC; temperature 300 degC..20 degC")
+    assert events(result) == [(1, "bar", "yields"), (2, "bar", "unloads"), (2, "bar", "yields")]
+    assert_close(result.events[2].value + C, T_r, rel=1e-11)
+    final = result.states[1]
+    assert_close(final.result.stress[0, 0], fy_of(T0), rel=1e-10)
+    # sigma = E(20 degC)*(0 - eps_th(20 degC) - eps_p) with eps_th(20 degC) = 0
+    assert_close(final.plastic_strain[0], -fy_of(T0) / E_of(T0), rel=1e-9)
+
+
+def test_a_yield_strength_rising_faster_than_the_force_unloads_the_bar_while_heating():
+    # f_y falls from 250 MPa to 100 MPa at 200 degC and rises to 580 MPa at 400 degC.  A bar
+    # that yields in compression on the way up keeps sigma = -f_y(T), so its plastic strain
+    # is eps_p(T) = f_y(T)/E(T) - eps_th(T) (eps = 0 between the walls); past 200 degC f_y
+    # rises, and from about 330 degC faster than the restrained stress: eps_p reaches its
+    # least value inside the table's interval and the bar
+    # unloads while the temperature still rises: at the root of d eps_p/dT = 0.  Between
+    # 200 and 400 degC, f_y, E and alpha_m are linear in T (slopes b, e, g), so by hand
+    # d eps_p/dT = b/E - f_y*e/E^2 - g*(T - T0) - alpha_m, solved here by brentq
+    fy_t, fy_v = np.array([20.0, 200.0, 400.0]) + C, np.array([250e6, 100e6, 580e6])
+    mat = Material("dip", E_TAB[0], 0.0, fy_v[0], behaviour="elastic-plastic",
+                   modulus_table=PropertyTable(TEMPS, E_TAB),
+                   yield_table=PropertyTable(fy_t, fy_v),
+                   expansion_table=PropertyTable(TEMPS, ALPHA_TAB, reference=T0),
+                   expansion_kind="mean")
+    b, e, g = 480e6 / 200, -13e9 / 200, 0.8e-6 / 200
+
+    def eps_p(T):
+        return float(np.interp(T, fy_t, fy_v)) / E_of(T) - strain_of(T)
+
+    def rate(T):
+        fy, E = float(np.interp(T, fy_t, fy_v)), E_of(T)
+        return b / E - fy * e / E ** 2 - g * (T - T0) - float(np.interp(T, TEMPS, ALPHA_TAB))
+
+    T_u = brentq(rate, 250 + C, 380 + C, xtol=1e-12)
+    result = run(restrained(mat), "temperature 20 degC..380 degC")
+    assert [e.event for e in result.events] == ["yields", "unloads"]
+    assert_close(result.events[1].value + C, T_u, rel=1e-9)
+    # beyond it the bar is elastic, with the plastic strain of the release
+    assert_close(result.states[0].plastic_strain[0], eps_p(T_u), rel=1e-8)
+
+
+@pytest.mark.parametrize("top, outcome", [(180.0, "shakedown"), (300.0, "alternating")])
+def test_thermal_cycling_over_tables_shakes_down_or_alternates(top, outcome):
+    # 180 degC: the residual tension on cooling stays below f_y(T) (test above), so the
+    # cycles after the first are elastic; 300 degC: the bar yields both ways every cycle
+    result = run(restrained(), f"temperature 20 degC..{top} degC; "
+                 f"temperature {top} degC..20 degC", cycles=3)
+    assert result.cycles == {"count": 3, "outcome": outcome, "decided_at": 2}
+
+
+def test_modulus_at_the_reference_temperature_is_said_and_used():
+    model = restrained(modulus_at="reference")
+    result = run(model, "temperature 20 degC..300 degC")
+    T_y = brentq(lambda T: E_of(T0) * strain_of(T) - fy_of(T), T0 + 1.0, 400 + C, xtol=1e-13)
+    assert_close(result.events[0].value + C, T_y, rel=1e-11)
+    assert any("E at the reference temperature 20 degC" in n for n in result.notes)
+
+
+def test_the_collapse_of_a_path_over_tables_is_the_limit_load_at_that_temperature():
+    # fixed bar with an interior load, both parts at 300 degC: the path heats, then loads to
+    # collapse; the static theorem (Gere & Goodno, sec. 2.12, from memory) gives
+    # P_P = f_y(300 degC)*(A1 + A2) whatever the thermal stresses
+    mat = hot_steel()
+    model = Model([Station("A", 0.0), Station("C", 0.4), Station("B", 1.0)],
+                  [Segment("AC", "A", "C", mat, area("s1", 3e-4)),
+                   Segment("CB", "C", "B", mat, area("s2", 1e-4))],
+                  [Support("A"), Support("B")],
+                  cases=[Case("hot", loads=(Load("C", 1e3),), temperature_change=(("all", 280.0),))],
+                  reference_temperature=T0)
+    limit = collapse(model, check_buckling=False).load_factor
+    assert_close(limit * 1e3, fy_of(300 + C) * 4e-4)
+    result = run(model, "temperature-factor 0..1; load 0..100")
+    assert result.collapsed_on == 2
+    assert_close(result.events[-1].value, limit, rel=1e-9)
+
+
+def test_a_temperature_outside_a_table_on_a_path_names_the_leg_and_the_material():
+    with pytest.raises(ModelError) as err:
+        run(restrained(), "temperature 20 degC..300 degC; temperature 300 degC..450 degC")
+    assert str(err.value) == (
+        "materials.hot: mean_thermal_expansion: the table covers 20 degC to 400 degC, but "
+        "segment 'bar' is at 450 degC on leg 2 of the path (case 'base'): extend the table or "
+        "check the temperature")
+
+
+# --- constant tables give the constant path (hypothesis) -----------------------------------
+@st.composite
+def heated_series_parallel(draw):
+    stages = draw(st.integers(1, 3))
+    stations = [Station(f"s{i}", float(i)) for i in range(stages + 1)]
+    pairs = []
+    for i in range(stages):
+        for j in range(draw(st.integers(1, 2))):
+            E = draw(st.sampled_from([70e9, 200e9]))
+            alpha = draw(st.sampled_from([11e-6, 23e-6]))
+            fy = draw(st.sampled_from([200e6, 240e6, 355e6]))
+            H = draw(st.sampled_from([0.0, 0.0, 2e9]))
+            plain = Material(f"m{i}{j}", E, alpha, fy, behaviour="elastic-plastic",
+                             hardening_modulus=H)
+            temps = (T0 - 50.0, T0 + 150.0, T0 + 400.0)
+            tabled = Material(f"m{i}{j}", E, 0.0, fy, behaviour="elastic-plastic",
+                              hardening_modulus=H,
+                              modulus_table=PropertyTable(temps, (E,) * 3),
+                              yield_table=PropertyTable(temps, (fy,) * 3),
+                              expansion_table=PropertyTable(temps, (alpha,) * 3, reference=T0),
+                              expansion_kind="mean")
+            a = draw(st.sampled_from([1e-4, 2e-4]))
+            pairs.append(((f"e{i}{j}", f"s{i}", f"s{i + 1}"), plain, tabled, a))
+    loads = (Load(f"s{draw(st.integers(1, stages))}", draw(st.sampled_from([-8e3, 5e3]))),)
+    dT = draw(st.sampled_from([120.0, 250.0]))
+    lam = draw(st.sampled_from([1.0, 3.0]))
+
+    def build(k):
+        return Model(stations, [Segment(*ends, m[k], area(f"a{n}", a))
+                                for n, (ends, *m, a) in enumerate(pairs)],
+                     [Support("s0"), Support(f"s{stages}")], loads, reference_temperature=T0)
+
+    return build(0), build(1), dT, lam
+
+
+@settings(max_examples=examples(12))
+@given(heated_series_parallel())
+def test_constant_valued_tables_give_the_constant_property_path(case):
+    plain, tabled, dT, lam = case
+    text = (f"temperature-change 0 K..{dT} K; load 0..{lam}; temperature-change {dT} K..0 K; "
+            f"load {lam}..0")
+    a, b = run(plain, text), run(tabled, text)
+    assert events(a) == events(b)
+    assert_close([e.value for e in b.events], [e.value for e in a.events], rel=1e-9, abs_=1e-9)
+    for sa, sb in zip(a.states, b.states):
+        scale = max(np.abs(sa.result.axial_force).max(), 1.0)
+        assert_close(sb.result.axial_force, sa.result.axial_force, rel=1e-9, abs_=1e-9 * scale)
+        assert_close(sb.plastic_strain, sa.plastic_strain, rel=1e-8, abs_=1e-12)
