@@ -267,6 +267,16 @@ def unit_factor(unit: str, kind: str) -> float:
     UnitError
         When the unit is unknown, offset (like degC) or not of ``kind``.
     """
+    found = _FACTORS.get((unit, kind))   # a unit of a kind asked once is known
+    if found is None:
+        found = _FACTORS[unit, kind] = _unit_factor(unit, kind)
+    return found
+
+
+_FACTORS: dict = {}
+
+
+def _unit_factor(unit: str, kind: str) -> float:
     if kind == "temperature_difference" and unit.strip().lower() in _AS_DIFFERENCE:
         unit = _AS_DIFFERENCE[unit.strip().lower()]
     scale, offset, dim = _parse_unit(unit)

@@ -58,18 +58,17 @@ def _grid(headers, rows, indent="  ", width=None):
     """
     if width == "terminal":
         width = terminal_width()
-    cells = [[str(c) for c in r] for r in rows]
-    widths = [max(len(h), *(len(r[i]) for r in cells)) if cells else len(h)
-              for i, h in enumerate(headers)]
-    numeric = [all(_is_number(r[i]) for r in cells) and bool(cells) for i in range(len(headers))]
+    cells = [list(map(str, r)) for r in rows]
+    columns_of = list(zip(*cells)) if cells else [()] * len(headers)
+    widths = [max(len(h), max(map(len, col), default=0)) for h, col in zip(headers, columns_of)]
+    numeric = [bool(col) and _all_numbers(col) for col in columns_of]
 
     def block(columns):
-        def line(parts):
-            return indent + "  ".join(parts[i].rjust(widths[i]) if numeric[i]
-                                      else parts[i].ljust(widths[i]) for i in columns).rstrip()
-
-        out = [line(list(headers)), indent + "  ".join("-" * widths[i] for i in columns)]
-        return out + [line(r) for r in cells]
+        # one format per block: numbers right, names left, each in its column's width
+        fmt = indent + "  ".join(f"{{{i}:{'>' if numeric[i] else '<'}{widths[i]}}}"
+                                 for i in columns)
+        out = [fmt.format(*headers).rstrip(), indent + "  ".join("-" * widths[i] for i in columns)]
+        return out + [fmt.format(*r).rstrip() for r in cells]
 
     blocks, current = [], [0]
     for i in range(1, len(headers)):
@@ -85,11 +84,31 @@ def _grid(headers, rows, indent="  ", width=None):
     return out
 
 
-def _wrapped(text, width, first, rest):
-    import textwrap
+_OTHER_SPACE = re.compile(r"[\t\n\x0b\x0c\r]|  |^ | $")
 
-    return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
-                         break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+
+def _wrapped(text, width, first, rest):
+    """``text`` wrapped at its spaces to ``width``, its first line after ``first``, the others
+    after ``rest``; a word longer than the line stands alone.  Text whose words are set apart
+    by single spaces (every note and message) is filled here, greedily, as ``textwrap`` fills
+    it; any other goes to ``textwrap`` itself."""
+    if not text or _OTHER_SPACE.search(text):
+        import textwrap
+
+        return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
+                             break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+    out, line, empty = [], first, True
+    for word in text.split(" "):
+        if empty:
+            line += word
+            empty = False
+        elif len(line) + 1 + len(word) <= width:
+            line += " " + word
+        else:
+            out.append(line)
+            line = rest + word
+    out.append(line)
+    return out
 
 
 def _fit_grid(headers, rows, indent="  "):
@@ -133,9 +152,11 @@ def _footnotes(notes, width, title=" notes:"):
     return out
 
 
-def _is_number(text):
+def _all_numbers(texts) -> bool:
+    """Whether every text reads as a number (``float`` takes it)."""
     try:
-        float(text)
+        for _ in map(float, texts):
+            pass
         return True
     except ValueError:
         return False
