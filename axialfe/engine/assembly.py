@@ -31,7 +31,7 @@ class Assembly:
     length, stiffness : ndarray
         Segment length L and axial stiffness k.
     area : ndarray, shape (m, 2)
-        Area at the ``from`` and ``to`` end.
+        Area at the ``from`` and ``to`` end (made on first use).
     modulus, expansion : ndarray
         E and alpha of each segment.
     misfit, q : ndarray
@@ -40,8 +40,10 @@ class Assembly:
         integral(s/EA ds): the compatibility term of a unit local load per length.
     w_self, g_self : ndarray
         Total local self-weight W and its compatibility term G.
-    factors : ndarray, shape (m, 5)
+    sections : tuple of ndarray
         Section factors (c, p1, q1, p2, q2) of each segment (A = c*P*Q).
+    factors : ndarray, shape (m, 5)
+        The same as one table (made on first use).
     rho_g : ndarray
         Density times the gravity component along each segment's direction.
     terms : ElementTerms
@@ -57,7 +59,6 @@ class Assembly:
     direction: np.ndarray
     length: np.ndarray
     stiffness: np.ndarray
-    area: np.ndarray
     modulus: np.ndarray
     expansion: np.ndarray
     misfit: np.ndarray
@@ -65,7 +66,7 @@ class Assembly:
     g_unit_q: np.ndarray
     w_self: np.ndarray
     g_self: np.ndarray
-    factors: np.ndarray
+    sections: tuple
     rho_g: np.ndarray
     terms: object
 
@@ -75,6 +76,17 @@ class Assembly:
             value = getattr(self, name)
             if isinstance(value, np.ndarray):
                 value.setflags(write=False)
+
+    @functools.cached_property
+    def area(self):
+        """The area at the ``from`` and ``to`` end of each segment, shape (m, 2)."""
+        return _read_only(np.column_stack([self.terms.area_from, self.terms.area_to]))
+
+    @functools.cached_property
+    def factors(self):
+        """The section factors (c, p1, q1, p2, q2) of each segment, shape (m, 5)."""
+        c, p1, q1, p2, q2 = self.sections
+        return _read_only(np.column_stack([np.broadcast_to(c, self.length.shape), p1, q1, p2, q2]))
 
     @functools.cached_property
     def forward(self) -> bool:
@@ -131,11 +143,14 @@ def assemble(model: Model) -> Assembly:
     k = terms.stiffness
     misfit, q = arr.misfit, arr.distributed_load
     return Assembly(n=n, start=start, end=end, direction=direction, length=length, stiffness=k,
-                    area=np.column_stack([terms.area_from, terms.area_to]), modulus=E,
-                    expansion=alpha, misfit=misfit, q=q, g_unit_q=terms.g_unit_q,
-                    w_self=terms.w_self, g_self=terms.g_self,
-                    factors=np.column_stack([np.broadcast_to(c, length.shape), p1, q1, p2, q2]),
+                    modulus=E, expansion=alpha, misfit=misfit, q=q, g_unit_q=terms.g_unit_q,
+                    w_self=terms.w_self, g_self=terms.g_self, sections=(c, p1, q1, p2, q2),
                     rho_g=rho_g, terms=terms)
+
+
+def _read_only(value):
+    value.setflags(write=False)
+    return value
 
 
 def element_loads(asm: Assembly, dT, q_factor=1.0):
