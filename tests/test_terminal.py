@@ -6,6 +6,8 @@ import json
 import os
 
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from axialfe import Load, Material, Model, Section, Segment, Station, Support, solve
 from axialfe.output.text import to_table
@@ -251,3 +253,17 @@ def test_a_dotted_table_name_says_to_quote_it(tmp_path, cli):
         '[materials."bolt-8.8"]')
     quoted = text.replace("[materials.bolt-8.8]", '[materials."bolt-8.8"]')
     assert cli("solve", _file(tmp_path, quoted, "q.toml")).exit_code == 0
+
+
+@given(st.lists(st.text(alphabet="abc-'.(xyz", min_size=1, max_size=14), min_size=1, max_size=30),
+       st.integers(1, 60), st.sampled_from([("", ""), (" ", "   "), ("  12. ", "      ")]))
+def test_notes_wrap_as_textwrap_wraps_them(words, width, indents):
+    # the fill of text set apart by single spaces is textwrap's (standard library), word for word
+    import textwrap
+
+    from axialfe.output.text import _wrapped
+
+    text = " ".join(words)
+    expected = textwrap.wrap(text, width, initial_indent=indents[0], subsequent_indent=indents[1],
+                             break_on_hyphens=False, break_long_words=False)
+    assert _wrapped(text, width, *indents) == expected

@@ -184,7 +184,7 @@ def _stack_samples(n=200, seed=5):
     from axialfe.tolerance.study import _draw
 
     joint, found, build = read_joint_toleranced(STACK)
-    joints = _Joints(joint, found, build, None)
+    joints = _Joints(joint, found, build)
     x = _draw([t.tolerance for t in found], n, seed)
     return joint, found, build, joints, x, joints.evaluate(x)
 
@@ -193,23 +193,25 @@ def test_every_sample_of_many_toleranced_inputs_agrees_with_the_joint_solver():
     # torque, nut factor, thicknesses, a modulus, temperatures and loads all drawn: each
     # sample's forces and check verdicts are those of solve_joint on the file read again
     # with the sample's values (the engine's axial model, an independent path)
-    joint, found, build, joints, x, (out, separated, checks, _) = _stack_samples()
+    joint, found, build, joints, x, (out, flags, _) = _stack_samples()
     assert len(found) == 9
     for i in range(0, 200, 9):
         result = solve_joint(build(dict(zip(joints.paths, x[i].tolist()))))
         for st in result.states:
             for o in ("bolt_force", "clamp_force"):
                 assert out[f"{st.name}:{o}"][i] == pytest.approx(getattr(st, o), rel=1e-12)
-            assert separated[st.name][i] == st.separated
+            assert flags[(st.name, "separates", st.name)][i] == st.separated
         for case in result.checks.cases:
             for e in case.entries:
-                assert checks[(case.case, e.kind)][i] == (-1 if e.ok is None else int(e.ok))
+                assert flags[(e.kind, "check-fails", case.case)][i] == (e.ok is False)
+            assert flags[("checks", "check-fails", case.case)][i] == any(
+                e.ok is False for e in case.entries)
 
 
 def test_a_toleranced_torque_gives_the_preload_t_over_k_d_of_each_sample():
     # F_i = T/(K*d) (Shigley, Mechanical Engineering Design, 10th ed., eq. 8-27, from
     # memory) with both the torque and the nut factor drawn, M10: d = 10 mm
-    _, found, _, joints, x, (out, _, _, _) = _stack_samples(n=2000, seed=8)
+    _, found, _, joints, x, (out, _, _) = _stack_samples(n=2000, seed=8)
     col = {t.path: j for j, t in enumerate(found)}
     T, K = x[:, col["assembly.torque"]], x[:, col["assembly.nut_factor"]]
     assert np.allclose(out["assembly:bolt_force"], T / (K * 0.010), rtol=1e-12, atol=0)

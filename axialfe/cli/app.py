@@ -222,10 +222,13 @@ def solve(model: ModelPath,
               "--brief", help="Print only each case's reactions and notes, and the governing "
               "check (table format).")] = False):
     """Solve a model: displacements, segment forces and stresses, reactions, gaps, checks."""
+    from .._gcpause import gc_paused
     from ..output.text import render
     from ..engine.system import solve as run
 
-    with user_errors(model):
+    # one pass over one model makes millions of small objects and no lasting cycles: the
+    # cyclic collector would rescan them all many times over (a third of a big model's time)
+    with user_errors(model), gc_paused():
         outputs([model], ("--output", output))
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit,
                         temperature_unit.value if temperature_unit else None)
@@ -235,8 +238,11 @@ def solve(model: ModelPath,
         from ..envelope import envelope as envelope_of
 
         checks = check_solution(solution)
+        # the envelope is shown by JSON always, by the others for several cases or --envelope
+        shown = format.value == "json" or envelope or len(solution.cases) > 1
         emit(render(solution, format.value, units, checks=checks,
-                    review=stated_values(model, m, solution), envelope=envelope_of(solution),
+                    review=stated_values(model, m, solution),
+                    envelope=envelope_of(solution) if shown else None,
                     full_envelope=envelope, notes=assumption_notes(solution), brief=brief,
                     warnings=model_warnings(solution)), output)
         plastic_notes(solution, units)
@@ -550,9 +556,10 @@ def check(model: ModelPath,
     """
     from ..checks import check_solution
     from ..output.text import checks_csv, checks_json, checks_table
+    from .._gcpause import gc_paused
     from ..engine.system import solve as run
 
-    with user_errors(model):
+    with user_errors(model), gc_paused():   # as in solve
         outputs([model], ("--output", output))
         m, units = load(model, force_unit, length_unit, displacement_unit, stress_unit)
         solution = run(m)
@@ -742,9 +749,13 @@ def _solved_fit(path, force=None, length=None, stress=None, torque=None):
     """Read and solve a fit file; return it with its units and the command line's overrides."""
     from ..errors import UnitError
     from ..fits.fit import FitUnits, solve_fit
-    from ..fits.reader import read_fit
+    from ..fits.reader import read_fit_toleranced
+    from ..io.modelfile import tolerance_note
 
-    spec = read_fit(path)
+    spec, found, _ = read_fit_toleranced(path)
+    stated = [t for t in found if t.path not in ("fit.bore", "fit.shaft")]
+    if stated:   # the limits of a designation are the fit's own range, not a tolerance
+        typer.echo(tolerance_note(stated, "fit"), err=True)
     base = spec.units.as_dict()
     for key, value in (("force", force), ("length", length), ("stress", stress),
                        ("torque", torque)):

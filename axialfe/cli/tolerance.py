@@ -88,11 +88,12 @@ def tolerance(model: ModelPath,
             study = run_joint_study(joint, found, build, samples=samples, seed=seed,
                                     outputs=output)
         elif is_fit_file(model):  # a press fit: pressure and holding force over its limits
-            from ..fits.reader import read_fit
+            from ..fits.reader import read_fit_toleranced
             from ..tolerance.fitstudy import run_fit_study
 
-            study = run_fit_study(read_fit(model), samples=samples, seed=seed, outputs=output,
-                                  source=str(model))
+            fit, found, build = read_fit_toleranced(model)
+            study = run_fit_study(fit, found, build, samples=samples, seed=seed,
+                                  outputs=output, source=str(model))
         else:
             nominal, build = read_toleranced(model)
             study = run_study(nominal, build, samples=samples, seed=seed, outputs=output,

@@ -57,14 +57,20 @@ def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap):
     names = system.model.segments
     if len(k):
         # elastic part of the elongation from the recovered force: N_from/k - G
-        with np.errstate(divide="ignore", invalid="ignore"):
-            stretch = np.where(k > 0, n_from / k, 0.0)
-        elastic = stretch - G
+        if k.min() > 0:
+            stretch = n_from / k
+        else:
+            with np.errstate(divide="ignore", invalid="ignore"):
+                stretch = np.where(k > 0, n_from / k, 0.0)
         # the scale of the terms subtracted: N/k and G cancel where a held bar carries a
         # load with no elastic elongation, and their rounding is no defect
-        scale = max(np.abs(u).max(initial=0.0), np.abs(delta0).max(initial=0.0),
-                    np.abs(stretch).max(initial=0.0), np.abs(G).max(initial=0.0), 1e-300)
-        seg = np.abs(du - delta0 - elastic) / scale
+        scale = max(_largest(u), _largest(delta0), _largest(stretch), _largest(G), 1e-300)
+        elastic = stretch
+        elastic -= G                     # N_from/k - G, in the array of N_from/k
+        seg = du - delta0
+        seg -= elastic
+        np.abs(seg, out=seg)
+        seg /= scale
         i = int(np.argmax(seg))
         if seg[i] > worst:
             worst, where = float(seg[i]), f"segment '{names[i].name}' (elongation)"
@@ -88,6 +94,11 @@ def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap):
             what = "sign of the force" if closed[j] else "force of an open gap"
             worst, where = float(bad_force[j]), f"gap '{gaps[j].name}' ({what})"
     return worst, where
+
+
+def _largest(values) -> float:
+    """The largest magnitude in ``values`` (0 for none), without an array of magnitudes."""
+    return max(float(np.max(values, initial=0.0)), -float(np.min(values, initial=0.0)))
 
 
 def check_unique_gaps(system, lam, closed, opening, tol_gap, label=""):

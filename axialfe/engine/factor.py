@@ -32,7 +32,7 @@ import numpy as np
 from ..errors import ModelError, SolveError, suggest
 
 __all__ = ["METHODS", "BAND_LIMIT", "Band", "BandedCholesky", "SparseLU", "band_of",
-           "factorise", "made"]
+           "band_of_run", "factorise", "made"]
 
 METHODS = ("auto", "banded", "sparse-lu")
 BAND_LIMIT = 64             # "auto" takes the band up to this half-bandwidth ...
@@ -86,7 +86,7 @@ class Band:
         return out
 
 
-def band_of(n, pos, start, end, stiffness, diagonal):
+def band_of(n, pos, start, end, stiffness, diagonal, held=None, ends=None):
     """The free-free stiffness as a :class:`Band`, written straight from the segment arrays.
 
     Parameters
@@ -100,6 +100,12 @@ def band_of(n, pos, start, end, stiffness, diagonal):
         The segments' end stations and axial stiffnesses.
     diagonal : ndarray, shape (n_stations,)
         What stands on the diagonal besides the segments (springs).
+    held : ndarray of int, optional
+        The segments with an end that is not an unknown (found here when not given;
+        a caller that knows them spares a pass).
+    ends : callable, optional
+        ``ends(v)`` gives ``(v[start], v[end])`` (:meth:`Assembly.ends`, which reads a
+        chain's ends as slices).
 
     Notes
     -----
@@ -107,19 +113,46 @@ def band_of(n, pos, start, end, stiffness, diagonal):
     them; the sums are three ``np.bincount`` calls, with no loop over segments.
     """
     p = np.where(pos < 0, n, pos)          # one spare slot, n, collects what is not an unknown
-    i, j = p[start], p[end]
-    lo, hi = np.minimum(i, j), np.maximum(i, j)
-    tied = hi < n                           # both ends unknowns
-    span = np.where(tied, hi - lo, 0)
+    i, j = ends(p) if ends is not None else (p[start], p[end])
+    if held is None:
+        held = np.flatnonzero((i == n) | (j == n))
+    diag = np.bincount(i, stiffness, minlength=n + 1).astype(float, copy=False)
+    diag += np.bincount(j, stiffness, minlength=n + 1)
+    springs = np.flatnonzero(diagonal)
+    diag[p[springs]] += diagonal[springs]
+    span = np.subtract(j, i)
+    np.abs(span, out=span)
+    span[held] = 0                          # a held end: nothing off the diagonal
     w = int(span.max(initial=0))
-    ab = np.zeros((w + 1, n))
-    spring = np.zeros(n + 1)
-    spring[p] = diagonal
-    ab[0] = (np.bincount(i, stiffness, minlength=n + 1)[:n]
-             + np.bincount(j, stiffness, minlength=n + 1)[:n] + spring[:n])
+    ab = np.empty((w + 1, n))
+    ab[0] = diag[:n]
     if w:
-        off = np.bincount(span * n + lo, np.where(tied, stiffness, 0.0), minlength=(w + 1) * n)
-        ab.reshape(-1)[n:] -= off[n:(w + 1) * n]
+        # the off-diagonal sums at (span, lower end); the held segments fall in the
+        # diagonal row of the count, which is not read
+        span *= n
+        span += np.minimum(i, j)
+        span[held] = 0
+        off = np.bincount(span, stiffness, minlength=(w + 1) * n)
+        np.subtract(0.0, off[n:(w + 1) * n], out=ab.reshape(-1)[n:])
+    return Band(ab)
+
+
+def band_of_run(first, stop, stiffness, diagonal):
+    """The free-free stiffness of a chain as a :class:`Band`, when its unknowns are the
+    stations ``first, ..., stop - 1`` (one run, in order; segment i joins stations i and
+    i + 1).  The same band as :func:`band_of`, written from slices of the segment arrays.
+    """
+    n = stop - first
+    sums = np.zeros(len(diagonal))
+    sums[:-1] += stiffness
+    sums[1:] += stiffness               # each station's segments, as band_of sums them
+    springs = np.flatnonzero(diagonal)
+    sums[springs] += diagonal[springs]
+    ab = np.empty((2 if n > 1 else 1, n))
+    ab[0] = sums[first:stop]
+    if n > 1:
+        np.subtract(0.0, stiffness[first:stop - 1], out=ab[1, :-1])
+        ab[1, -1] = 0.0
     return Band(ab)
 
 

@@ -14,7 +14,7 @@ import numpy as np
 from ..mechanics import Fields, end_forces
 from ..model.cases import LoadState
 from ..results import CaseResult, Deferred
-from .certificate import check_unique_gaps, compatibility, status_of
+from .certificate import _largest, check_unique_gaps, compatibility, status_of
 
 __all__ = ["recover", "gap_tolerance"]
 
@@ -43,12 +43,14 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     mu, mF, mlam, md0, mG, mW = magnitudes if magnitudes is not None else (
         np.abs(u), np.abs(F), np.abs(lam), np.abs(delta0), np.abs(G), np.abs(W))
     forward = asm.forward
-    stretch_u = u[end] - u[start]        # the change of distance, read once for du and K u
+    u_from, u_to = asm.ends(u)
+    stretch_u = u_to - u_from            # the change of distance, read once for du and K u
     du = stretch_u if forward else e * stretch_u
     n_from, _ = end_forces(asm.terms, du, delta0, G, W)
     # rounding bound of N: du is a difference of two displacements, so its error
     # scales with their size, not with du itself
-    pair = mu[start] + mu[end]
+    mu_from, mu_to = asm.ends(mu)
+    pair = mu_from + mu_to
     noise = pair + md0
     noise += mG
     noise *= k
@@ -61,45 +63,58 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
 
     g = len(model.gaps)
     gap_nodal = system.BT @ lam if g else None
-    # K u and |K| |u| from the segment arrays (as System.stiffness_times), sharing the
-    # differences and sums of the end displacements read above
     n = asm.n
     spring = system.spring_diagonal
-    t = k * stretch_u
-    R_station = np.bincount(end, t, minlength=n) - np.bincount(start, t, minlength=n)
-    R_station += spring * u
-    R_station -= F
+    # Reactions from the restrained rows, K u - F (K with the springs), at the prescribed
+    # stations alone: only the segments with a restrained end reach them (as in
+    # System.stiffness_times, from the end displacements read above)
+    ps, pidx, hs = system.presc_stations, system._presc_index, system.held_segments
+    at_end, at_start = pidx[end[hs]], pidx[start[hs]]
+    to_end, to_start = at_end >= 0, at_start >= 0
+    t = k[hs] * stretch_u[hs]
+    R_station = (_sums(at_end[to_end], t[to_end], len(ps))
+                 - _sums(at_start[to_start], t[to_start], len(ps)))
+    R_station += spring[ps] * u[ps]
+    R_station -= F[ps]
     if g:
-        R_station += gap_nodal
-    np.multiply(k, pair, out=t)
-    noise_R = np.bincount(start, t, minlength=n) + np.bincount(end, t, minlength=n)
-    noise_R += spring * mu
-    noise_R += mF
+        R_station += gap_nodal[ps]
+    t = k[hs] * pair[hs]                 # |K| |u| there, for the rounding bound
+    noise_R = (_sums(at_start[to_start], t[to_start], len(ps))
+               + _sums(at_end[to_end], t[to_end], len(ps)))
+    noise_R += spring[ps] * mu[ps]
+    noise_R += mF[ps]
     if g:
-        noise_R += abs(system.BT) @ mlam
+        noise_R += (abs(system.BT) @ mlam)[ps]
     noise_R *= _ULPS
     _zero_below(R_station, noise_R)
     reactions = np.zeros(len(model.supports))
-    reactions[system.presc_support] = R_station[system.presc]
+    reactions[system.presc_support] = R_station[pidx[system.presc]]
     spring_force = -system.spring_k * u[system.spring_at]
     reactions[system.spring_support] = spring_force
     # (K includes the springs, so R_station at a prescribed station is already the
     # prescribed support's own share, whatever spring stands beside it)
 
     # Station balance from the recovered segment forces: an independent check.
-    balance = np.bincount(start, n_from if forward else e * n_from, minlength=n)
+    balance = asm.to_stations(n_from if forward else e * n_from, n_to if forward else e * n_to,
+                              subtract=True)
     balance += state.forces
-    balance -= np.bincount(end, n_to if forward else e * n_to, minlength=n)
     if g:
         balance -= gap_nodal
-    balance += np.bincount(system.spring_at, spring_force, minlength=n)
-    # each prescribed support's reaction at its station
-    balance += np.bincount(system.presc, reactions[system.presc_support], minlength=n)
+    np.add.at(balance, system.spring_at, spring_force)
+    np.add.at(balance, system.presc, reactions[system.presc_support])
     # out-of-balance at the level of rounding (the same bound that zeroes noise in
-    # forces) is no imbalance: it cannot be told from a force that is truly zero
-    station_noise = np.bincount(start, noise, minlength=n)
-    station_noise += np.bincount(end, noise, minlength=n)
-    station_noise += noise_R
+    # forces, and that of K u - F at every station) is no imbalance: it cannot be told
+    # from a force that is truly zero
+    t = k * pair
+    t *= _ULPS
+    t += noise                           # each segment's share at both its stations
+    station_noise = asm.to_stations(t, t)
+    rest = mF * _ULPS
+    if g:
+        rest += _ULPS * (abs(system.BT) @ mlam)
+    sp = system.spring_stations
+    rest[sp] += _ULPS * (spring[sp] * mu[sp])
+    station_noise += rest
     np.abs(balance, out=balance)
     balance *= balance > station_noise
     # the forces the free changes of length and the loads would cause if held count
@@ -151,9 +166,10 @@ def _zero_below(values, bound):
         values[small] = 0.0
 
 
-def _largest(values) -> float:
-    """The largest magnitude in ``values`` (0 for none), without an array of magnitudes."""
-    return max(float(values.max(initial=0.0)), -float(values.min(initial=0.0)))
+def _sums(at, values, n):
+    """The sums of ``values`` at the places ``at`` (0 to n - 1), always as floats (bincount
+    gives integers for no values)."""
+    return np.bincount(at, values, minlength=n).astype(float, copy=False)
 
 
 # --- what a result makes when it is first read (read-only, referenced nowhere else) ----
@@ -189,9 +205,10 @@ def _copy(value):
 
 def _fields(asm, q_factor, n_from, N, x):
     """The fields inside the segments (:meth:`Fields.of`) of a recovered state."""
+    x_from, x_to = asm.ends(x)
     return Fields.of(n_from, q_factor * asm.q * asm.direction, asm.rho_g, *asm.factors.T,
-                     asm.length, asm.modulus, end_force=N, x_from=x[asm.start],
-                     x_to=x[asm.end], area=asm.area_table)
+                     asm.length, asm.modulus, end_force=N, x_from=x_from, x_to=x_to,
+                     area=asm.area_table)
 
 
 def gap_tolerance(system, u, delta0=None, F=None):

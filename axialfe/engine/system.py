@@ -28,7 +28,7 @@ from .assembly import Assembly, assemble, element_loads
 from .constraints import unilateral
 from .contact import solve_gaps
 from .dofs import degrees_of_freedom
-from .factor import band_of, factorise
+from .factor import band_of, band_of_run, factorise
 from .pivoting import SOLVED
 from .recovery import recover
 
@@ -65,22 +65,36 @@ class System:
         self.cons = cons = unilateral(model, n)
         self.dofs = dofs = degrees_of_freedom(model, asm.start, asm.end, cons)
         self.spring_diagonal = np.bincount(dofs.spring_at, dofs.spring_k,
-                                           minlength=n).astype(float)
+                                           minlength=n).astype(float, copy=False)
         free = dofs.free
         nf = len(free)
         # the stations' places among the unknowns, and the segments that tie a free
         # station to a restrained one (their -k moves prescribed values to the loads)
         self._free_index = fidx = np.full(n, -1)
         fidx[free] = np.arange(nf)
-        fs, fe = fidx[asm.start], fidx[asm.end]
-        tie_s, tie_e = (fs >= 0) & (fe < 0), (fe >= 0) & (fs < 0)
+        # the free stations as a slice where they are one run (a bar held at its ends):
+        # reading and writing them then copies nothing
+        self._free_at = (slice(int(free[0]), int(free[-1]) + 1)
+                         if nf and free[-1] - free[0] + 1 == nf else free)
+        held = np.zeros(n, dtype=bool)
+        held[dofs.restrained] = True
+        held_s, held_e = asm.ends(held)
+        # the segments with a restrained end: the only ones whose forces reach a reaction
+        self.held_segments = hs = np.flatnonzero(held_s | held_e)
+        tie_s, tie_e = hs[~held_s[hs]], hs[~held_e[hs]]   # free start, free end
+        tie_s, tie_e = tie_s[held_e[tie_s]], tie_e[held_s[tie_e]]
         ridx = np.full(n, -1)
         ridx[dofs.restrained] = np.arange(len(dofs.restrained))
         self.K_fr = sp.csr_matrix(
             (-np.concatenate([asm.stiffness[tie_s], asm.stiffness[tie_e]]),
-             (np.concatenate([fs[tie_s], fe[tie_e]]),
+             (np.concatenate([fidx[asm.start[tie_s]], fidx[asm.end[tie_e]]]),
               np.concatenate([ridx[asm.end[tie_s]], ridx[asm.start[tie_e]]]))),
             shape=(nf, len(dofs.restrained)))
+        # each prescribed station's place among the distinct ones (for its reaction)
+        self.presc_stations = np.unique(dofs.presc)
+        self._presc_index = pidx = np.full(n, -1)
+        pidx[self.presc_stations] = np.arange(len(self.presc_stations))
+        self.spring_stations = np.unique(dofs.spring_at)
         self._K = self._abs_K = None
         self.band = self._ground = None
         self.last_contact = None   # ('active-set' or 'exact', factorisations) of the last search
@@ -91,7 +105,7 @@ class System:
     def _band(self):
         """The free-free stiffness as a band over the free stations numbered by x."""
         free, asm = self.free, self.asm
-        xf = self.x[free]
+        xf = self.x[self._free_at]
         ascending = len(xf) < 2 or bool(np.all(xf[1:] >= xf[:-1]))
         # Eliminate from the end away from the supports: back substitution then ends
         # at the supported end, whose small displacements are not computed from the
@@ -107,7 +121,12 @@ class System:
                 order = order[::-1].copy()
             pos = np.full(asm.n, -1)
             pos[free[order]] = np.arange(len(free))
-        band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness, self.spring_diagonal)
+        run = self._free_at
+        if asm.chain and order is None and isinstance(run, slice):
+            band = band_of_run(run.start, run.stop, asm.stiffness, self.spring_diagonal)
+        else:
+            band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness,
+                           self.spring_diagonal, held=self.held_segments, ends=asm.ends)
         band.order = order
         self.band = band
         return band
@@ -178,11 +197,14 @@ class System:
         F = np.asarray(F, dtype=float)
         u = np.zeros_like(F)
         u[self.presc] = u_presc
-        rhs = F.copy()
+        rhs = F
         if gap_force is not None and len(self.model.gaps):
             rhs = rhs - self.BT @ gap_force
         u_r = u[self.restrained]
-        u[self.free] = self.solve_free(rhs[self.free] - self.K_fr @ u_r)
+        b = rhs[self._free_at]
+        if np.any(u_r):              # (else K_fr u_r is zero, and b - 0 is b)
+            b = b - self.K_fr @ u_r
+        u[self._free_at] = self.solve_free(b)
         if shift is not None and self.n_parts:
             u = u + self.E @ shift
         return u

@@ -28,6 +28,9 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from types import SimpleNamespace
+
+import numpy as np
 
 from ..checks.entries import CaseChecks, CheckEntry, CheckReport
 from ..errors import ModelError
@@ -36,6 +39,7 @@ from ..units import unit_factor
 from . import lame
 
 __all__ = ["FitUnits", "ServiceState", "PressFit", "FitState", "FitResult", "solve_fit", "state_at",
+           "fit_parameters", "fit_states",
            "ASSEMBLY", "FIT_CHECK_KINDS", "DEFAULT_CLEARANCE_RATIO"]
 
 ASSEMBLY = "assembly"
@@ -301,16 +305,17 @@ def _state(fit: PressFit, service: ServiceState) -> FitState:
     change = lame.interference_change(d, sh.thermal_expansion, service.shaft_temperature - t0,
                                       hb.thermal_expansion, service.hub_temperature - t0)
     delta = tuple(x + change for x in fit.interference)
-    pressure = tuple(max(0.0, lame.contact_pressure(x, d, do, hb.elastic_modulus,
-                                                    hb.poissons_ratio, sh.elastic_modulus,
-                                                    sh.poissons_ratio, di)) for x in delta)
+    pressure = tuple(_larger(0.0, lame.contact_pressure(x, d, do, hb.elastic_modulus,
+                                                        hb.poissons_ratio, sh.elastic_modulus,
+                                                        sh.poissons_ratio, di)) for x in delta)
     hub_t = tuple(lame.hub_hoop_stress(p, d, do) for p in pressure)
     shaft_t = tuple(lame.shaft_hoop_stress(p, d, di) for p in pressure)
     bore_t = tuple(lame.shaft_bore_hoop_stress(p, d, di) for p in pressure)
     hub_eq = tuple(lame.equivalent_stress(s, -p) for s, p in zip(hub_t, pressure))
     # the shaft's largest equivalent stress: at its bore when hollow (radial stress 0
     # there, hoop stress largest), else uniform
-    shaft_eq = tuple(max(lame.equivalent_stress(s, -p), lame.equivalent_stress(b, 0.0 if di else -p))
+    shaft_eq = tuple(_larger(lame.equivalent_stress(s, -p),
+                             lame.equivalent_stress(b, _plain(np.where(np.greater(di, 0), 0.0, -p))))
                      for s, b, p in zip(shaft_t, bore_t, pressure))
     mu, length = fit.friction, fit.length
     return FitState(service.name, service.shaft_temperature, service.hub_temperature,
@@ -318,7 +323,18 @@ def _state(fit: PressFit, service: ServiceState) -> FitState:
                     hub_eq, shaft_eq,
                     tuple(lame.holding_force(mu, p, d, length) for p in pressure),
                     tuple(lame.torque_capacity(mu, p, d, length) for p in pressure),
-                    tuple(x <= 0 for x in delta))
+                    tuple(_plain(np.less_equal(x, 0)) for x in delta))
+
+
+def _plain(value):
+    """A Python float or bool for a 0-d result, the array otherwise."""
+    if np.ndim(value):
+        return value
+    return bool(value) if np.asarray(value).dtype == bool else float(value)
+
+
+def _larger(a, b):
+    return _plain(np.maximum(a, b))
 
 
 def state_at(fit: PressFit, shaft_temperature: float, hub_temperature: float | None = None,
@@ -334,6 +350,87 @@ def state_at(fit: PressFit, shaft_temperature: float, hub_temperature: float | N
     """
     hub = shaft_temperature if hub_temperature is None else hub_temperature
     return _state(fit, ServiceState(name, shaft_temperature, hub))
+
+
+# --- many fits at once: the same states on arrays --------------------------
+def fit_parameters(fit: PressFit) -> dict[str, float]:
+    """The fit's scalar inputs by name: what a tolerance study moves.  :func:`fit_states`
+    turns arrays of them into each state's values and check verdicts."""
+    p = {"diameter": fit.diameter, "outer_diameter": fit.outer_diameter,
+         "inner_diameter": fit.inner_diameter, "length": fit.length, "friction": fit.friction,
+         "interference:least": fit.interference[0],
+         "interference:greatest": fit.interference[1],
+         "assembly_temperature": fit.temperature}
+    for role in ("shaft", "hub"):
+        mat = getattr(fit, role)
+        p[f"{role}:modulus"] = mat.elastic_modulus
+        p[f"{role}:poisson"] = mat.poissons_ratio
+        p[f"{role}:expansion"] = mat.thermal_expansion
+    for st in fit.states:
+        for key in ("shaft_temperature", "hub_temperature", "axial_load", "torque"):
+            p[f"state:{st.name}:{key}"] = getattr(st, key)
+    return p
+
+
+def fit_states(fit: PressFit, p: dict):
+    """The states of the fits whose inputs are the arrays ``p`` (the names of
+    :func:`fit_parameters`; ``fit`` gives the fixed rest: materials' strengths, states,
+    safety factor): ``(states, verdicts)``, the :class:`FitState` of each state with arrays
+    in place of floats, and ``{(state, check kind): ok}`` with ok 1 passes, 0 fails,
+    -1 undecided, as :func:`solve_fit`'s checks judge each fit.
+
+    The states are :func:`solve_fit`'s own (the same Lamé formulas, on arrays).
+    """
+    def material(role):
+        return SimpleNamespace(elastic_modulus=p[f"{role}:modulus"],
+                               poissons_ratio=p[f"{role}:poisson"],
+                               thermal_expansion=p[f"{role}:expansion"])
+
+    shape = np.broadcast(*[np.asarray(v) for v in p.values()]).shape
+    many = SimpleNamespace(diameter=p["diameter"], outer_diameter=p["outer_diameter"],
+                           inner_diameter=p["inner_diameter"], length=p["length"],
+                           friction=p["friction"], temperature=p["assembly_temperature"],
+                           interference=(p["interference:least"], p["interference:greatest"]),
+                           shaft=material("shaft"), hub=material("hub"))
+    states = []
+    for st in fit.states:
+        service = SimpleNamespace(name=st.name, **{
+            k: p[f"state:{st.name}:{k}"]
+            for k in ("shaft_temperature", "hub_temperature", "axial_load", "torque")})
+        states.append(_state(many, service))
+    b = lambda v: np.broadcast_to(v, shape)  # noqa: E731
+    sf = fit.safety_factor
+    verdicts = {}
+    least0 = b(states[0].interference[0])
+    for st in states:
+        for kind, mat, eq in (("hub-stress", fit.hub, st.hub_equivalent_stress[1]),
+                              ("shaft-stress", fit.shaft, st.shaft_equivalent_stress[1])):
+            verdicts[(st.name, kind)] = (np.full(shape, -1) if mat.yield_strength is None else
+                                         b(np.where(eq * sf / mat.yield_strength <= 1.0, 1, 0)))
+        force, torque = np.abs(b(st.axial_load)), np.abs(b(st.torque))
+        d = b(many.diameter)
+
+        def capacity(demand, cap):
+            return np.where(cap <= 0, 0, np.where(demand * sf / np.where(cap > 0, cap, 1.0)
+                                                  <= 1.0, 1, 0))
+
+        holding, capacity_t = b(st.holding_force[0]), b(st.torque_capacity[0])
+        # a check is made where its load is given (the same in every sample of the state)
+        # a check is made where its load is given: none in a sample without it passes
+        if np.any(force > 0):
+            verdicts[(st.name, "holding-force")] = np.where(force > 0,
+                                                            capacity(force, holding), 1)
+        if np.any(torque > 0):
+            verdicts[(st.name, "torque-capacity")] = np.where(torque > 0,
+                                                              capacity(torque, capacity_t), 1)
+        if np.any(force > 0) and np.any(torque > 0):
+            verdicts[(st.name, "combined-slip")] = np.where(
+                (force > 0) & (torque > 0), capacity(np.hypot(force, 2.0 * torque / d), holding),
+                1)
+        if st.name != ASSEMBLY:
+            verdicts[(st.name, "loosening")] = np.where((least0 > 0) & (b(st.interference[0]) > 0),
+                                                        1, 0)
+    return states, verdicts
 
 
 def _stress_entry(kind, part, material: Material, demand, state, sf, where=None):

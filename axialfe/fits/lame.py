@@ -19,6 +19,8 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 __all__ = ["cylinder_stresses", "contact_pressure", "hub_hoop_stress", "shaft_hoop_stress",
            "shaft_bore_hoop_stress", "equivalent_stress", "holding_force", "torque_capacity",
            "interference_change", "radial_displacement"]
@@ -108,9 +110,9 @@ def shaft_hoop_stress(p, d, d_i=0.0):
 def shaft_bore_hoop_stress(p, d, d_i=0.0):
     """Hoop stress at a hollow shaft's bore, -2 p d^2 / (d^2 - d_i^2), where the radial
     stress is zero; for a solid shaft the stress at the centre, -p (the state is uniform)."""
-    if d_i == 0:
+    if np.ndim(d_i) == 0 and d_i == 0:
         return -p
-    return -2.0 * p * d * d / (d * d - d_i * d_i)
+    return np.where(np.equal(d_i, 0), -p, -2.0 * p * d * d / (d * d - d_i * d_i))
 
 
 def equivalent_stress(sigma_t, sigma_r):

@@ -17,18 +17,19 @@ from pathlib import Path
 
 from ..errors import ModelError, suggest
 from ..io.modelfile import _Reader, builtin_materials
+from ..tolerance.inputs import Tolerance, Toleranced, is_toleranced
 from ..units import split_quantity
 from . import iso286
 from .fit import DEFAULT_TEMPERATURE, FitUnits, PressFit, ServiceState
 
-__all__ = ["read_fit", "parse_fit", "is_fit_data", "is_fit_file"]
+__all__ = ["read_fit", "parse_fit", "read_fit_toleranced", "is_fit_data", "is_fit_file"]
 
 _TOP = ("title", "shaft", "hub", "fit", "service", "checks", "materials", "units")
 _KEYS = {
     "shaft": ("material", "diameter", "inner_diameter"),
     "hub": ("material", "outer_diameter"),
-    "fit": ("interference", "iso", "shaft", "bore", "length", "friction", "assembly_temperature",
-            "assembly_clearance"),
+    "fit": ("interference", "iso", "shaft", "bore", "distribution", "length", "friction",
+            "assembly_temperature", "assembly_clearance"),
     "service": ("name", "temperature", "shaft_temperature", "hub_temperature", "axial_load",
                 "torque"),
     "checks": ("safety_factor",),
@@ -60,9 +61,59 @@ def is_fit_file(path) -> bool:
         return False  # the model reader reports it
 
 
+# the (table, key) pairs of a fit file whose values may carry a tolerance
+_TOLERABLE = {("shaft", "diameter"), ("shaft", "inner_diameter"), ("hub", "outer_diameter"),
+              ("fit", "interference"), ("fit", "length"), ("fit", "friction"),
+              ("fit", "assembly_temperature"), ("service", "temperature"),
+              ("service", "shaft_temperature"), ("service", "hub_temperature"),
+              ("service", "axial_load"), ("service", "torque"),
+              ("materials", "elastic_modulus"), ("materials", "thermal_expansion"),
+              ("materials", "poissons_ratio")}
+# toleranced keys whose draws must stay above zero (absolute temperatures: above 0 K)
+_POSITIVE = ("diameter", "outer_diameter", "length", "friction", "elastic_modulus",
+             "temperature", "shaft_temperature", "hub_temperature", "assembly_temperature")
+DISTRIBUTIONS = ("normal", "uniform")
+
+
+class _FitValues(_Reader):
+    """The model reader's values, with a fit file's toleranced keys and their names."""
+
+    TAKERS = ("a fit file takes one on the diameters, interference, length, friction, "
+              "temperatures, loads and its own materials' elastic_modulus, thermal_expansion "
+              "and poissons_ratio; ISO 286 and shaft/bore limits are toleranced by their "
+              "limits")
+
+    def may_tolerance(self, table, key) -> bool:
+        return ((table or "").split(".")[0], key) in _TOLERABLE
+
+    def tolerance_problem(self, tol, table, key) -> str | None:
+        problem = super().tolerance_problem(tol, table, key)
+        low = tol.spread[0]
+        if problem is None and key in _POSITIVE and low <= 0:
+            problem = (f"{key} could fall to or below absolute zero" if "temperature" in key
+                       else f"{key} could fall to zero or below")
+        if problem is None and key == "inner_diameter" and low < 0:
+            problem = "inner_diameter could fall below zero"
+        return problem
+
+    def _tolerance_path(self, table, index, key, place, item):
+        """``shaft.diameter``, ``fit.friction``, ``service.<name>.torque``,
+        ``materials.<name>.elastic_modulus``."""
+        if table == "service":
+            entry = self.data["service"][index - 1]
+            name = entry.get("name") if isinstance(entry.get("name"), str) else f"service-{index}"
+            return f"service.{name}.{key}"
+        return f"{table}.{key}"
+
+    def number(self, value, *, table=None, index=None, key=None, place=None):
+        if is_toleranced(value):
+            return self.toleranced(value, None, table, index, key, place)
+        return super().number(value, table=table, index=index, key=key, place=place)
+
+
 class _FitReader:
-    def __init__(self, data, source, text):
-        self.r = _Reader(data, source, text)
+    def __init__(self, data, source, text, overrides=None):
+        self.r = _FitValues(data, source, text, overrides=overrides)
         self.data = data
         self.source = source
 
@@ -133,6 +184,33 @@ class _FitReader:
                         None, key, place="fit")
         return tuple(sorted(pair))
 
+    def limit_inputs(self, fit, bore_limits, shaft_limits, interference):
+        """Record the bore and the shaft as toleranced inputs ``fit.bore`` and ``fit.shaft``
+        between their limits (normal with the limits at +-3 sigma about their midpoint, or
+        ``distribution = "uniform"``); return the interference, or one sample's
+        shaft - bore where a study gives the two diameters."""
+        r = self.r
+        if "shaft.diameter" in r.tolerances:
+            r.fail("diameter: a tolerance is not allowed where 'iso' or 'shaft' and 'bore' "
+                   "limits give the diameters", "shaft", None, "diameter", place="shaft")
+        distribution = fit.get("distribution", "normal")
+        if distribution not in DISTRIBUTIONS:
+            r.fail(f"distribution: unknown distribution {distribution!r}", "fit", None,
+                   "distribution", place="fit", hint=suggest(str(distribution), DISTRIBUTIONS),
+                   options=DISTRIBUTIONS)
+        key = "iso" if "iso" in fit else None
+        for name, (lo, hi) in (("bore", bore_limits), ("shaft", shaft_limits)):
+            sigma = (hi - lo) / (6.0 if distribution == "normal" else math.sqrt(12.0))
+            tol = Tolerance(0.5 * (lo + hi), lo, hi, distribution, sigma, "length", "mm")
+            r.tolerances[f"fit.{name}"] = Toleranced(f"fit.{name}", tol,
+                                                     r.line("fit", None, key or name))
+        over = r.overrides
+        if "fit.bore" in over or "fit.shaft" in over:
+            delta = (over.get("fit.shaft", r.tolerances["fit.shaft"].tolerance.centre)
+                     - over.get("fit.bore", r.tolerances["fit.bore"].tolerance.centre))
+            return (delta, delta)
+        return interference
+
     def read(self) -> PressFit:
         data, r = self.data, self.r
         for key in data:
@@ -188,11 +266,17 @@ class _FitReader:
             interference = (shaft_limits[0] - bore_limits[1], shaft_limits[1] - bore_limits[0])
         else:
             value = fit["interference"]
-            if isinstance(value, str) and len(value.split()) > 2:
+            if isinstance(value, str) and len(value.split()) > 2 and not is_toleranced(value):
                 interference = self.limits(value, "interference")
             else:
                 one = r.quantity(value, "length", table="fit", key="interference", place="fit")
                 interference = (one, one)
+        if bore_limits is not None:
+            interference = self.limit_inputs(fit, bore_limits, shaft_limits, interference)
+        elif "distribution" in fit:
+            r.fail("distribution: belongs to the limits of 'iso' or of 'shaft' and 'bore'; a "
+                   "toleranced interference gives its own", "fit", None, "distribution",
+                   place="fit")
         if d is None:
             r.fail("[shaft] needs 'diameter' (or an ISO designation in [fit] iso that names "
                    "it)", "shaft", place="shaft")
@@ -290,3 +374,31 @@ def read_fit(path) -> PressFit:
 
     path = Path(path)
     return parse_fit(read_text(path, "fit file"), str(path))
+
+
+def read_fit_toleranced(path):
+    """Read a fit file for a tolerance study.
+
+    Returns
+    -------
+    fit : PressFit
+        The fit at the nominal values (an ISO 286 or limits fit between its limits).
+    found : tuple of Toleranced
+        Its toleranced inputs by path: ``fit.bore`` and ``fit.shaft`` of a
+        designation or of limits, and every value written with a tolerance
+        (``fit.friction``, ``shaft.inner_diameter``, ``service.<name>.torque``, ...).
+    build : callable
+        ``build({path: SI value})``: the fit read again with those inputs moved (with
+        ``fit.bore`` and ``fit.shaft``, its interference is shaft - bore).
+    """
+    from ..io.source import decode, read_text
+
+    path = Path(path)
+    text, source = read_text(path, "fit file"), str(path)
+    reader = _FitReader(decode(text, source), source, text)
+    fit = reader.read()
+
+    def build(values):
+        return _FitReader(decode(text, source), source, text, overrides=values).read()
+
+    return fit, tuple(reader.r.tolerances.values()), build

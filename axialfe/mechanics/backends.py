@@ -50,9 +50,14 @@ class _Numeric:
     def branch(uniform_mask, uniform, taper, args):
         shape = np.broadcast(*args).shape
         args = tuple(np.broadcast_to(np.asarray(a, dtype=float), shape) for a in args)
+        tap = np.flatnonzero(~np.broadcast_to(uniform_mask, shape))
+        if not len(tap):
+            # all uniform: the formulas' own arrays, read-only (no copy; two terms may be
+            # one array, as the two end areas are)
+            return tuple(np.broadcast_to(np.asarray(v, dtype=float), shape)
+                         for v in uniform(*args, NUMERIC))
         out = [np.array(np.broadcast_to(v, shape), dtype=float)
                for v in uniform(*args, NUMERIC)] if np.any(uniform_mask) else None
-        tap = np.flatnonzero(~np.broadcast_to(uniform_mask, shape))
         if out is None:
             return tuple(np.array(np.broadcast_to(v, shape), dtype=float)
                          for v in taper(*args, NUMERIC))

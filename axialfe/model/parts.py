@@ -245,17 +245,19 @@ class Section:
     def dim(self, key, default=None):
         return dict(self.dimensions).get(key, default)
 
-    @property
+    # a section is immutable and shared by many segments: its derived values are computed
+    # once (kept in the instance's __dict__; equality and pickling see the fields only)
+    @functools.cached_property
     def factors(self):
         """Return (c, p, q) with A = c*p*q (see :func:`axialfe.mechanics.sections.factors`)."""
         return sections.factors(self.shape, dict(self.dimensions), math.pi)
 
-    @property
+    @functools.cached_property
     def area(self) -> float:
         c, p, q = self.factors
         return c * p * q
 
-    @property
+    @functools.cached_property
     def second_moment(self) -> float | None:
         """The smaller principal second moment of area in m^4, None when unknown."""
         return sections.second_moment(self.shape, dict(self.dimensions), math.pi)

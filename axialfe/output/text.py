@@ -12,7 +12,7 @@ import io
 import json
 import re
 
-from ..formatting import number
+from ..formatting import number, numbers
 from ..results import Solution
 from ..units import OutputUnits
 
@@ -37,6 +37,16 @@ def _g(value, digits=6):
     return number(value, digits, plain=False)
 
 
+def _gs(values, digits=6):
+    """:func:`_g` of each value: a table's column, formatted in one pass."""
+    return numbers(list(values), digits, plain=False)
+
+
+def _rows(*columns):
+    """The rows of a table given by its columns."""
+    return [list(r) for r in zip(*columns)]
+
+
 def terminal_width() -> int:
     """The width tables are fitted to: the terminal's when the output is one, else 100."""
     import shutil
@@ -58,18 +68,17 @@ def _grid(headers, rows, indent="  ", width=None):
     """
     if width == "terminal":
         width = terminal_width()
-    cells = [[str(c) for c in r] for r in rows]
-    widths = [max(len(h), *(len(r[i]) for r in cells)) if cells else len(h)
-              for i, h in enumerate(headers)]
-    numeric = [all(_is_number(r[i]) for r in cells) and bool(cells) for i in range(len(headers))]
+    cells = [list(map(str, r)) for r in rows]
+    columns_of = list(zip(*cells)) if cells else [()] * len(headers)
+    widths = [max(len(h), max(map(len, col), default=0)) for h, col in zip(headers, columns_of)]
+    numeric = [bool(col) and _all_numbers(col) for col in columns_of]
 
     def block(columns):
-        def line(parts):
-            return indent + "  ".join(parts[i].rjust(widths[i]) if numeric[i]
-                                      else parts[i].ljust(widths[i]) for i in columns).rstrip()
-
-        out = [line(list(headers)), indent + "  ".join("-" * widths[i] for i in columns)]
-        return out + [line(r) for r in cells]
+        # one format per block: numbers right, names left, each in its column's width
+        fmt = indent + "  ".join(f"{{{i}:{'>' if numeric[i] else '<'}{widths[i]}}}"
+                                 for i in columns)
+        out = [fmt.format(*headers).rstrip(), indent + "  ".join("-" * widths[i] for i in columns)]
+        return out + [fmt.format(*r).rstrip() for r in cells]
 
     blocks, current = [], [0]
     for i in range(1, len(headers)):
@@ -85,11 +94,34 @@ def _grid(headers, rows, indent="  ", width=None):
     return out
 
 
-def _wrapped(text, width, first, rest):
-    import textwrap
+_OTHER_SPACE = re.compile(r"[\t\n\x0b\x0c\r]")
 
-    return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
-                         break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+
+def _wrapped(text, width, first, rest):
+    """``text`` wrapped at its spaces to ``width``, its first line after ``first``, the others
+    after ``rest``; a word longer than the line stands alone.  Text whose words are set apart
+    by single spaces (every note and message) is filled here, greedily, as ``textwrap`` fills
+    it; any other goes to ``textwrap`` itself."""
+    if (not text or text[0] == " " or text[-1] == " " or "  " in text
+            or _OTHER_SPACE.search(text)):
+        import textwrap
+
+        return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
+                             break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
+    out, at, indent, end = [], 0, first, len(text)
+    while True:
+        room = width - len(indent)
+        if end - at <= room:                       # the rest fits
+            out.append(indent + text[at:])
+            return out
+        cut = text.rfind(" ", at, at + room + 1)   # the last space that ends a line that fits
+        if cut < 0:                                # a word longer than the line stands alone
+            cut = text.find(" ", at)
+            if cut < 0:
+                out.append(indent + text[at:])
+                return out
+        out.append(indent + text[at:cut])
+        at, indent = cut + 1, rest
 
 
 def _fit_grid(headers, rows, indent="  "):
@@ -133,9 +165,11 @@ def _footnotes(notes, width, title=" notes:"):
     return out
 
 
-def _is_number(text):
+def _all_numbers(texts) -> bool:
+    """Whether every text reads as a number (``float`` takes it)."""
     try:
-        float(text)
+        for _ in map(float, texts):
+            pass
         return True
     except ValueError:
         return False
@@ -144,17 +178,21 @@ def _is_number(text):
 def _case_tables(case: dict, units: dict):
     """Yield (title, headers, rows) for one case in the JSON layout."""
     F, L, D, S = units["force"], units["length"], units["displacement"], units["stress"]
+    stations = sorted(case["stations"], key=lambda s: s["x"])   # in order of x
     yield ("stations", ["station", f"x [{L}]", f"displacement [{D}]"],
-           [[s["name"], _g(s["x"]), _g(s["displacement"])]
-            for s in sorted(case["stations"], key=lambda s: s["x"])])   # in order of x
-    heated = any(s["temperature_change"] for s in case["segments"])
+           _rows([s["name"] for s in stations], _gs(s["x"] for s in stations),
+                 _gs(s["displacement"] for s in stations)))
+    segs = case["segments"]
+    heated = any(s["temperature_change"] for s in segs)
+    columns = [[s["name"] for s in segs], [s["from"] for s in segs], [s["to"] for s in segs],
+               _gs(s["length"] for s in segs), _gs(s["axial_force"][0] for s in segs),
+               _gs(s["axial_force"][1] for s in segs), _gs(s["stress"][0] for s in segs),
+               _gs(s["stress"][1] for s in segs), _gs(s["elongation"] for s in segs)]
+    if heated:
+        columns.append(_gs(s["temperature_change"] for s in segs))
     yield ("segments", ["segment", "from", "to", f"L [{L}]", f"N from [{F}]", f"N to [{F}]",
                         f"stress from [{S}]", f"stress to [{S}]", f"elongation [{D}]"]
-           + ([f"dT [{units.get('temperature', 'K')}]"] if heated else []),
-           [[s["name"], s["from"], s["to"], _g(s["length"]), _g(s["axial_force"][0]),
-             _g(s["axial_force"][1]), _g(s["stress"][0]), _g(s["stress"][1]),
-             _g(s["elongation"])] + ([_g(s["temperature_change"])] if heated else [])
-            for s in case["segments"]])
+           + ([f"dT [{units.get('temperature', 'K')}]"] if heated else []), _rows(*columns))
     if case["reactions"]:
         if "load_on_support" in case["reactions"][0]:   # added by _data
             yield ("reactions (force of the support on the bar, + toward +x; the load on the "
@@ -208,9 +246,11 @@ def _data(solution: Solution, units: OutputUnits, notes=None, zero_noise=False) 
             bound = {k: v / f[k] for k, v in rounding_bounds(result).items()}
 
             def clean(value, kind):
+                b = bound[kind]
                 if isinstance(value, list):
-                    return [clean(v, kind) for v in value]
-                return 0.0 if abs(value) <= bound[kind] else value
+                    return [clean(v, kind) if isinstance(v, list) else 0.0 if -b <= v <= b else v
+                            for v in value]
+                return 0.0 if abs(value) <= b else value
 
             for st in case["stations"]:
                 st["displacement"] = clean(st["displacement"], "displacement")
@@ -511,9 +551,11 @@ def check_groups(entries, units: OutputUnits):
     """The check tables of ``entries``: ``(headers, entries, rows)`` for strength and
     buckling (demand, capacity), then for deformation limits (actual, required, margin),
     each only when it has a row."""
+    from ..checks.entries import LIMIT_KINDS
+
     entries = list(entries)
-    limits = [e for e in entries if "required" in e.amounts(units)]
-    others = [e for e in entries if e not in limits]
+    limits = [e for e in entries if e.kind in LIMIT_KINDS]
+    others = [e for e in entries if e.kind not in LIMIT_KINDS]
     groups = [(_CHECK_HEADERS, others, [_check_cells(e, units) for e in others]),
               (_LIMIT_HEADERS, limits, [_limit_cells(e, units) for e in limits])]
     return [g for g in groups if g[1]]

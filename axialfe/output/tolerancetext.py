@@ -61,6 +61,7 @@ def study_dict(study, units: OutputUnits | None = None) -> dict:
     return {"title": study.title, "units": units.as_dict(), "samples": study.samples,
             "seed": study.seed, "worst_case_method": study.worst_case_method,
             "inputs": inputs, "outputs": outputs, "events": [dict(e) for e in study.events],
+            **({"check_samples": study.check_samples} if study.check_samples is not None else {}),
             "notes": list(study.notes)}
 
 

@@ -368,6 +368,7 @@ class _Fields:
     def __init__(self, n_from, n_to, q, rho_g, theta, length, end_valued):
         self.args = (n_from, n_to, q, rho_g, theta, length)
         self.end_valued = end_valued
+        self.n_from, self.n_to = n_from, n_to
 
     def peak(self, rows):
         """The stress of largest magnitude along segments ``rows`` (signed): (S, len(rows)).

@@ -69,8 +69,11 @@ class OutputSet:
     (the largest |stress| along it), ``gap:<name>:opening``, ``gap:<name>:force``.
     """
 
-    def __init__(self, model, names=None):
+    def __init__(self, model, names=None, checks=False):
         self.model = model
+        # with ``checks``: each segment's largest compression and every station's
+        # displacement, for the checks of each sample (:func:`_check_events`)
+        self.checks = checks
         stations = [s.name for s in model.stations]
         supported = list(dict.fromkeys(s.at for s in model.supports))
         segments = [s.name for s in model.segments]
@@ -103,6 +106,9 @@ class OutputSet:
     def of_arrays(self, u, stress, reactions, opening, force, closed):
         """The outputs of a batch of samples (arrays over samples)."""
         out = {"closed": closed}
+        if self.checks:
+            out["compression"] = np.maximum(-stress.n_from, -stress.n_to)
+            out["u"], out["opening:all"] = u, opening
         if len(self.stress_rows):
             peaks = stress.peak(self.stress_rows)
             for j, i in enumerate(self.stress_rows):
@@ -122,6 +128,9 @@ class OutputSet:
     def of_result(self, case):
         """The same outputs of one solved case (:class:`axialfe.results.CaseResult`)."""
         out = {"closed": np.asarray(case.gap_closed, dtype=bool)}
+        if self.checks:
+            out["compression"] = np.maximum(-case.axial_force[:, 0], -case.axial_force[:, 1])
+            out["u"], out["opening:all"] = np.asarray(case.u), np.asarray(case.gap_opening)
         if len(self.stress_rows):
             value, _ = case.fields.stress_peak()
             for i in self.stress_rows:
@@ -167,6 +176,7 @@ class Study:
     notes: tuple
     draws: dict = field(repr=False, compare=False, default_factory=dict)
     units: object = None
+    check_samples: int | None = None   # the samples the check-fails events count over
 
 
 def _draw(tolerances, samples, seed):
@@ -238,7 +248,8 @@ def run_study(model, build, samples=10_000, seed=1, outputs=None, progress=None,
     steps = np.where(nominal > centre, -half, half)
     _check_order(model, build, paths, nominal, tols)
     batch = Batch(model, paths, nominal, steps, build)
-    chosen = OutputSet(model, outputs)
+    checked = _Checked(model, paths)
+    chosen = OutputSet(model, outputs, checks=checked.vectorised)
     states = batch.states
     nominal_solution = solve_model(model)
     nominal_out = [chosen.of_result(case) for case in nominal_solution]
@@ -279,7 +290,12 @@ def run_study(model, build, samples=10_000, seed=1, outputs=None, progress=None,
             if samples:
                 row.update(statistics(draws[(s, name)]))
             rows.append(row)
-    events = _events(model, chosen, states, draws, nominal_out, samples) if samples else []
+    events, check_samples = [], None
+    if samples:
+        events = _events(model, chosen, states, draws, nominal_out, samples)
+        check_events, check_samples, check_notes = checked.events(states, draws, values, build)
+        events += check_events
+        notes += check_notes
     shared = {}
     for t in found:
         if t.path.startswith("materials."):
@@ -305,8 +321,9 @@ def run_study(model, build, samples=10_000, seed=1, outputs=None, progress=None,
     return Study(title=model.title, samples=samples, seed=seed,
                  worst_case_method=method or "none", inputs=inputs, outputs=tuple(rows),
                  events=tuple(events), notes=tuple(notes),
-                 draws={(states[s], n): v for (s, n), v in draws.items() if n != "closed"},
-                 units=model.units)
+                 draws={(states[s], n): v for (s, n), v in draws.items()
+                        if n not in ("closed", "compression", "u", "opening:all")},
+                 units=model.units, check_samples=check_samples)
 
 
 def input_rows(paths, tols) -> tuple[dict, ...]:
@@ -507,6 +524,123 @@ def _events(model, chosen, states, draws, nominal_out, samples):
             count = int(np.count_nonzero(draws[(s, f"stress:{name}")] >= fy))
             out.append(_event(name, "yields", state, count, samples))
     return out
+
+
+CHECK_SAMPLES = 1_000   # samples checked one by one where the checks cannot be vectorised
+
+
+class _Checked:
+    """The model's checks (``axialfe check``: strength, buckling, limits) of every sample.
+
+    Vectorised over the batch where each check's capacity is the same in every
+    sample: strength (the largest |stress| against a constant yield strength),
+    buckling where no toleranced input moves a capacity (load-type inputs only, or no
+    segment with a decidable capacity), and the limits.  Otherwise (tables against
+    temperature, a capacity moved by a size, a modulus or a position) the checks of
+    :func:`axialfe.checks.check_solution` run on each of the first
+    :data:`CHECK_SAMPLES` samples, and the study says so.
+    """
+
+    def __init__(self, model, paths):
+        from ..checks.buckling import buckling_capacities
+
+        self.model = model
+        self.settings = model.checks
+        self.capacities = buckling_capacities(model, self.settings)
+        load_type = all(p.rsplit(".", 1)[-1] in _LOAD_TYPE or p.split(".")[-2] in _LOAD_TYPE
+                        for p in paths)
+        tabled = any(seg.material.tabled for seg in model.segments)
+        decidable = any(c is not None for c, _ in self.capacities)
+        euler = self.settings.column_curve == "euler-only"
+        self.vectorised = not tabled and (load_type or not (decidable or euler))
+        # whether any check can give a verdict: a yield strength, a capacity, a limit
+        self.decides = (decidable or euler or bool(model.limits)
+                        or any(seg.material.yield_strength is not None or seg.material.tabled
+                               for seg in model.segments))
+
+    def events(self, states, draws, values, build):
+        """The ``check-fails`` events: one for each check that fails in some sample
+        (named ``<kind>:<item>``, e.g. ``strength:shaft``) and ``checks`` (any check of
+        the case) always; the number of samples counted; the notes."""
+        if not self.decides:
+            return [], None, ["check-fails: no check of 'axialfe check' can decide in this model "
+                              "(no yield strength, no buckling capacity, no limits), so there is "
+                              "no check-fails event"]
+        if self.vectorised:
+            n = len(values)
+            fails, undecided = self._vectorised(states, draws)
+            note = ("check-fails: the checks of 'axialfe check' (strength, buckling, limits) "
+                    "of every sample, vectorised")
+        else:
+            n = min(len(values), CHECK_SAMPLES)
+            fails, undecided = self._one_by_one(states, values[:n], build)
+            note = (f"check-fails: the checks of 'axialfe check' run on each of the first {n:,} "
+                    f"samples (of {len(values):,}; a capacity or a yield strength differs from "
+                    "sample to sample, so the checks are not vectorised): its probabilities "
+                    f"and intervals are over these {n:,}")
+        out = []
+        for s, state in enumerate(states):
+            any_fails = np.zeros(n, dtype=bool)
+            for name, flag in fails[s].items():
+                any_fails |= flag
+                if flag.any():
+                    out.append(_event(name, "check-fails", state, int(np.count_nonzero(flag)), n))
+            out.append(_event("checks", "check-fails", state, int(np.count_nonzero(any_fails)),
+                              n))
+        note += ("; listed are the checks that fail in some sample (as <kind>:<item>) and "
+                 "'checks', any check of the case")
+        if undecided:
+            note += f"; {undecided:,} undecided verdicts are not counted as failures"
+        return out, n, [note]
+
+    def _vectorised(self, states, draws):
+        model, sf = self.model, self.settings.safety_factor
+        fails, undecided = [], 0
+        index = {st.name: i for i, st in enumerate(model.stations)}
+        gaps = [g.name for g in model.gaps]
+        for s in range(len(states)):
+            got = {}
+            for i, seg in enumerate(model.segments):
+                fy = seg.material.yield_strength
+                if fy is not None:
+                    got[f"strength:{seg.name}"] = ~(draws[(s, f"stress:{seg.name}")] * sf / fy
+                                                    <= 1.0)
+            compression = draws[(s, "compression")]
+            for i, (seg, (cap, _)) in enumerate(zip(model.segments, self.capacities)):
+                noise = 1e-12 * seg.material.elastic_modulus * min(x.area for x in seg.sections)
+                pressed = compression[:, i] > noise
+                if cap is None:
+                    undecided += int(np.count_nonzero(pressed))
+                else:
+                    got[f"buckling:{seg.name}"] = pressed & ~(compression[:, i] * sf / cap <= 1.0)
+            for lim in model.limits:
+                if lim.at is not None:
+                    u = np.abs(draws[(s, "u")][:, index[lim.at]])
+                    got[f"displacement:{lim.at}"] = ~(u / lim.displacement <= 1.0)
+                else:
+                    j = gaps.index(lim.gap)
+                    closed = draws[(s, "closed")][:, j]
+                    opening = draws[(s, "opening:all")][:, j]
+                    got[f"gap:{lim.gap}"] = closed | ~(lim.min_opening / np.where(
+                        closed, 1.0, opening) <= 1.0)
+            fails.append(got)
+        return fails, undecided
+
+    def _one_by_one(self, states, values, build):
+        from ..checks import check_solution
+
+        paths = [t.path for t in self.model.tolerances]
+        fails = [dict() for _ in states]
+        undecided = 0
+        for row, x in enumerate(values):
+            report = check_solution(solve_model(build(dict(zip(paths, x.tolist())))))
+            for s, case in enumerate(report.cases):
+                for e in case.entries:
+                    key = f"{e.kind}:{e.name}"
+                    flags = fails[s].setdefault(key, np.zeros(len(values), dtype=bool))
+                    flags[row] = e.ok is False
+                    undecided += e.ok is None
+        return fails, undecided
 
 
 def _event(name, event, case, count, n):
