@@ -419,9 +419,17 @@ class OutputUnits:
     def factor(self, key: str) -> float:
         """Return the SI value of one ``key`` unit (``force``, ``length``, ..., ``temperature``:
         the size of its degree in kelvin)."""
-        if key == "temperature":
-            return TEMPERATURE_UNITS[self.temperature]
-        return unit_factor(getattr(self, key), _KIND_OF[key])
+        found = self._factors.get(key)
+        if found is None:
+            found = self._factors[key] = (
+                TEMPERATURE_UNITS[self.temperature] if key == "temperature"
+                else unit_factor(getattr(self, key), _KIND_OF[key]))
+        return found
+
+    @functools.cached_property
+    def _factors(self) -> dict:
+        """The factors asked for so far (a table writes thousands of values in few units)."""
+        return {}
 
     def as_dict(self) -> dict[str, str]:
         return {**{k: getattr(self, k) for k in _KIND_OF}, "temperature": self.temperature}

@@ -256,7 +256,7 @@ def test_a_dotted_table_name_says_to_quote_it(tmp_path, cli):
 
 
 @given(st.lists(st.text(alphabet="abc-'.(xyz", min_size=1, max_size=14), min_size=1, max_size=30),
-       st.integers(8, 60), st.sampled_from([("", ""), (" ", "   "), ("  12. ", "      ")]))
+       st.integers(1, 60), st.sampled_from([("", ""), (" ", "   "), ("  12. ", "      ")]))
 def test_notes_wrap_as_textwrap_wraps_them(words, width, indents):
     # the fill of text set apart by single spaces is textwrap's (standard library), word for word
     import textwrap

@@ -40,11 +40,31 @@ A strut braced at both ends and split in three: every segment has the whole run.
 
 from __future__ import annotations
 
+import functools
+import weakref
 from dataclasses import dataclass
 
 from ..model import Model
 
 __all__ = ["Run", "braced_runs", "braced_stations", "parallel_segments"]
+
+
+def _once_per_model(fn):
+    """``fn(model)`` worked out once for each model object: a model is immutable, and the
+    checks and the notes of a solve all ask for its runs (the entry goes with the model)."""
+    cache = {}
+
+    @functools.wraps(fn)
+    def once(model):
+        key = id(model)
+        hit = cache.get(key)
+        if hit is not None and hit[0]() is model:
+            return hit[1]
+        value = fn(model)
+        cache[key] = (weakref.ref(model, lambda _, key=key: cache.pop(key, None)), value)
+        return value
+
+    return once
 
 
 @dataclass(frozen=True)
@@ -97,6 +117,7 @@ def braced_stations(model: Model) -> frozenset[str]:
                      | {sup.at for sup in model.supports})
 
 
+@_once_per_model
 def braced_runs(model: Model) -> tuple[Run, ...]:
     """The braced run of every segment, in the order of ``model.segments``.
 
@@ -154,6 +175,7 @@ def braced_runs(model: Model) -> tuple[Run, ...]:
     return tuple(runs)
 
 
+@_once_per_model
 def parallel_segments(model: Model) -> tuple[tuple[str, ...], ...]:
     """For every segment, the segments of the same member that lie beside it.
 

@@ -91,6 +91,11 @@ def _curve_text(curve, strength, slender, tangency):
             f"F_cr = {strength.reduction:.4g}*F_y")
 
 
+def _weaker_end(moments) -> int:
+    """The index of the smaller of a segment's two second moments (the first of equals)."""
+    return 1 if moments[1] < moments[0] else 0
+
+
 def _bending_stiffness(seg):
     """The smaller E*I of a segment's two ends, None when a section gives no second moment."""
     moments = [s.second_moment for s in seg.sections]
@@ -133,8 +138,10 @@ def buckling_checks(result: CaseResult, settings: CheckSettings):
         return quantity_text(value, "force")
 
     out = []
+    N = result.axial_force
+    compressions = np.maximum(-N[:, 0], -N[:, 1]).tolist()
     for i, seg in enumerate(model.segments):
-        compression = float(max(-result.axial_force[i, 0], -result.axial_force[i, 1]))
+        compression = compressions[i]
         areas = [s.area for s in seg.sections]
         if compression <= _STRAIN_NOISE * seg.material.elastic_modulus * min(areas):
             continue
@@ -159,7 +166,7 @@ def buckling_checks(result: CaseResult, settings: CheckSettings):
                              f"'{seg.sections[moments.index(None)].name}' gives only an area; "
                              "add second_moment to check buckling"))
             continue
-        j = int(np.argmin(moments))          # the weaker end of a taper governs
+        j = _weaker_end(moments)             # the weaker end of a taper governs
         inertia, area = moments[j], areas[j]
         E, fy = seg.material.elastic_modulus, seg.material.yield_strength
         p_euler = math.pi ** 2 * E * inertia / (k * length) ** 2
@@ -219,7 +226,7 @@ def buckling_capacities(model, settings: CheckSettings):
         if fy is None:
             out.append((None, "no yield strength"))
             continue
-        j = int(np.argmin(moments))
+        j = _weaker_end(moments)
         inertia, area = moments[j], [s.area for s in seg.sections][j]
         slender = k * length / math.sqrt(inertia / area)
         if curve == "euler-only":

@@ -13,6 +13,7 @@ __all__ = ["CheckEntry", "CaseChecks", "CheckReport", "KINDS", "quantity_text", 
 KINDS = ("strength", "buckling", "displacement", "gap")
 # deformation limits: which of an entry's demand and capacity is required and which actual
 _DEFORMATION = {"displacement": ("capacity", "demand"), "gap": ("demand", "capacity")}
+LIMIT_KINDS = frozenset(_DEFORMATION)   # the kinds whose amounts are required, actual, margin
 
 
 @dataclass(frozen=True)

@@ -12,7 +12,7 @@ import io
 import json
 import re
 
-from ..formatting import number
+from ..formatting import number, numbers
 from ..results import Solution
 from ..units import OutputUnits
 
@@ -35,6 +35,16 @@ CAUTIONS = (
 
 def _g(value, digits=6):
     return number(value, digits, plain=False)
+
+
+def _gs(values, digits=6):
+    """:func:`_g` of each value: a table's column, formatted in one pass."""
+    return numbers(list(values), digits, plain=False)
+
+
+def _rows(*columns):
+    """The rows of a table given by its columns."""
+    return [list(r) for r in zip(*columns)]
 
 
 def terminal_width() -> int:
@@ -84,7 +94,7 @@ def _grid(headers, rows, indent="  ", width=None):
     return out
 
 
-_OTHER_SPACE = re.compile(r"[\t\n\x0b\x0c\r]|  |^ | $")
+_OTHER_SPACE = re.compile(r"[\t\n\x0b\x0c\r]")
 
 
 def _wrapped(text, width, first, rest):
@@ -92,23 +102,26 @@ def _wrapped(text, width, first, rest):
     after ``rest``; a word longer than the line stands alone.  Text whose words are set apart
     by single spaces (every note and message) is filled here, greedily, as ``textwrap`` fills
     it; any other goes to ``textwrap`` itself."""
-    if not text or _OTHER_SPACE.search(text):
+    if (not text or text[0] == " " or text[-1] == " " or "  " in text
+            or _OTHER_SPACE.search(text)):
         import textwrap
 
         return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
                              break_on_hyphens=False, break_long_words=False) or [first.rstrip()]
-    out, line, empty = [], first, True
-    for word in text.split(" "):
-        if empty:
-            line += word
-            empty = False
-        elif len(line) + 1 + len(word) <= width:
-            line += " " + word
-        else:
-            out.append(line)
-            line = rest + word
-    out.append(line)
-    return out
+    out, at, indent, end = [], 0, first, len(text)
+    while True:
+        room = width - len(indent)
+        if end - at <= room:                       # the rest fits
+            out.append(indent + text[at:])
+            return out
+        cut = text.rfind(" ", at, at + room + 1)   # the last space that ends a line that fits
+        if cut < 0:                                # a word longer than the line stands alone
+            cut = text.find(" ", at)
+            if cut < 0:
+                out.append(indent + text[at:])
+                return out
+        out.append(indent + text[at:cut])
+        at, indent = cut + 1, rest
 
 
 def _fit_grid(headers, rows, indent="  "):
@@ -165,17 +178,21 @@ def _all_numbers(texts) -> bool:
 def _case_tables(case: dict, units: dict):
     """Yield (title, headers, rows) for one case in the JSON layout."""
     F, L, D, S = units["force"], units["length"], units["displacement"], units["stress"]
+    stations = sorted(case["stations"], key=lambda s: s["x"])   # in order of x
     yield ("stations", ["station", f"x [{L}]", f"displacement [{D}]"],
-           [[s["name"], _g(s["x"]), _g(s["displacement"])]
-            for s in sorted(case["stations"], key=lambda s: s["x"])])   # in order of x
-    heated = any(s["temperature_change"] for s in case["segments"])
+           _rows([s["name"] for s in stations], _gs(s["x"] for s in stations),
+                 _gs(s["displacement"] for s in stations)))
+    segs = case["segments"]
+    heated = any(s["temperature_change"] for s in segs)
+    columns = [[s["name"] for s in segs], [s["from"] for s in segs], [s["to"] for s in segs],
+               _gs(s["length"] for s in segs), _gs(s["axial_force"][0] for s in segs),
+               _gs(s["axial_force"][1] for s in segs), _gs(s["stress"][0] for s in segs),
+               _gs(s["stress"][1] for s in segs), _gs(s["elongation"] for s in segs)]
+    if heated:
+        columns.append(_gs(s["temperature_change"] for s in segs))
     yield ("segments", ["segment", "from", "to", f"L [{L}]", f"N from [{F}]", f"N to [{F}]",
                         f"stress from [{S}]", f"stress to [{S}]", f"elongation [{D}]"]
-           + ([f"dT [{units.get('temperature', 'K')}]"] if heated else []),
-           [[s["name"], s["from"], s["to"], _g(s["length"]), _g(s["axial_force"][0]),
-             _g(s["axial_force"][1]), _g(s["stress"][0]), _g(s["stress"][1]),
-             _g(s["elongation"])] + ([_g(s["temperature_change"])] if heated else [])
-            for s in case["segments"]])
+           + ([f"dT [{units.get('temperature', 'K')}]"] if heated else []), _rows(*columns))
     if case["reactions"]:
         if "load_on_support" in case["reactions"][0]:   # added by _data
             yield ("reactions (force of the support on the bar, + toward +x; the load on the "
@@ -229,9 +246,11 @@ def _data(solution: Solution, units: OutputUnits, notes=None, zero_noise=False) 
             bound = {k: v / f[k] for k, v in rounding_bounds(result).items()}
 
             def clean(value, kind):
+                b = bound[kind]
                 if isinstance(value, list):
-                    return [clean(v, kind) for v in value]
-                return 0.0 if abs(value) <= bound[kind] else value
+                    return [clean(v, kind) if isinstance(v, list) else 0.0 if -b <= v <= b else v
+                            for v in value]
+                return 0.0 if abs(value) <= b else value
 
             for st in case["stations"]:
                 st["displacement"] = clean(st["displacement"], "displacement")
@@ -532,9 +551,11 @@ def check_groups(entries, units: OutputUnits):
     """The check tables of ``entries``: ``(headers, entries, rows)`` for strength and
     buckling (demand, capacity), then for deformation limits (actual, required, margin),
     each only when it has a row."""
+    from ..checks.entries import LIMIT_KINDS
+
     entries = list(entries)
-    limits = [e for e in entries if "required" in e.amounts(units)]
-    others = [e for e in entries if e not in limits]
+    limits = [e for e in entries if e.kind in LIMIT_KINDS]
+    others = [e for e in entries if e.kind not in LIMIT_KINDS]
     groups = [(_CHECK_HEADERS, others, [_check_cells(e, units) for e in others]),
               (_LIMIT_HEADERS, limits, [_limit_cells(e, units) for e in limits])]
     return [g for g in groups if g[1]]
