@@ -19,7 +19,7 @@ from test_properties import PROPS, models
 from axialfe.engine import factor
 from axialfe.engine.assembly import assemble
 from axialfe.engine.active_set import CYCLED, active_set
-from axialfe.engine.factor import Band, band_of, factorise
+from axialfe.engine.factor import Band, band_of, band_of_run, factorise
 from axialfe.engine.system import System, solve
 from axialfe.errors import SolveError
 from axialfe.model import Gap, Load, Material, Model, Section, Segment, Station, Support
@@ -192,6 +192,26 @@ def test_band_of_writes_the_free_free_stiffness():
     assert np.abs(dense - K[np.ix_(free, free)]).max() <= 1e-12
     v = rng.standard_normal(len(free))
     assert np.abs(band.matvec(v) - dense @ v).max() <= 1e-12
+
+
+@PROPS
+@given(st.integers(2, 30).flatmap(lambda n: st.tuples(
+    st.just(n), st.integers(0, n - 1), st.integers(1, n),
+    st.lists(st.floats(0.5, 5.0), min_size=n - 1, max_size=n - 1),
+    st.lists(st.sampled_from([0.0, 0.0, 3.0]), min_size=n, max_size=n))))
+def test_the_band_of_a_run_of_a_chain_is_band_of(case):
+    # a chain numbered along the bar whose unknowns are one run of stations: its band
+    # written from slices, against band_of's, to the last bit
+    n, first, size, k, spring = case
+    stop = min(first + size, n)
+    k, spring = np.array(k), np.array(spring)
+    pos = np.full(n, -1)
+    pos[first:stop] = np.arange(stop - first)
+    start = np.arange(n - 1)
+    a = band_of_run(first, stop, k, spring)
+    b = band_of(stop - first, pos, start, start + 1, k, spring)
+    assert a.ab.shape == b.ab.shape
+    assert a.ab.tobytes() == b.ab.tobytes()
 
 
 @pytest.mark.parametrize("n, width", [(3, 1), (40, 1), (40, 2)])  # whole, tridiagonal, general

@@ -48,6 +48,10 @@ class Assembly:
         Density times the gravity component along each segment's direction.
     terms : ElementTerms
         The element terms as :mod:`axialfe.mechanics` gives them.
+    chain : bool
+        True when segment i runs from station i to station i + 1 (a chain numbered
+        along the bar): :meth:`ends` and :meth:`to_stations` then read and write
+        slices instead of gathering and scattering by index.
     K : scipy.sparse.csr_matrix
         Global stiffness of the segments alone (springs not included), built on
         first use (the banded path never needs it).
@@ -69,6 +73,7 @@ class Assembly:
     sections: tuple
     rho_g: np.ndarray
     terms: object
+    chain: bool = False
 
     def __post_init__(self):
         # shared by every case and result of the model: never written after this
@@ -76,6 +81,31 @@ class Assembly:
             value = getattr(self, name)
             if isinstance(value, np.ndarray):
                 value.setflags(write=False)
+
+    def ends(self, values):
+        """``(values[start], values[end])``: a station array read at each segment's ends."""
+        if self.chain:
+            return values[:-1], values[1:]
+        return values[self.start], values[self.end]
+
+    def to_stations(self, at_from, at_to, subtract=False):
+        """The station sums of ``at_from`` at each segment's ``from`` station plus (or minus,
+        with ``subtract``) ``at_to`` at its ``to`` station, as ``np.bincount`` sums them."""
+        if self.chain:
+            out = np.zeros(self.n)
+            out[:-1] += at_from
+            if subtract:
+                out[1:] -= at_to
+            else:
+                out[1:] += at_to
+            return out
+        out = np.bincount(self.start, at_from, minlength=self.n).astype(float, copy=False)
+        to = np.bincount(self.end, at_to, minlength=self.n)
+        if subtract:
+            out -= to
+        else:
+            out += to
+        return out
 
     @functools.cached_property
     def area(self):
@@ -133,7 +163,8 @@ def assemble(model: Model) -> Assembly:
     n = len(model.stations)
     arr = model.arrays
     start, end, x = arr.start, arr.end, arr.x
-    dx = x[end] - x[start]
+    chain = _is_chain(n, start, end)
+    dx = x[1:] - x[:-1] if chain else x[end] - x[start]
     direction = np.sign(dx)
     length = np.abs(dx)
     c, p1, q1, p2, q2 = arr.c, arr.p1, arr.q1, arr.p2, arr.q2
@@ -145,7 +176,15 @@ def assemble(model: Model) -> Assembly:
     return Assembly(n=n, start=start, end=end, direction=direction, length=length, stiffness=k,
                     modulus=E, expansion=alpha, misfit=misfit, q=q, g_unit_q=terms.g_unit_q,
                     w_self=terms.w_self, g_self=terms.g_self, sections=(c, p1, q1, p2, q2),
-                    rho_g=rho_g, terms=terms)
+                    rho_g=rho_g, terms=terms, chain=chain)
+
+
+def _is_chain(n, start, end) -> bool:
+    """True when segment i runs from station i to station i + 1."""
+    m = len(start)
+    if m != n - 1 or not m or start[0] != 0 or end[-1] != m:
+        return False
+    return bool(np.array_equal(start, np.arange(m)) and np.array_equal(end[:-1], start[1:]))
 
 
 def _read_only(value):
@@ -176,6 +215,7 @@ def element_loads(asm: Assembly, dT, q_factor=1.0):
     q_local = q_factor * asm.q * asm.direction
     delta0, G, W = load_terms(asm.terms, q_local, dT, asm.expansion, asm.length, asm.misfit)
     f_from, f_to = nodal_loads(asm.terms, delta0, G, W)
-    nodal = (np.bincount(asm.start, asm.direction * f_from, minlength=asm.n)
-             + np.bincount(asm.end, asm.direction * f_to, minlength=asm.n))
+    if not asm.forward:                  # along each segment's direction, to global
+        f_from, f_to = asm.direction * f_from, asm.direction * f_to
+    nodal = asm.to_stations(f_from, f_to)
     return nodal, delta0, G, W

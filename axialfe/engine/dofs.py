@@ -171,8 +171,11 @@ def degrees_of_freedom(model: Model, start, end, cons) -> Dofs:
     restrained = np.zeros(n, dtype=bool)
     restrained[presc] = True
     restrained[anchors] = True
-    in_part = part_label >= 0
-    E = sp.csr_matrix((np.ones(int(in_part.sum())), (np.flatnonzero(in_part), part_label[in_part])),
-                      shape=(n, len(free_comps)))
+    if len(free_comps):
+        in_part = np.flatnonzero(part_label >= 0)
+        E = sp.csr_matrix((np.ones(len(in_part)), (in_part, part_label[in_part])),
+                          shape=(n, len(free_comps)))
+    else:
+        E = sp.csr_matrix((n, 0))
     return Dofs(presc_support, presc, spring_support, spring_at, spring_k, part_label,
                 len(free_comps), anchors, np.flatnonzero(~restrained), np.flatnonzero(restrained), E)

@@ -32,7 +32,7 @@ import numpy as np
 from ..errors import ModelError, SolveError, suggest
 
 __all__ = ["METHODS", "BAND_LIMIT", "Band", "BandedCholesky", "SparseLU", "band_of",
-           "factorise", "made"]
+           "band_of_run", "factorise", "made"]
 
 METHODS = ("auto", "banded", "sparse-lu")
 BAND_LIMIT = 64             # "auto" takes the band up to this half-bandwidth ...
@@ -86,7 +86,7 @@ class Band:
         return out
 
 
-def band_of(n, pos, start, end, stiffness, diagonal, held=None):
+def band_of(n, pos, start, end, stiffness, diagonal, held=None, ends=None):
     """The free-free stiffness as a :class:`Band`, written straight from the segment arrays.
 
     Parameters
@@ -103,6 +103,9 @@ def band_of(n, pos, start, end, stiffness, diagonal, held=None):
     held : ndarray of int, optional
         The segments with an end that is not an unknown (found here when not given;
         a caller that knows them spares a pass).
+    ends : callable, optional
+        ``ends(v)`` gives ``(v[start], v[end])`` (:meth:`Assembly.ends`, which reads a
+        chain's ends as slices).
 
     Notes
     -----
@@ -110,7 +113,7 @@ def band_of(n, pos, start, end, stiffness, diagonal, held=None):
     them; the sums are three ``np.bincount`` calls, with no loop over segments.
     """
     p = np.where(pos < 0, n, pos)          # one spare slot, n, collects what is not an unknown
-    i, j = p[start], p[end]
+    i, j = ends(p) if ends is not None else (p[start], p[end])
     if held is None:
         held = np.flatnonzero((i == n) | (j == n))
     diag = np.bincount(i, stiffness, minlength=n + 1).astype(float, copy=False)
@@ -131,6 +134,25 @@ def band_of(n, pos, start, end, stiffness, diagonal, held=None):
         span[held] = 0
         off = np.bincount(span, stiffness, minlength=(w + 1) * n)
         np.subtract(0.0, off[n:(w + 1) * n], out=ab.reshape(-1)[n:])
+    return Band(ab)
+
+
+def band_of_run(first, stop, stiffness, diagonal):
+    """The free-free stiffness of a chain as a :class:`Band`, when its unknowns are the
+    stations ``first, ..., stop - 1`` (one run, in order; segment i joins stations i and
+    i + 1).  The same band as :func:`band_of`, written from slices of the segment arrays.
+    """
+    n = stop - first
+    sums = np.zeros(len(diagonal))
+    sums[:-1] += stiffness
+    sums[1:] += stiffness               # each station's segments, as band_of sums them
+    springs = np.flatnonzero(diagonal)
+    sums[springs] += diagonal[springs]
+    ab = np.empty((2 if n > 1 else 1, n))
+    ab[0] = sums[first:stop]
+    if n > 1:
+        np.subtract(0.0, stiffness[first:stop - 1], out=ab[1, :-1])
+        ab[1, -1] = 0.0
     return Band(ab)
 
 

@@ -43,12 +43,14 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     mu, mF, mlam, md0, mG, mW = magnitudes if magnitudes is not None else (
         np.abs(u), np.abs(F), np.abs(lam), np.abs(delta0), np.abs(G), np.abs(W))
     forward = asm.forward
-    stretch_u = u[end] - u[start]        # the change of distance, read once for du and K u
+    u_from, u_to = asm.ends(u)
+    stretch_u = u_to - u_from            # the change of distance, read once for du and K u
     du = stretch_u if forward else e * stretch_u
     n_from, _ = end_forces(asm.terms, du, delta0, G, W)
     # rounding bound of N: du is a difference of two displacements, so its error
     # scales with their size, not with du itself
-    pair = mu[start] + mu[end]
+    mu_from, mu_to = asm.ends(mu)
+    pair = mu_from + mu_to
     noise = pair + md0
     noise += mG
     noise *= k
@@ -93,9 +95,9 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     # prescribed support's own share, whatever spring stands beside it)
 
     # Station balance from the recovered segment forces: an independent check.
-    balance = _sums(start, n_from if forward else e * n_from, n)
+    balance = asm.to_stations(n_from if forward else e * n_from, n_to if forward else e * n_to,
+                              subtract=True)
     balance += state.forces
-    balance -= _sums(end, n_to if forward else e * n_to, n)
     if g:
         balance -= gap_nodal
     np.add.at(balance, system.spring_at, spring_force)
@@ -106,8 +108,7 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     t = k * pair
     t *= _ULPS
     t += noise                           # each segment's share at both its stations
-    station_noise = _sums(start, t, n)
-    station_noise += _sums(end, t, n)
+    station_noise = asm.to_stations(t, t)
     rest = mF * _ULPS
     if g:
         rest += _ULPS * (abs(system.BT) @ mlam)
@@ -204,9 +205,10 @@ def _copy(value):
 
 def _fields(asm, q_factor, n_from, N, x):
     """The fields inside the segments (:meth:`Fields.of`) of a recovered state."""
+    x_from, x_to = asm.ends(x)
     return Fields.of(n_from, q_factor * asm.q * asm.direction, asm.rho_g, *asm.factors.T,
-                     asm.length, asm.modulus, end_force=N, x_from=x[asm.start],
-                     x_to=x[asm.end], area=asm.area_table)
+                     asm.length, asm.modulus, end_force=N, x_from=x_from, x_to=x_to,
+                     area=asm.area_table)
 
 
 def gap_tolerance(system, u, delta0=None, F=None):

@@ -28,7 +28,7 @@ from .assembly import Assembly, assemble, element_loads
 from .constraints import unilateral
 from .contact import solve_gaps
 from .dofs import degrees_of_freedom
-from .factor import band_of, factorise
+from .factor import band_of, band_of_run, factorise
 from .pivoting import SOLVED
 from .recovery import recover
 
@@ -78,7 +78,7 @@ class System:
                          if nf and free[-1] - free[0] + 1 == nf else free)
         held = np.zeros(n, dtype=bool)
         held[dofs.restrained] = True
-        held_s, held_e = held[asm.start], held[asm.end]
+        held_s, held_e = asm.ends(held)
         # the segments with a restrained end: the only ones whose forces reach a reaction
         self.held_segments = hs = np.flatnonzero(held_s | held_e)
         tie_s, tie_e = hs[~held_s[hs]], hs[~held_e[hs]]   # free start, free end
@@ -121,8 +121,12 @@ class System:
                 order = order[::-1].copy()
             pos = np.full(asm.n, -1)
             pos[free[order]] = np.arange(len(free))
-        band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness, self.spring_diagonal,
-                       held=self.held_segments)
+        run = self._free_at
+        if asm.chain and order is None and isinstance(run, slice):
+            band = band_of_run(run.start, run.stop, asm.stiffness, self.spring_diagonal)
+        else:
+            band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness,
+                           self.spring_diagonal, held=self.held_segments, ends=asm.ends)
         band.order = order
         self.band = band
         return band

@@ -128,4 +128,5 @@ def nodal_loads(terms: ElementTerms, delta0, G, W):
     ``f_from = -k*delta0 + k*G`` and ``f_to = k*delta0 + W - k*G``.
     """
     k = terms.stiffness
-    return -k * delta0 + k * G, k * delta0 + W - k * G
+    kd, kG = k * delta0, k * G
+    return kG - kd, kd + W - kG
