@@ -240,3 +240,72 @@ def test_constant_valued_tables_give_the_constant_property_path(case):
         scale = max(np.abs(sa.result.axial_force).max(), 1.0)
         assert_close(sb.result.axial_force, sa.result.axial_force, rel=1e-9, abs_=1e-9 * scale)
         assert_close(sb.plastic_strain, sa.plastic_strain, rel=1e-8, abs_=1e-12)
+
+
+# --- the command and the example ----------------------------------------------------------
+def test_the_hot_housing_example_loses_the_clamp_of_its_hand_solution(cli, tmp_path):
+    # The hand solution in the example's comments, from the built-in table entries at
+    # 300 degF and 400 degF (ASME B31.3 Table C-6 and C-1, Section II Part D TE-2 and Y-1,
+    # from memory): 150 degC = 302 degF lies 2 % of the way between them.
+    import json
+
+    from conftest import EXAMPLES
+
+    psi, f = 6894.757293168, 0.02
+    E_b = (28.3e6 + f * (27.7e6 - 28.3e6)) * psi
+    E_h = (9.2e6 + f * (8.7e6 - 9.2e6)) * psi
+    eps_b = (1.517 + f * (2.250 - 1.517)) * 1e-3
+    eps_h = (23.8e-6 + f * (24.1e-6 - 23.8e-6)) * (150.0 - (70 - 32) / 1.8)
+    fy = (31.0 + f * (30.0 - 31.0)) * psi * 1e3
+    L, A_b, A_h, delta = 0.06, 84.3e-6, 300e-6, 0.05e-3
+    p = delta + L * (eps_h - eps_b) - fy * A_b * (L / (E_b * A_b) + L / (E_h * A_h))
+    F_res = (delta - p) / (L / (29.5e6 * psi * A_b) + L / (10.0e6 * psi * A_h))
+    plot = tmp_path / "path.png"
+    out = cli("path", f"{EXAMPLES}/bolt-hot-housing-path.toml", "--case", "hot", "--path",
+              "temperature 70 degF..302 degF; temperature 302 degF..70 degF", "--format",
+              "json", "--force-unit", "N", "--plot", plot)
+    assert out.exit_code == 0, out.output
+    data = json.loads(out.stdout)
+    assert [(e["leg"], e["name"], e["event"]) for e in data["events"]] == [
+        (1, "bolt", "yields"), (2, "bolt", "unloads")]
+    hot, cold = data["states"]
+    assert hot["segments"][0]["axial_force"][0] == pytest.approx(fy * A_b, rel=1e-10)
+    assert hot["segments"][0]["plastic_strain"] == pytest.approx(p / L, rel=1e-9)
+    assert cold["segments"][0]["axial_force"][0] == pytest.approx(F_res, rel=1e-9)
+    assert any("f_y at each segment's temperature" in n for n in data["notes"])
+    assert plot.stat().st_size > 0
+    table = cli("path", f"{EXAMPLES}/bolt-hot-housing-path.toml", "--case", "hot", "--path",
+                "temperature 70 degF..302 degF; temperature 302 degF..70 degF")
+    assert table.exit_code == 0
+    shown = " ".join(table.stdout.split())   # the notes wrap to the terminal's width
+    assert "f_y at each segment's temperature" in shown
+    assert "bracketed root-finding between the table entries" in shown
+
+
+def test_the_first_yield_of_the_example_bolt_is_the_root_of_its_clamp_equation(cli):
+    # F(T) = f_y(T)*A_b with every property interpolated linearly in the built-in tables
+    # (entries in degF, as above), solved here by brentq
+    import json
+
+    from conftest import EXAMPLES
+
+    psi = 6894.757293168
+    tF = np.array([70.0, 200.0, 300.0, 400.0])
+    E_b = np.array([29.5, 28.8, 28.3, 27.7]) * 1e6 * psi
+    eb = np.array([0.0, 0.825, 1.517, 2.250]) * 1e-3
+    fy_b = np.array([35.0, 31.9, 31.0, 30.0]) * 1e3 * psi
+    E_h = np.array([10.0, 9.6, 9.2, 8.7]) * 1e6 * psi
+    a_h = np.array([22.9, 23.2, 23.8, 24.1]) * 1e-6
+    L, A_b, A_h, delta = 0.06, 84.3e-6, 300e-6, 0.05e-3
+
+    def excess(T):     # degF
+        k = L / (np.interp(T, tF, E_b) * A_b) + L / (np.interp(T, tF, E_h) * A_h)
+        eps_h = np.interp(T, tF, a_h) * (T - 70.0) / 1.8
+        F = (delta + L * (eps_h - np.interp(T, tF, eb))) / k
+        return F - np.interp(T, tF, fy_b) * A_b
+
+    T_y = brentq(excess, 200.0, 300.0, xtol=1e-12)
+    out = cli("path", f"{EXAMPLES}/bolt-hot-housing-path.toml", "--case", "hot", "--path",
+              "temperature 70 degF..302 degF", "--format", "json")
+    data = json.loads(out.stdout)
+    assert data["events"][0]["value"] == pytest.approx(T_y, rel=1e-11)

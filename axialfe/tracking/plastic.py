@@ -32,6 +32,12 @@ form a mechanism at a fixed parameter, the model moves along it until a gap
 arrests it (the motion found from the null space of the rate problem); with no
 gap in reach the model ``collapses``.
 
+Properties against temperature: a leg that holds the temperatures is affine
+as above, on the tracker built at them; a leg that moves them through tables is
+followed by :class:`axialfe.tracking.plastictables.TabledCourse` (the same
+events, found by bracketed root-finding between the table entries).  The step
+from one event to the next is a course's (``_AffineCourse`` here).
+
 Scope: prismatic plastic segments without distributed load or self-weight;
 every part held by a support (a part held only by gaps is refused).
 """
@@ -389,7 +395,7 @@ class _Tracker:
         v = (dX_el + self.A_p @ (side * z) + self.A_g @ dg)[nP:]
         return z, w, dg, v
 
-    def rates(self, side, held, touching, dX_el):
+    def rates(self, side, held, touching, dX_el, tol=1e-10):
         """The rates of plastic elongation and gap force per unit of the leg's parameter.
 
         ``side`` marks the segments at a bound, ``held`` the closed gaps with a force
@@ -397,6 +403,9 @@ class _Tracker:
         force or just reached (they may close or open: complementarity).  The
         equalities are eliminated, the rest is one complementarity problem solved by
         Lemke's method (:func:`axialfe.engine.pivoting.lemke`).
+
+        ``tol`` is the rounding bound of the rates' input (relative), below which a
+        segment's distance from flowing counts as zero for the least-norm split.
 
         Returns ``(z, w, dg, v)``: plastic rates (>= 0) and the distance of each
         segment's rate from its bound's, gap force rates and opening rates; all None
@@ -421,7 +430,7 @@ class _Tracker:
                 if status != pivoting.SOLVED:
                     raise SolveError("the search for the yielding segments did not settle",
                                      file=self.model.source)
-                x = _least_norm(M, q, np.maximum(xs, 0.0) * D * scale)
+                x = _least_norm(M, q, np.maximum(xs, 0.0) * D * scale, tol)
         return self._unpack(side, parts, x, dX_el)
 
     def mechanism(self, side, held, touching, dX_el):
@@ -493,6 +502,16 @@ class _AffineCourse:
 
     def rate(self, t, side, p, gl):
         return self.dX_el
+
+    def between(self):
+        return ()          # straight between events
+
+    def clean(self, z, dX_el, tr):
+        """Plastic rates below the rounding bound are no flow (a segment at its bound that
+        shares the force of a perfectly plastic one in series gets a rate of rounding)."""
+        nP = len(z)
+        bound = self.tol * max(np.abs(dX_el[:nP] / tr.k).max(initial=0.0), 1e-300)
+        return np.where(z > bound, z, 0.0)
 
     def step(self, t, side, z, dg, v, closed, touching, p, gl, N, o):
         """``(t_next, hit, tension, release, g_hit, p, gl)`` at the next event.
@@ -600,7 +619,8 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     ------
     ModelError
         For a part held only by gaps, a plastic taper or distributed load, a leg
-        that starts away from the current value.
+        that starts away from the current value, a temperature outside a table
+        on the path (naming the leg and the material), a preload with tables.
     SolveError
         When the rate problem does not settle.
 
@@ -705,7 +725,9 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             dX_el = course.rate(t, side, p, gl)
             held = closed & (gl > 0)
             contact = touching | (closed & ~held)
-            z, w, dg, v = tr.rates(side, held, contact, dX_el)
+            z, w, dg, v = tr.rates(side, held, contact, dX_el, course.tol)
+            if z is not None:
+                z = course.clean(z, dX_el, tr)
             if z is None and tr.g:
                 # a mechanism: it moves at the fixed parameter until a gap arrests it
                 motion = tr.mechanism(side, held, contact, dX_el)
@@ -775,6 +797,9 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
             t_next, hit, tension, release, g_hit, p_next, gl = course.step(
                 t, side, z, dg, v, closed, touching, p, gl, N, o)
             moved += np.abs(p_next - p)
+            for s_, N_s, gl_s in course.between():
+                history.append((leg.index, leg.value(s_), _full(model, P, N_s),
+                                tr.signed(gl_s)))
             p, t = p_next, t_next
             lam, thermal = at(t)
             tr = course.tracker(t)
@@ -814,7 +839,7 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
                       tuple(history), tuple(notes), model, base.name)
 
 
-def _least_norm(M, q, z):
+def _least_norm(M, q, z, tol=1e-10):
     """Among the rate solutions with the same set at a bound, the one of least norm.
 
     With perfectly plastic segments yielding together in series, M is singular
@@ -823,7 +848,7 @@ def _least_norm(M, q, z):
     Kept only when it is still a solution.
     """
     w = q + M @ z
-    J = np.flatnonzero((z > 0) | (np.abs(w) <= 1e-10 * max(np.abs(q).max(initial=0.0), 1e-300)))
+    J = np.flatnonzero((z > 0) | (np.abs(w) <= tol * max(np.abs(q).max(initial=0.0), 1e-300)))
     if len(J) < 2 or np.linalg.matrix_rank(M[np.ix_(J, J)]) == len(J):
         return z
     trial = np.zeros_like(z)

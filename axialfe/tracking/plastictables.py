@@ -47,6 +47,9 @@ __all__ = ["SAMPLES", "TabledCourse", "temperatures_at", "tracker_at"]
 SAMPLES = 8
 # The relative step of the differences, of a piece's length.
 _STEP = 1e-5
+# How far (a share of its yield force) a segment held at its bound without flow may pass it
+# before the rate problem is asked again: rounding of the differences stays far below.
+_BAND = 1e-8
 
 
 def temperatures_at(model, base, lam, thermal, context):
@@ -76,11 +79,25 @@ class TabledCourse:
     def __init__(self, model, base, at, leg):
         self.model, self.base, self.at, self.leg = model, base, at, leg
         self._cache = {}
+        self.samples = []
         where = f"on leg {leg.index} of the path"
         self.context = where
         self.breaks = self._breaks()
 
     # --- the model at a point --------------------------------------------------------
+    def between(self):
+        """``(t, N, gap forces)`` at the samples inside the last step, for the plot."""
+        out, self.samples = self.samples, []
+        return out
+
+    def clean(self, z, dX_el, tr):
+        """Plastic rates below the rounding bound (``tol`` of the elastic rate of elongation,
+        force rate over stiffness) are no flow; a segment at its bound with no flow is
+        watched by its band."""
+        from .plastic import _AffineCourse
+
+        return _AffineCourse.clean(self, z, dX_el, tr)
+
     def tracker(self, t):
         t = float(t)
         tr = self._cache.get(t)
@@ -149,12 +166,17 @@ class TabledCourse:
             rhs = np.concatenate([bound - Xf[Fi], -Xf[nP + Ci]])
             y0 = np.concatenate([p[Fi], gl[Ci]])
             diag = np.abs(np.diag(tr.M))
-            D = np.concatenate([1.0 / np.sqrt(tr.k[Fi]), 1.0 / np.sqrt(np.maximum(
-                diag[Ci], 1e-12 * max(diag.max(initial=0.0), 1e-300)))])
-            # the least increment from the start (the split among perfectly plastic segments
-            # yielding together in series is not unique; the least one shares it alike)
-            dy = D * np.linalg.lstsq(D[:, None] * A * D[None, :], D * (rhs - A @ y0),
-                                     rcond=1e-9)[0]
+            g_scale = 1.0 / np.sqrt(np.maximum(diag[Ci], 1e-12 * max(diag.max(initial=0.0),
+                                                                     1e-300)))
+            rows_s = np.concatenate([1.0 / np.sqrt(tr.k[Fi]), g_scale])
+            # the least increment from the start: the split among perfectly plastic segments
+            # yielding together in series is not unique, and the least one (in plain plastic
+            # elongations, as the rate problem's least-norm rates, so one scale for all of
+            # them) shares it alike
+            cols = np.concatenate([np.full(len(Fi), 1.0 / np.sqrt(tr.k[Fi].max(initial=1.0))),
+                                   g_scale])
+            dy = cols * np.linalg.lstsq(rows_s[:, None] * A * cols[None, :],
+                                        rows_s * (rhs - A @ y0), rcond=1e-9)[0]
             y = y0 + dy
             p_f[Fi] = y[:len(Fi)]
             g_f[Ci] = y[len(Fi):]
@@ -168,7 +190,10 @@ class TabledCourse:
         nP = len(side)
         tr = self.tracker(t)
         F = (side != 0) & (z > 0)
-        elastic = ~F
+        elastic = side == 0
+        held = (side != 0) & ~F          # at a bound with no flow: watched beyond a band
+        over_up = _BAND + np.maximum(N - tr.h * p - tr.Nt, 0.0) / np.maximum(tr.Nt, 1e-300)
+        over_dn = _BAND + np.maximum(-tr.Nc - (N - tr.h * p), 0.0) / np.maximum(tr.Nc, 1e-300)
         open_ = ~closed & ~touching
         end = self._end(t)
         h = tr.h
@@ -188,12 +213,17 @@ class TabledCourse:
             excess = N_s - h * p_s
             rate = side * plastic_rate(s) if F.any() else np.zeros(nP)
             return np.concatenate([
-                np.where(elastic, (Nt - excess) / force_scale, np.inf),
-                np.where(elastic, (excess + Nc) / force_scale, np.inf),
+                np.where(elastic, (Nt - excess) / force_scale,
+                         np.where(held & (side > 0), (Nt - excess) / force_scale + over_up,
+                                  np.inf)),
+                np.where(elastic, (excess + Nc) / force_scale,
+                         np.where(held & (side < 0), (excess + Nc) / force_scale + over_dn,
+                                  np.inf)),
                 np.where(F, rate / z_scale, np.inf),
                 np.where(closed, g_s / g_scale, np.inf),
                 np.where(open_, o_s / o_scale, np.inf)])
 
+        grid = np.linspace(t, end, SAMPLES + 1)
         if end - t <= 1e-9:     # a sliver up to a table entry: no event can fit in it
             t_next, first = end, np.zeros(0, dtype=int)
         else:
@@ -202,7 +232,6 @@ class TabledCourse:
             flat = np.isfinite(m0) & (m0 <= 1e-9)   # at zero already: the sign just ahead
             if flat.any():
                 start[flat] = measures(t + 1e-6 * (end - t))[flat]
-            grid = np.linspace(t, end, SAMPLES + 1)
             prev, t_next, first = start, end, np.zeros(0, dtype=int)
             if (start[flat] <= 0).any():     # it crosses at once: decide again just ahead
                 t_next = t + 1e-6 * (end - t)
@@ -226,6 +255,12 @@ class TabledCourse:
         if t_next >= 1.0 - 1e-12:
             t_next = 1.0
         p_n, g_n, *_ = self._settle(t_next, *args)
+        # the states at the samples passed, for the plot (the response is curved there)
+        self.samples = []
+        for x in grid[1:-1]:
+            if x < t_next:
+                _, g_x, N_x, *_ = self._settle(x, *args)
+                self.samples.append((float(x), N_x, g_x))
         g = len(gl)
         hit_k = np.zeros(3 * nP + 2 * g, dtype=bool)
         hit_k[first] = True
