@@ -42,6 +42,11 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     delta0, G, W = terms
     mu, mF, mlam, md0, mG, mW = magnitudes if magnitudes is not None else (
         np.abs(u), np.abs(F), np.abs(lam), np.abs(delta0), np.abs(G), np.abs(W))
+    # the largest magnitude of each (from the magnitudes where they are exact)
+    exact = magnitudes is None
+    size_u, size_d0, size_G, size_F, size_W = (
+        float(a.max(initial=0.0)) if exact else _largest(b)
+        for a, b in ((mu, u), (md0, delta0), (mG, G), (mF, F), (mW, W)))
     forward = asm.forward
     u_from, u_to = asm.ends(u)
     stretch_u = u_to - u_from            # the change of distance, read once for du and K u
@@ -108,28 +113,29 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     t = k * pair
     t *= _ULPS
     t += noise                           # each segment's share at both its stations
-    station_noise = asm.to_stations(t, t)
-    rest = mF * _ULPS
+    station_noise = mF * _ULPS
     if g:
-        rest += _ULPS * (abs(system.BT) @ mlam)
+        station_noise += _ULPS * (abs(system.BT) @ mlam)
     sp = system.spring_stations
-    rest[sp] += _ULPS * (spring[sp] * mu[sp])
-    station_noise += rest
+    station_noise[sp] += _ULPS * (spring[sp] * mu[sp])
+    asm.to_stations(t, t, out=station_noise)
     np.abs(balance, out=balance)
     balance *= balance > station_noise
     # the forces the free changes of length and the loads would cause if held count
     # too: free thermal growth has no force of its own to measure rounding against
     scale = max(_largest(state.forces), _largest(reactions), _largest(n_from), _largest(n_to),
-                _largest(lam), _largest(k * delta0), _largest(k * G), _largest(W))
+                _largest(lam), _largest(k * delta0) if size_d0 else 0.0,
+                _largest(k * G) if size_G else 0.0, size_W)
     residual = float(balance.max(initial=0.0) / scale) if scale > 0 else 0.0
 
     opening = system.clearance - system.B @ u if g else np.zeros(0)
-    tol_gap = gap_tolerance(system, u, delta0, F)
+    tol_gap = _tolerance(system, size_u, size_d0, size_F)
     if closed is None:
         closed = opening <= tol_gap if g else np.zeros(0, dtype=bool)
     closed = np.array(closed, dtype=bool)  # its own: the search may keep its set
     # the rest of the certificate: compatibility, and gap forces that are unique
-    defect, defect_at = compatibility(system, u, du, n_from, terms, lam, closed, tol_gap)
+    defect, defect_at = compatibility(system, u, du, n_from, terms, lam, closed, tol_gap,
+                                      sizes=(size_u, size_d0, size_G))
     check_unique_gaps(system, lam, closed, opening, tol_gap, state.name)
     # an overlap at the level of rounding shows as 0; a real one would stay visible
     tiny = (opening < 0) & (opening >= -tol_gap) if g else closed
@@ -215,7 +221,13 @@ def gap_tolerance(system, u, delta0=None, F=None):
     """Rounding bound of a gap opening: displacements, clearances, free changes of length
     (thermal strain and misfit) and the stretch the loads could cause set the scale of the
     numbers it is computed from."""
-    scale = max(np.abs(u).max(initial=0), system.clearance.max(initial=0),
-                0.0 if delta0 is None else np.abs(delta0).max(initial=0),
-                0.0 if F is None else np.abs(F).max(initial=0) / system.asm.stiffness.min())
+    return _tolerance(system, np.abs(u).max(initial=0),
+                      0.0 if delta0 is None else np.abs(delta0).max(initial=0),
+                      0.0 if F is None else np.abs(F).max(initial=0))
+
+
+def _tolerance(system, size_u, size_delta0, size_F):
+    """:func:`gap_tolerance` from the largest magnitudes of u, delta0 and F."""
+    scale = max(size_u, system.clearance.max(initial=0), size_delta0,
+                size_F / system.asm.stiffness.min() if size_F else 0.0)
     return 1e-10 * scale + 1e-300
