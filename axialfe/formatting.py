@@ -78,7 +78,11 @@ def note_text(note, units):
     >>> note_text("'shaft' " + quantity_text(50.0, "temperature"), OutputUnits(temperature="degF"))
     "'shaft' 90 degF"
     """
-    if note is None:
-        return None
-    return _QUANTITY.sub(lambda m: f"{number(float(m.group(2)) / units.factor(m.group(1)))} "
-                                   f"{getattr(units, m.group(1))}", note)
+    if note is None or "\u27e6" not in note:
+        return note
+
+    def shown(m):
+        key = m.group(1)
+        return f"{number(float(m.group(2)) / units.factor(key))} {getattr(units, key)}"
+
+    return _QUANTITY.sub(shown, note)

@@ -161,17 +161,22 @@ def braced_runs(model: Model) -> tuple[Run, ...]:
 
     def side(name, direction):
         reached = ends[direction][name]
+        if len(reached) == 1:              # one way out: no fork
+            (far,) = reached
+            return far, far in braced, None
         far = max(reached, key=lambda s: ((x[s] - x[name]) * direction, s))
-        fork = name if len(reached) > 1 else None
-        return far, reached <= braced, fork
+        return far, reached <= braced, name
 
-    runs = []
+    runs, made = [], {}                    # the segments of one run share its Run
     for seg in model.segments:
-        lo, hi = sorted((seg.start, seg.end), key=x.__getitem__)
-        start, start_braced, fork_lo = side(lo, -1)
-        end, end_braced, fork_hi = side(hi, 1)
-        runs.append(Run(start, end, x[end] - x[start], start_braced, end_braced,
-                        fork_lo or fork_hi))
+        lo, hi = (seg.start, seg.end) if x[seg.start] <= x[seg.end] else (seg.end, seg.start)
+        key = side(lo, -1) + side(hi, 1)
+        run = made.get(key)
+        if run is None:
+            start, start_braced, fork_lo, end, end_braced, fork_hi = key
+            run = made[key] = Run(start, end, x[end] - x[start], start_braced, end_braced,
+                                  fork_lo or fork_hi)
+        runs.append(run)
     return tuple(runs)
 
 

@@ -88,23 +88,28 @@ class Assembly:
             return values[:-1], values[1:]
         return values[self.start], values[self.end]
 
-    def to_stations(self, at_from, at_to, subtract=False):
+    def to_stations(self, at_from, at_to, subtract=False, out=None):
         """The station sums of ``at_from`` at each segment's ``from`` station plus (or minus,
-        with ``subtract``) ``at_to`` at its ``to`` station, as ``np.bincount`` sums them."""
-        if self.chain:
-            out = np.zeros(self.n)
-            out[:-1] += at_from
+        with ``subtract``) ``at_to`` at its ``to`` station, as ``np.bincount`` sums them;
+        added into ``out`` (a float station array of the caller's) where it is given."""
+        if not self.chain:
+            sums = np.bincount(self.start, at_from, minlength=self.n).astype(float, copy=False)
+            to = np.bincount(self.end, at_to, minlength=self.n)
             if subtract:
-                out[1:] -= at_to
+                sums -= to
             else:
-                out[1:] += at_to
+                sums += to
+            if out is None:
+                return sums
+            out += sums
             return out
-        out = np.bincount(self.start, at_from, minlength=self.n).astype(float, copy=False)
-        to = np.bincount(self.end, at_to, minlength=self.n)
+        if out is None:
+            out = np.zeros(self.n)
+        out[:-1] += at_from
         if subtract:
-            out -= to
+            out[1:] -= at_to
         else:
-            out += to
+            out[1:] += at_to
         return out
 
     @functools.cached_property

@@ -31,7 +31,7 @@ __all__ = ["compatibility", "check_unique_gaps", "status_of"]
 _DEPENDENT = 1e-9
 
 
-def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap):
+def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap, sizes=None):
     """Return ``(defect, where)``: the worst relative compatibility defect and its place.
 
     Parameters
@@ -50,6 +50,8 @@ def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap):
     closed : ndarray of bool
     tol_gap : float
         The rounding bound of a gap opening (it sets the length scale).
+    sizes : tuple of float, optional
+        The largest magnitudes of u, delta0 and G, where the caller knows them.
     """
     delta0, G, _ = terms
     k = system.asm.stiffness
@@ -64,7 +66,9 @@ def compatibility(system, u, du, n_from, terms, lam, closed, tol_gap):
                 stretch = np.where(k > 0, n_from / k, 0.0)
         # the scale of the terms subtracted: N/k and G cancel where a held bar carries a
         # load with no elastic elongation, and their rounding is no defect
-        scale = max(_largest(u), _largest(delta0), _largest(stretch), _largest(G), 1e-300)
+        size_u, size_d0, size_G = (sizes if sizes is not None else
+                                   (_largest(u), _largest(delta0), _largest(G)))
+        scale = max(size_u, size_d0, _largest(stretch), size_G, 1e-300)
         elastic = stretch
         elastic -= G                     # N_from/k - G, in the array of N_from/k
         seg = du - delta0

@@ -159,6 +159,9 @@ def band_of_run(first, stop, stiffness, diagonal):
 class BandedCholesky:
     """Banded Cholesky of a symmetric positive definite :class:`Band`.
 
+    With ``overwrite``, a tridiagonal band is factorised in its own memory (its
+    ``ab`` is then gone: set to None), for a caller that reads it no more.
+
     Raises
     ------
     SolveError
@@ -167,7 +170,7 @@ class BandedCholesky:
 
     method = "banded"
 
-    def __init__(self, band: Band, source=None):
+    def __init__(self, band: Band, source=None, overwrite=False):
         self.order = band.order
         self.width = band.width
         self._cb = self._tri = self._whole = None
@@ -181,7 +184,10 @@ class BandedCholesky:
                 # quicker than the general banded Cholesky for the same factor
                 from scipy.linalg.lapack import dpttrf
 
-                d, e, info = dpttrf(band.ab[0], band.ab[1, :-1])
+                d, e, info = dpttrf(band.ab[0], band.ab[1, :-1], overwrite_d=overwrite,
+                                    overwrite_e=overwrite)
+                if overwrite:
+                    band.ab = None
                 if info:
                     raise np.linalg.LinAlgError("not positive definite")
                 self._tri = (d, e)
@@ -242,7 +248,7 @@ def _narrow(band: Band) -> bool:
     return band.width <= BAND_LIMIT or (band.width + 1) * band.size <= _BAND_WHOLE
 
 
-def factorise(K_ff, method: str = "auto", source=None, band=None):
+def factorise(K_ff, method: str = "auto", source=None, band=None, overwrite_band=False):
     """Factorise the free-free stiffness by ``method``.
 
     Parameters
@@ -256,6 +262,8 @@ def factorise(K_ff, method: str = "auto", source=None, band=None):
     band : Band or callable, optional
         The same matrix in band form (or a function that builds it); needed
         for ``'banded'``, and lets ``'auto'`` choose it.
+    overwrite_band : bool
+        The band is read no more after this: it may be factorised in place.
 
     Returns
     -------
@@ -278,7 +286,7 @@ def factorise(K_ff, method: str = "auto", source=None, band=None):
         band = band() if callable(band) else band
         if method == "banded" or _narrow(band):
             try:
-                out = BandedCholesky(band, source)
+                out = BandedCholesky(band, source, overwrite=overwrite_band)
                 out.fallback = None
                 return out
             except SolveError as exc:

@@ -98,8 +98,10 @@ class System:
         self._K = self._abs_K = None
         self.band = self._ground = None
         self.last_contact = None   # ('active-set' or 'exact', factorisations) of the last search
-        self.factor = (factorise(self._K_ff, method, model.source, band=self._band)
-                       if nf else None)
+        # without gaps nothing reads the band after its factorisation (the active-set
+        # search writes its closed gaps into a copy of it)
+        self.factor = (factorise(self._K_ff, method, model.source, band=self._band,
+                                 overwrite_band=not len(model.gaps)) if nf else None)
         self._M = None
 
     def _band(self):

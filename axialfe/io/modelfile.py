@@ -61,8 +61,8 @@ class _Locator:
         self.lines = text.split("\n")   # lines as TOML counts them: only "\n" ends one
         self.headers = []  # (0-based line, name, is_array)
         self.raw_headers = []  # (0-based line, the header's text between the brackets)
-        for i, line in enumerate(self.lines):
-            m = self._HEADER.match(line)
+        for i in self._bracketed(text):
+            m = self._HEADER.match(self.lines[i])
             if m:
                 name = re.sub(r"\s*\.\s*", ".", m.group(2).replace('"', "").replace("'", ""))
                 self.headers.append((i, name, bool(m.group(1))))
@@ -70,6 +70,18 @@ class _Locator:
         self._by_name = {}  # name -> positions in headers, in file order (one pass, so
         for h, (_, name, _) in enumerate(self.headers):   # locating is linear overall)
             self._by_name.setdefault(name, []).append(h)
+
+    _BRACKET = re.compile(r"^[^\S\n]*\[", re.MULTILINE)
+
+    @classmethod
+    def _bracketed(cls, text):
+        """The 0-based numbers of the lines whose first character after white space is '[',
+        the only lines a header can be (found by one scan of the text)."""
+        line, at = 0, 0
+        for m in cls._BRACKET.finditer(text):
+            line += text.count("\n", at, m.start())
+            at = m.start()
+            yield line
 
     def _span(self, table, index):
         """Return the (start, stop) lines of table ``table`` (its ``index``-th item)."""

@@ -405,7 +405,17 @@ def _table(entry, schema, fail, table, index, place, top=False):
             fail(spec.missing or f"a {schema.noun} needs '{k}'", table, index, None, place)
 
 
+# the types a string is right for, with nothing inside it to check but a name's length
+_TEXT_TYPES = frozenset({"name", "text", "date", "quantity", "quantity_or_table",
+                         "quantity_or_map", "any"})
+
+
 def _value(k, v, spec, fail, table, index, place, top):
+    if type(v) is str and spec.type in _TEXT_TYPES:   # most values: the checks below, at once
+        if spec.type == "name" and len(v) > MAX_NAME_LENGTH:
+            fail(f"{k}: a name of {len(v)} characters is too long (at most {MAX_NAME_LENGTH})",
+                 table, index, k, place)
+        return
     if (isinstance(v, (datetime.date, datetime.time)) and spec.type not in ("any", "date")
             or spec.type == "date" and isinstance(v, (datetime.datetime, datetime.time))):
         fail(f"{k}: expected {_expected(spec, k)}: got a date or time ({v})",

@@ -46,7 +46,7 @@ def _number(value, what, place) -> bool:
     Strings (``"200 GPa"``), booleans and other objects are refused: units belong
     to the file reader, the object API takes SI floats.
     """
-    if isinstance(value, numbers.Real) and not isinstance(value, bool):
+    if type(value) is float or isinstance(value, numbers.Real) and not isinstance(value, bool):
         return True
     if _symbolic(value):
         return False
