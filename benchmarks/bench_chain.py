@@ -13,8 +13,11 @@ by ``axialfe.solve``.  Its anchors, in the same run:
 
 Goal: at most 3 times the floor, peak memory (traced) under 1 GB.  Building the
 model (``Model.from_arrays``) has the same goal against the same floor, and is shown
-beside copying each input array once (the least any array model must do).  Run
-from the project root:
+beside copying each input array once (the least any array model must do).  The
+solve, the engine alone and the floor run in turns, seven times each, and each
+shows its best wall-clock time (and the solve and the floor their best CPU time,
+which leaves out waiting for a core on a busy machine), with the load average
+before and after.  Run from the project root:
 
     python benchmarks/bench_chain.py [n_segments] [--profile]
 """
@@ -22,6 +25,7 @@ from the project root:
 from __future__ import annotations
 
 import cProfile
+import os
 import pstats
 import sys
 import time
@@ -122,12 +126,33 @@ def best(fn, *args, repeat=3):
     return min(times), out
 
 
+def alternate(fns, repeat=7):
+    """The best wall-clock and CPU (process) time of each function, run in turns.
+
+    Run in turns, a load that comes and goes on the machine reaches each alike; the
+    CPU time leaves out the time the process waits for a core.
+    """
+    wall, cpu, outs = [[] for _ in fns], [[] for _ in fns], [None] * len(fns)
+    for _ in range(repeat):
+        for i, fn in enumerate(fns):
+            outs[i] = None             # the previous result is not kept while timing the next
+            t0, c0 = time.perf_counter(), time.process_time()
+            outs[i] = fn()
+            wall[i].append(time.perf_counter() - t0)
+            cpu[i].append(time.process_time() - c0)
+    return [min(t) for t in wall], [min(t) for t in cpu], outs
+
+
+def load() -> str:
+    return "load average %.2f %.2f %.2f" % os.getloadavg()
+
+
 def row(label, value, anchor_label, anchor):
     print(f"  {label:<34s} {value * 1e3:9.1f} ms   {anchor_label:<30s} {anchor * 1e3:9.1f} ms"
           f"   ratio {value / anchor:6.2f}")
 
 
-def run(n: int, small: int = 100_000):
+def run(n: int, small: int = 100_000, repeat: int = 7):
     print(f"banded factorisation: a chain of {n:,} segments")
     d = data(n)
     t_floor, N_floor = best(floor, n, d)
@@ -135,16 +160,20 @@ def run(n: int, small: int = 100_000):
     t_copy, _ = best(build_floor, n, d)
     row("Model.from_arrays", t_build, "floor (solve_banded + numpy)", t_floor)
     row("Model.from_arrays", t_build, "copy each input once", t_copy)
-    t_solve, sol = best(lambda: solve(model))
-    N = sol["base"].axial_force[:, 0]
-    rel = np.abs(N - N_floor).max() / np.abs(N_floor).max()
-    row("axialfe.solve", t_solve, "floor (solve_banded + numpy)", t_floor)
     from axialfe.engine.system import System
     from axialfe.model.cases import load_states
 
     state = load_states(model)[0]
-    t_engine, _ = best(lambda: System(model).solve_state(state))
+    print(f"  (solve, engine and floor run in turns, best of {repeat}; {load()})")
+    (t_solve, t_engine, t_floor), (c_solve, c_engine, c_floor), (sol, _, N_floor) = alternate(
+        [lambda: solve(model), lambda: System(model).solve_state(state), lambda: floor(n, d)],
+        repeat)
+    N = sol["base"].axial_force[:, 0]
+    rel = np.abs(N - N_floor).max() / np.abs(N_floor).max()
+    row("axialfe.solve", t_solve, "floor (solve_banded + numpy)", t_floor)
     row("engine alone (System, one case)", t_engine, "floor (solve_banded + numpy)", t_floor)
+    row("axialfe.solve, CPU time", c_solve, "floor, CPU time", c_floor)
+    print(f"  ({load()})")
     tracemalloc.start()
     solve(model)
     peak = tracemalloc.get_traced_memory()[1]

@@ -40,30 +40,45 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     asm, model = system.asm, system.model
     start, end, k, e = asm.start, asm.end, asm.stiffness, asm.direction
     delta0, G, W = terms
-    mu, mF, mlam, md0, mG, mW = magnitudes if magnitudes is not None else (
-        np.abs(u), np.abs(F), np.abs(lam), np.abs(delta0), np.abs(G), np.abs(W))
-    # the largest magnitude of each (from the magnitudes where they are exact)
-    exact = magnitudes is None
-    size_u, size_d0, size_G, size_F, size_W = (
-        float(a.max(initial=0.0)) if exact else _largest(b)
-        for a, b in ((mu, u), (md0, delta0), (mG, G), (mF, F), (mW, W)))
     forward = asm.forward
     u_from, u_to = asm.ends(u)
     stretch_u = u_to - u_from            # the change of distance, read once for du and K u
     du = stretch_u if forward else e * stretch_u
     n_from, _ = end_forces(asm.terms, du, delta0, G, W)
     # rounding bound of N: du is a difference of two displacements, so its error
-    # scales with their size, not with du itself
-    mu_from, mu_to = asm.ends(mu)
-    pair = mu_from + mu_to
-    noise = pair + md0
-    noise += mG
-    noise *= k
-    noise += mW
+    # scales with their size, not with du itself; with the largest magnitude of each
+    # number it is made of (from the magnitudes where they are exact)
+    exact = magnitudes is None
+    if exact:
+        mu, mF, mlam = np.abs(u), np.abs(F), np.abs(lam)
+        work = np.abs(delta0)                # |delta0|, then |G|, then |W|, in one array
+        size_d0 = float(work.max(initial=0.0))
+        noise = _pair(asm, mu)
+        noise += work
+        size_u, size_F = float(mu.max(initial=0.0)), float(mF.max(initial=0.0))
+        for value in (G, W):
+            np.abs(value, out=work)
+            if value is G:
+                size_G = float(work.max(initial=0.0))
+                noise += work
+                noise *= k
+            else:
+                size_W = float(work.max(initial=0.0))
+                noise += work
+    else:
+        mu, mF, mlam, md0, mG, mW = magnitudes
+        size_u, size_d0, size_G, size_F, size_W = (
+            _largest(value) for value in (u, delta0, G, F, W))
+        work = np.empty(len(k))
+        noise = _pair(asm, mu)
+        noise += md0
+        noise += mG
+        noise *= k
+        noise += mW
     noise *= _ULPS
-    _zero_below(n_from, noise)
+    _zero_below(n_from, noise, work)
     n_to = n_from - W                     # the element's N_to, from the N_from kept
-    _zero_below(n_to, noise)
+    _zero_below(n_to, noise, work)
     N = np.column_stack([n_from, n_to])
 
     g = len(model.gaps)
@@ -83,7 +98,8 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     R_station -= F[ps]
     if g:
         R_station += gap_nodal[ps]
-    t = k[hs] * pair[hs]                 # |K| |u| there, for the rounding bound
+    mu_from, mu_to = asm.ends(mu)
+    t = k[hs] * (mu_from[hs] + mu_to[hs])   # |K| |u| there, for the rounding bound
     noise_R = (_sums(at_start[to_start], t[to_start], len(ps))
                + _sums(at_end[to_end], t[to_end], len(ps)))
     noise_R += spring[ps] * mu[ps]
@@ -91,7 +107,7 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     if g:
         noise_R += (abs(system.BT) @ mlam)[ps]
     noise_R *= _ULPS
-    _zero_below(R_station, noise_R)
+    _zero_below(R_station, noise_R, np.empty(len(ps)))
     reactions = np.zeros(len(model.supports))
     reactions[system.presc_support] = R_station[pidx[system.presc]]
     spring_force = -system.spring_k * u[system.spring_at]
@@ -110,10 +126,12 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     # out-of-balance at the level of rounding (the same bound that zeroes noise in
     # forces, and that of K u - F at every station) is no imbalance: it cannot be told
     # from a force that is truly zero
-    t = k * pair
+    t = _pair(asm, mu, out=work)
+    t *= k
     t *= _ULPS
     t += noise                           # each segment's share at both its stations
-    station_noise = mF * _ULPS
+    station_noise = mF if exact else mF.copy()   # (|F| is read no more)
+    station_noise *= _ULPS
     if g:
         station_noise += _ULPS * (abs(system.BT) @ mlam)
     sp = system.spring_stations
@@ -124,8 +142,8 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     # the forces the free changes of length and the loads would cause if held count
     # too: free thermal growth has no force of its own to measure rounding against
     scale = max(_largest(state.forces), _largest(reactions), _largest(n_from), _largest(n_to),
-                _largest(lam), _largest(k * delta0) if size_d0 else 0.0,
-                _largest(k * G) if size_G else 0.0, size_W)
+                _largest(lam), _largest(np.multiply(k, delta0, out=work)) if size_d0 else 0.0,
+                _largest(np.multiply(k, G, out=work)) if size_G else 0.0, size_W)
     residual = float(balance.max(initial=0.0) / scale) if scale > 0 else 0.0
 
     opening = system.clearance - system.B @ u if g else np.zeros(0)
@@ -165,11 +183,19 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
 _ULPS = 1e3 * _EPS   # values within this many units of rounding of their bound are noise
 
 
-def _zero_below(values, bound):
-    """Set to 0, in place, the values whose magnitude is below ``bound`` (rounding noise)."""
-    small = np.abs(values) < bound
+def _zero_below(values, bound, work):
+    """Set to 0, in place, the values whose magnitude is below ``bound`` (rounding noise);
+    ``work`` is an array of the same size to compute in."""
+    np.abs(values, out=work)
+    small = work < bound
     if small.any():
         values[small] = 0.0
+
+
+def _pair(asm, mu, out=None):
+    """|u| at each segment's two ends, summed."""
+    mu_from, mu_to = asm.ends(mu)
+    return np.add(mu_from, mu_to, out=out)
 
 
 def _sums(at, values, n):
