@@ -148,6 +148,30 @@ def test_a_yield_strength_rising_faster_than_the_force_unloads_the_bar_while_hea
     assert_close(result.states[0].plastic_strain[0], eps_p(T_u), rel=1e-8)
 
 
+def test_a_brief_yield_between_two_samples_of_a_table_interval_is_found():
+    # E falls linearly from 200 GPa at 20 degC to 20 GPa at 400 degC (one table interval),
+    # alpha = 12e-6 /K: restrained, |sigma| = alpha*(E0*x + E'*x^2) with x = T - 20 degC
+    # peaks at x = -E0/(2E') = 211 K at 253.3 MPa.  With f_y = 253 MPa the bar yields on a
+    # band of about 15 K, between two of the samples the path takes of that interval: the
+    # first root of the quadratic alpha*(E0*x + E'*x^2) = f_y (by hand), then, holding
+    # sigma = -f_y, eps_p = f_y/E - alpha*x, whose rate is zero where E^2 = f_y*|E'|/alpha
+    # (by hand): there it unloads, still heating
+    from axialfe.tracking.plastictables import SAMPLES
+
+    E0, slope, alpha, fy = 200e9, -180e9 / 380.0, 12e-6, 253e6
+    mat = Material("soft", E0, alpha, fy, behaviour="elastic-plastic",
+                   modulus_table=PropertyTable((T0, 400 + C), (E0, 20e9)))
+    x_y = (-E0 + np.sqrt(E0 ** 2 + 4 * slope * fy / alpha)) / (2 * slope)
+    x_u = (np.sqrt(fy * -slope / alpha) - E0) / slope
+    samples = np.linspace(0.0, 380.0, SAMPLES + 1)
+    assert not np.any((samples > x_y) & (samples < x_u))     # no sample in the band
+    result = run(restrained(mat), "temperature 20 degC..400 degC")
+    assert events(result) == [(1, "bar", "yields"), (1, "bar", "unloads")]
+    assert_close([e.value - 20.0 for e in result.events], [x_y, x_u], rel=1e-9)
+    assert_close(result.states[0].plastic_strain[0], fy / (E0 + slope * x_u) - alpha * x_u,
+                 rel=1e-8)
+
+
 @pytest.mark.parametrize("top, outcome", [(180.0, "shakedown"), (300.0, "alternating")])
 def test_thermal_cycling_over_tables_shakes_down_or_alternates(top, outcome):
     # 180 degC: the residual tension on cooling stays below f_y(T) (test above), so the

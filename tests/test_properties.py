@@ -23,6 +23,12 @@ from axialfe.engine.system import System, solve
 
 # No 'explain' phase: it imports libcst, whose deprecation warning the strict
 # warning filter would turn into an internal error while reporting a failure.
+# values near zero drawn as no file can give them: a file refuses a non-zero value below
+# io.schema.MIN_MAGNITUDE (subnormals break rounding)
+def _value(low, high):
+    return st.floats(low, high, allow_subnormal=False)
+
+
 PROPS = settings(max_examples=examples(40),
                  phases=(Phase.explicit, Phase.reuse, Phase.generate, Phase.shrink))
 
@@ -59,9 +65,9 @@ def models(draw, tapers=True, gravity=True):
             end = Section(f"e{k}", "round", (("diameter", sec.dim("diameter")
                                               * draw(st.floats(0.3, 3.0))),))
         segments.append(Segment(f"g{k}", names[i], names[j], material(k), sec, end_section=end,
-                                temperature_change=draw(st.floats(-50.0, 80.0)),
-                                misfit=draw(st.floats(-1e-4, 1e-4)),
-                                distributed_load=draw(st.floats(-1e4, 1e4))))
+                                temperature_change=draw(_value(-50.0, 80.0)),
+                                misfit=draw(_value(-1e-4, 1e-4)),
+                                distributed_load=draw(_value(-1e4, 1e4))))
     at = draw(st.lists(st.integers(0, n - 1), min_size=1, max_size=min(n, 3), unique=True))
     supports = []
     for i in at:
@@ -69,10 +75,10 @@ def models(draw, tapers=True, gravity=True):
         if kind == "spring":
             supports.append(Support(names[i], "spring", stiffness=draw(st.floats(1e6, 1e9))))
         elif kind == "settlement":
-            supports.append(Support(names[i], "settlement", displacement=draw(st.floats(-1e-3, 1e-3))))
+            supports.append(Support(names[i], "settlement", displacement=draw(_value(-1e-3, 1e-3))))
         else:
             supports.append(Support(names[i]))
-    loads = tuple(Load(names[draw(st.integers(0, n - 1))], draw(st.floats(-1e5, 1e5)))
+    loads = tuple(Load(names[draw(st.integers(0, n - 1))], draw(_value(-1e5, 1e5)))
                   for _ in range(draw(st.integers(0, 3))))
     g = draw(st.sampled_from([0.0, 9.80665, -9.80665])) if gravity else 0.0
     return Model(stations, tuple(segments), tuple(supports), loads, gravity=g)

@@ -432,3 +432,30 @@ def test_more_than_16_inputs_start_the_local_search_from_the_samples():
     r = row(study, "reaction:s0")
     assert r["nominal"] == pytest.approx(nominal, rel=1e-9)
     assert r["worst_case"] == pytest.approx([nominal - 3 * k * n, nominal + 3 * k * n], rel=1e-6)
+
+
+def test_long_names_wrap_inside_their_panels_of_the_histograms():
+    from matplotlib.text import Text
+
+    from axialfe.output.toleranceplot import plot_study
+
+    long = "end-float-between-the-impeller-shaft-shoulder-and-the-bearing-cover"
+    text = (EXAMPLES / "pump-shaft-end-float.toml").read_text().replace("end-float", long)
+    text = text.replace('title = "Pump shaft end float at running temperature"',
+                        'title = "' + "A pump shaft's end float at its running temperature " * 3
+                        + '"')
+    for outputs in ([f"gap:{long}:opening"], None):
+        fig = plot_study(study_of(text, samples=300, outputs=outputs))
+        renderer = fig.canvas.get_renderer()
+        shown = [t for t in fig.findobj(Text) if t.get_visible() and t.get_text()]
+        titles = [t for t in shown if t.get_text().endswith("(base)")]
+        assert len(titles) == (1 if outputs else 5)
+        # the names are whole, broken only into lines
+        assert any(t.get_text().replace("\n", "") == f"gap:{long}:opening (base)"
+                   for t in titles)
+        for t in shown:   # every text inside the figure, every panel title over its panel
+            box = t.get_window_extent(renderer)
+            assert fig.bbox.x0 <= box.x0 and box.x1 <= fig.bbox.x1 and box.y1 <= fig.bbox.y1
+            if t in titles:
+                frame = t.axes.get_window_extent(renderer)
+                assert frame.x0 - 1 <= box.x0 and box.x1 <= frame.x1 + 1, t.get_text()

@@ -16,10 +16,42 @@ import numpy as np
 from ..units import OutputUnits
 from .plot import DPI, INK, MUTED, TENSION, YIELD, _text, save_figure
 
-__all__ = ["plot_study", "MOST"]
+__all__ = ["plot_study", "wrap", "MOST"]
 
 MOST = 12
 _KIND_UNIT = {"force": "force", "displacement": "displacement", "stress": "stress"}
+
+
+_BREAK = ":- (/"   # a long name breaks after one of these, where it can
+
+
+def wrap(text, width, renderer) -> int:
+    """Break the matplotlib ``text`` into lines no wider than ``width`` pixels, after a
+    colon, hyphen, space or bracket where it can (anywhere in a run without one);
+    return the number of lines."""
+    whole = text.get_text()
+    if not whole or text.get_window_extent(renderer).width <= width:
+        return 1
+
+    def fits(part):
+        text.set_text(part)
+        return text.get_window_extent(renderer).width <= width
+
+    lines, line = [], ""
+    for ch in whole:
+        if not line or fits(line + ch):
+            line += ch
+            continue
+        cut = max(line.rfind(b) for b in _BREAK) + 1
+        if cut <= 0:                 # no break point: break where it overflows
+            lines.append(line)
+            line = ch
+        else:
+            lines.append(line[:cut].rstrip())
+            line = line[cut:] + ch
+    lines.append(line)
+    text.set_text("\n".join(lines))
+    return len(lines)
 
 
 def plot_study(study, path=None, units: OutputUnits | None = None, dpi: int = DPI):
@@ -38,6 +70,7 @@ def plot_study(study, path=None, units: OutputUnits | None = None, dpi: int = DP
     axes = fig.subplots(lines, cols, squeeze=False)
     for ax in axes.flat[n:]:
         ax.set_visible(False)
+    titles = []
     for ax, row in zip(axes.flat, rows):
         kind = _KIND_UNIT[row["kind"]]
         f = units.factor(kind)
@@ -57,7 +90,8 @@ def plot_study(study, path=None, units: OutputUnits | None = None, dpi: int = DP
         if "worst_case" in row:
             ax.axvline(lo, color=YIELD, lw=1.8, label="worst case")
             ax.axvline(hi, color=YIELD, lw=1.8)
-        ax.set_title(_text(f"{row['name']} ({row['case']})"), fontsize=8, color=INK, loc="left")
+        titles.append((ax, ax.set_title(_text(f"{row['name']} ({row['case']})"), fontsize=8,
+                                        color=INK, loc="left")))
         ax.set_xlabel(f"[{unit}]", fontsize=7, color=INK)
         ax.set_yticks([])
         ax.tick_params(labelsize=7, colors=INK)
@@ -65,11 +99,25 @@ def plot_study(study, path=None, units: OutputUnits | None = None, dpi: int = DP
             ax.spines[side].set_visible(False)
     handles, labels = axes.flat[0].get_legend_handles_labels()
     fig.legend(handles, labels, loc="lower center", ncol=4, fontsize=7, frameon=False)
-    fig.suptitle(_text(f"{study.title}: {study.samples} samples, seed {study.seed}, worst case "
+    head = fig.suptitle(_text(f"{study.title}: {study.samples} samples, seed {study.seed}, worst case "
                        f"by {study.worst_case_method}"), fontsize=9, color=INK, x=0.01,
                  ha="left")
-    fig.subplots_adjust(left=0.04, right=0.98, top=1 - 0.45 / (2.5 * lines + 0.6) - 0.04,
-                        bottom=0.55 / (2.5 * lines + 0.6) + 0.08, hspace=0.9, wspace=0.12)
+    height = 2.5 * lines + 0.6
+    fig.subplots_adjust(left=0.04, right=0.98, top=1 - 0.45 / height - 0.04,
+                        bottom=0.55 / height + 0.08, hspace=0.9, wspace=0.12)
+    # long names (of outputs, cases, the title) wrap within their panel or the figure
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    renderer = FigureCanvasAgg(fig).get_renderer()
+    most = max([wrap(t, ax.get_window_extent(renderer).width, renderer) for ax, t in titles]
+               or [1])
+    head = wrap(head, 0.97 * fig.bbox.width, renderer)
+    if most > 1 or head > 1:
+        extra = 0.16 * (head - 1)
+        fig.set_figheight(height + extra + 0.16 * (most - 1) * lines)
+        height = fig.get_figheight()
+        fig.subplots_adjust(top=1 - (0.45 + extra) / height - 0.04,
+                            bottom=0.55 / height + 0.08, hspace=0.9 + 0.25 * (most - 1))
     if path is not None:
         save_figure(fig, path, dpi)
     return fig

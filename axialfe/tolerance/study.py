@@ -526,7 +526,7 @@ def _events(model, chosen, states, draws, nominal_out, samples):
     return out
 
 
-CHECK_SAMPLES = 1_000   # samples checked one by one where the checks cannot be vectorised
+CHECK_SAMPLES = 400   # samples checked one by one where the checks cannot be vectorised
 
 
 class _Checked:

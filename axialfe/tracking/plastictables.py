@@ -20,7 +20,11 @@ properties are smooth between entries).  On each piece the event measures of
 the current set (an elastic segment's distance from its bounds, a flowing
 segment's plastic rate, a closed gap's force, an open gap's opening) are
 sampled at ``SAMPLES`` points to bracket their first sign change, and the
-root is found by :func:`scipy.optimize.brentq` to rounding.  A flowing
+root is found by :func:`scipy.optimize.brentq` to rounding; a measure above
+zero at two samples that falls after the first and rises before the second
+and whose tangents there both reach zero inside has its least value found in
+between (the root of its slope), so a dip below zero between samples is not
+missed where the measure is convex between them.  A flowing
 segment whose plastic rate reaches zero inside a piece (its yield strength
 falling slower than its force, or rising faster) is released there and the
 tracker's rate problem says whether it ``unloads``.
@@ -32,7 +36,8 @@ central difference.  Both are accurate to about 1e-8 of their scale, which is
 the rounding bound the decisions then use (``tol``).
 
 Not followed: a measure that dips below zero and back between two samples
-of a piece (a brief excursion shorter than 1/``SAMPLES`` of a table interval).
+while it falls at both (it would need two turns within 1/``SAMPLES`` of a table
+interval; between entries the properties are linear or quadratic in T).
 """
 
 from __future__ import annotations
@@ -196,7 +201,7 @@ class TabledCourse:
         over_dn = _BAND + np.maximum(-tr.Nc - (N - tr.h * p), 0.0) / np.maximum(tr.Nc, 1e-300)
         open_ = ~closed & ~touching
         end = self._end(t)
-        h = tr.h
+        hardening = tr.h
         force_scale = np.maximum(np.maximum(tr.Nt, tr.Nc), 1e-300)
         g_scale = max(force_scale.max(initial=0.0), np.abs(gl).max(initial=0.0), 1e-300)
         o_scale = max(np.abs(o).max(initial=0.0), np.abs(tr.system.clearance).max(initial=0.0),
@@ -210,7 +215,7 @@ class TabledCourse:
 
         def measures(s):
             p_s, g_s, N_s, o_s, Nt, Nc = self._settle(s, *args)
-            excess = N_s - h * p_s
+            excess = N_s - hardening * p_s
             rate = side * plastic_rate(s) if F.any() else np.zeros(nP)
             return np.concatenate([
                 np.where(elastic, (Nt - excess) / force_scale,
@@ -237,21 +242,45 @@ class TabledCourse:
                 t_next = t + 1e-6 * (end - t)
                 first = np.flatnonzero(flat & (start <= 0))
             else:
+                eps = 1e-6 * (end - t)
+
+                def slope(x, mx):         # one-sided, inside the piece (NaN for no measure)
+                    other = measures(x + eps) if x + eps <= end else measures(x - eps)
+                    with np.errstate(invalid="ignore"):
+                        return (other - mx) / eps if x + eps <= end else (mx - other) / eps
+
+                s_prev = slope(t, m0)
                 for a, b in zip(grid, grid[1:]):
                     mb = measures(b)
-                    cross = np.flatnonzero(np.isfinite(prev) & (prev > 0) & (mb <= 0))
-                    if len(cross):
+                    s_b = slope(b, mb)
+                    live = np.isfinite(prev) & (prev > 0)
+                    upper = {int(k): b for k in np.flatnonzero(live & (mb <= 0))}
+                    # a measure above zero at both samples that falls, then rises, between
+                    # them, and whose tangents at both reach zero inside (so that it can,
+                    # where it is convex there): its least value decides whether it dips
+                    # below zero
+                    width = b - a
+                    with np.errstate(invalid="ignore"):
+                        dips = (live & (mb > 0) & (s_prev < 0) & (s_b > 0)
+                                & (prev + s_prev * width < 0) & (mb - s_b * width < 0))
+                    for k in np.flatnonzero(dips):
+                        x_min = brentq(lambda x, k=k: slope(x, measures(x))[k], a, b,
+                                       xtol=1e-14, maxiter=200)
+                        if measures(x_min)[k] <= 0:
+                            upper[int(k)] = x_min
+                    if upper:
+                        cross = np.array(sorted(upper))
                         roots = []
                         for k in cross:
                             lo = a if a > t else t + 1e-6 * (end - t) if flat[k] else t
-                            roots.append(brentq(lambda s, k=k: measures(s)[k], lo, b,
+                            roots.append(brentq(lambda x, k=k: measures(x)[k], lo, upper[k],
                                                 xtol=1e-15, rtol=4 * np.finfo(float).eps,
                                                 maxiter=200))
                         roots = np.array(roots)
                         t_next = float(roots.min())
                         first = cross[roots <= t_next + 1e-12 * max(1.0, end - t)]
                         break
-                    prev = mb
+                    prev, s_prev = mb, s_b
         if t_next >= 1.0 - 1e-12:
             t_next = 1.0
         p_n, g_n, *_ = self._settle(t_next, *args)
