@@ -23,7 +23,7 @@ from ..model import Model
 from ..model.cases import LoadState, load_states
 from ..model.temperature import at_temperature, basis_note, has_tables, refuse_tabled_preloads
 from ..results import CaseResult, Solution
-from .active_set import active_set, ground_gaps
+from .active_set import active_set, active_set_linked, ground_gaps, linked_gaps
 from .assembly import Assembly, assemble, element_loads
 from .constraints import unilateral
 from .contact import solve_gaps
@@ -270,7 +270,9 @@ class System:
         return solve_gaps(M, H, o0, f, self, label, with_state=with_state)
 
     def _ground_gaps(self):
-        """Band positions of the gaps, where the banded active-set search applies (else None)."""
+        """Where the banded active-set search applies (else None): the band positions of
+        the gaps, each to ground at its own free station, or ``(a, b)``, the positions of
+        every gap's stations (``b`` -1 against ground) when all are free stations."""
         if self._ground is None:
             at = None
             if (self.band is not None and getattr(self.factor, "method", None) == "banded"
@@ -281,6 +283,8 @@ class System:
                     inverse = np.empty_like(order)
                     inverse[order] = np.arange(len(order))
                 at = ground_gaps(self.cons, self._free_index, inverse)
+                if at is None:
+                    at = linked_gaps(self.cons, self._free_index, inverse)
             self._ground = (at,)
         return self._ground[0]
 
@@ -292,8 +296,14 @@ class System:
         if self.band.order is not None:
             b = b[self.band.order]
         scale_q = max(np.abs(o0).max(initial=0), self.clearance.max(initial=0), 1e-300)
-        lam, closed, status, its = active_set(self.band, at, self.cons.s1, self.clearance, b,
-                                              o0 < -1e-11 * scale_q, scale_q)
+        start = o0 < -1e-11 * scale_q
+        if isinstance(at, tuple):       # gaps between two stations: multiplier rows
+            cons = self.cons
+            lam, closed, status, its = active_set_linked(self.band, *at, cons.s1, cons.s2,
+                                                         self.clearance, b, start, scale_q)
+        else:
+            lam, closed, status, its = active_set(self.band, at, self.cons.s1, self.clearance,
+                                                  b, start, scale_q)
         self.last_contact = ("active-set" if status == SOLVED else "exact", its)
         if status != SOLVED:
             return None
