@@ -519,16 +519,27 @@ def render(solution: Solution, fmt: str = "table", units: OutputUnits | None = N
 _CHECK_HEADERS = ("check", "name", "demand", "capacity", "utilization", "result", "note")
 
 
-def _check_cells(entry, units: OutputUnits):
+def _note_cell(entry, units: OutputUnits, shown: dict | None) -> str:
+    """An entry's note in ``units``; ``shown`` keeps each note text written so far (the
+    entries of a long member share a few notes)."""
+    if shown is None:
+        return entry.note_in(units) or ""
+    text = shown.get(entry.note)
+    if text is None:
+        text = shown[entry.note] = entry.note_in(units) or ""
+    return text
+
+
+def _check_cells(entry, units: OutputUnits, shown=None):
     key = entry.quantity
-    unit = getattr(units, key)
+    unit, f = getattr(units, key), units.factor(key)
 
     def value(v):
-        return "-" if v is None else f"{number(v / units.factor(key))} {unit}"
+        return "-" if v is None else f"{number(v / f)} {unit}"
 
     util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
     return [entry.kind, entry.name, value(entry.demand), value(entry.capacity), util,
-            entry.verdict, entry.note_in(units) or ""]
+            entry.verdict, _note_cell(entry, units, shown)]
 
 
 # A deformation limit is stated as what is required and what the result gives, not as a
@@ -536,7 +547,7 @@ def _check_cells(entry, units: OutputUnits):
 _LIMIT_HEADERS = ("limit", "name", "actual", "required", "margin", "utilization", "result", "note")
 
 
-def _limit_cells(entry, units: OutputUnits):
+def _limit_cells(entry, units: OutputUnits, shown=None):
     a = entry.amounts(units)
 
     def value(v):
@@ -544,7 +555,7 @@ def _limit_cells(entry, units: OutputUnits):
 
     util = "-" if entry.utilization is None else f"{entry.utilization:.3f}"
     return [entry.kind, entry.name, value(a["actual"]), value(a["required"]), value(a["margin"]),
-            util, entry.verdict, entry.note_in(units) or ""]
+            util, entry.verdict, _note_cell(entry, units, shown)]
 
 
 def check_groups(entries, units: OutputUnits):
@@ -556,8 +567,9 @@ def check_groups(entries, units: OutputUnits):
     entries = list(entries)
     limits = [e for e in entries if e.kind in LIMIT_KINDS]
     others = [e for e in entries if e.kind not in LIMIT_KINDS]
-    groups = [(_CHECK_HEADERS, others, [_check_cells(e, units) for e in others]),
-              (_LIMIT_HEADERS, limits, [_limit_cells(e, units) for e in limits])]
+    shown = {}
+    groups = [(_CHECK_HEADERS, others, [_check_cells(e, units, shown) for e in others]),
+              (_LIMIT_HEADERS, limits, [_limit_cells(e, units, shown) for e in limits])]
     return [g for g in groups if g[1]]
 
 
