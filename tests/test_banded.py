@@ -144,7 +144,24 @@ def test_a_gap_between_two_stations_takes_the_banded_search_with_multiplier_rows
     system = System(m)
     a = system.solve_state(load_states(m)[0])
     assert system.last_contact[0] == "active-set"
+    # its gaps close no loop of stations: independent by their layout, so the certificate
+    # builds no block of the dense gaps x gaps matrix
+    assert system._M is None
     same(a, solve(m, method="sparse-lu")["base"])
+
+
+def test_gaps_that_close_a_loop_are_checked_for_dependence_and_refused_alike():
+    # two gaps between the same two stations, both closed, act on one motion: the
+    # banded search gives way, and both paths refuse with the same located message
+    base = chain(30, 0, seed=6)
+    gaps = (Gap("j1", ("s3", "s9"), 0.0), Gap("j2", ("s9", "s3"), 0.0, "slack"),
+            Gap("j3", ("s3", "s9"), 0.0))
+    m = Model(base.stations, base.segments, base.supports,
+              base.loads + (Load("s9", -3e5),), gaps=gaps)
+    with mock.patch.object(factor, "_WHOLE", 0):
+        a = outcome(m, "auto")
+    b = outcome(m, "sparse-lu")
+    assert isinstance(a, str) and a == b and "not unique" in a
 
 
 @st.composite

@@ -156,7 +156,9 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
                                       sizes=(size_u, size_d0, size_G))
     check_unique_gaps(system, lam, closed, opening, tol_gap, state.name)
     # an overlap at the level of rounding shows as 0; a real one would stay visible
-    tiny = (opening < 0) & (opening >= -tol_gap) if g else closed
+    # (and a touch at that level, open with no force, as touching: the same gap the
+    # exact search may call closed with a force of rounding size)
+    tiny = np.abs(opening) <= tol_gap if g else closed
     opening = np.where(closed | tiny, 0.0, opening)
     gap_force = system.cons.force_sign * lam if g else np.zeros(0)
     gap_force = np.where(gap_force == 0, 0.0, gap_force)

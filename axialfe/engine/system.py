@@ -228,6 +228,15 @@ class System:
             self._M = (M, H)
         return self._M
 
+    def gap_block(self, rows):
+        """``M[rows][:, rows]`` of :attr:`gap_matrix` (rows: indices of gaps), from solves of
+        those gaps alone where the whole M has not been built."""
+        if self._M is not None:
+            return self._M[0][np.ix_(rows, rows)]
+        Bf = self.B[rows][:, self.free].tocsc()
+        block = Bf @ self.solve_free(Bf.toarray().T) if len(rows) else np.zeros((0, 0))
+        return 0.5 * (block + block.T)
+
     # --- one load state ----------------------------------------------------
     def state_vectors(self, state: LoadState):
         """Return (F, u_presc, element terms) of a load state."""
