@@ -231,3 +231,30 @@ def test_a_study_of_the_stack_runs_and_its_worst_case_brackets_the_samples():
         assert np.mean((d >= lo) & (d <= hi)) > 0.97
     names = {(e["name"], e["case"]) for e in study.events if e["event"] == "check-fails"}
     assert ("checks", "cold-start") in names and ("bolt-proof", "hot") in names
+
+
+def test_a_state_open_under_no_pull_is_solved_by_the_joint_solver(tmp_path):
+    # a light torque and a colder start with no external load: the aluminium cover shrinks
+    # more than the steel bolt and the joint opens with nothing pulling it, which the
+    # joint-diagram closed forms do not describe; those samples go to solve_joint
+    from axialfe.tolerance.jointstudy import _Joints
+    from axialfe.tolerance.study import _draw
+
+    text = (STACK.read_text().replace('torque = "40 N*m ±3"', 'torque = "6 N*m ±3"')
+            .replace('temperature = "-30 degC"\nexternal_load = "6 kN ±0.5"',
+                     'temperature = "-60 degC"'))
+    path = tmp_path / "j.toml"
+    path.write_text(text)
+    joint, found, build = read_joint_toleranced(path)
+    joints = _Joints(joint, found, build)
+    x = _draw([t.tolerance for t in found], 40, 3)
+    out, flags, _ = joints.evaluate(x)
+    opened = flags[("cold-start", "separates", "cold-start")]
+    assert 0 < joints.alone == int(opened.sum())
+    for i in range(0, 40, 3):
+        result = solve_joint(build(joints.values(x[i])))
+        for st in result.states:
+            assert flags[(st.name, "separates", st.name)][i] == st.separated
+            for o in ("bolt_force", "clamp_force"):
+                assert out[f"{st.name}:{o}"][i] == pytest.approx(getattr(st, o), rel=1e-9,
+                                                                 abs=1e-6)

@@ -92,14 +92,14 @@ def tolerance(model: ModelPath,
 
             joint, found, build = read_joint_toleranced(model)
             study = run_joint_study(joint, found, build, samples=samples, seed=seed,
-                                    outputs=output)
+                                    outputs=output, progress=_progress_bar())
         elif is_fit_file(model):  # a press fit: pressure and holding force over its limits
             from ..fits.reader import read_fit_toleranced
             from ..tolerance.fitstudy import run_fit_study
 
             fit, found, build = read_fit_toleranced(model)
             study = run_fit_study(fit, found, build, samples=samples, seed=seed,
-                                  outputs=output, source=str(model))
+                                  outputs=output, source=str(model), progress=_progress_bar())
         else:
             nominal, build = read_toleranced(model)
             study = run_study(nominal, build, samples=samples, seed=seed, outputs=output,
