@@ -88,8 +88,8 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     # Reactions from the restrained rows, K u - F (K with the springs), at the prescribed
     # stations alone: only the segments with a restrained end reach them (as in
     # System.stiffness_times, from the end displacements read above)
-    ps, pidx, hs = system.presc_stations, system._presc_index, system.held_segments
-    at_end, at_start = pidx[end[hs]], pidx[start[hs]]
+    ps, hs = system.presc_stations, system.held_segments
+    at_end, at_start = system.presc_place(end[hs]), system.presc_place(start[hs])
     to_end, to_start = at_end >= 0, at_start >= 0
     t = k[hs] * stretch_u[hs]
     R_station = (_sums(at_end[to_end], t[to_end], len(ps))
@@ -109,7 +109,7 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     noise_R *= _ULPS
     _zero_below(R_station, noise_R, np.empty(len(ps)))
     reactions = np.zeros(len(model.supports))
-    reactions[system.presc_support] = R_station[pidx[system.presc]]
+    reactions[system.presc_support] = R_station[system.presc_place(system.presc)]
     spring_force = -system.spring_k * u[system.spring_at]
     reactions[system.spring_support] = spring_force
     # (K includes the springs, so R_station at a prescribed station is already the
