@@ -7,7 +7,14 @@ whole process on a 2-core machine, at least 50 times faster than a loop of
 subset, the sample models built beforehand and not timed), with a peak memory
 under 2 GB.
 
-Run:  python benchmarks/bench_tolerance.py
+Joint and fit files: the examples ``examples/tolerance/cover-bolt-stack-tolerances.toml``
+(9 toleranced inputs) and ``gear-hub-shrink-fit-scatter.toml`` (8), 100,000 samples each
+as a whole ``axialfe tolerance`` process, against a loop of ``solve_joint`` or
+``solve_fit`` over the same samples (measured on a subset, the sample joints and fits
+read beforehand and not timed).
+
+Run:  python benchmarks/bench_tolerance.py            (model, joint and fit)
+      python benchmarks/bench_tolerance.py joint fit  (some of them)
 """
 
 from __future__ import annotations
@@ -52,6 +59,61 @@ def model_text(n_seg=30):
     return "\n".join(lines) + "\n"
 
 
+def timed(cmd, repeat=3):
+    """The best wall and CPU time of a command over ``repeat`` runs, its last output."""
+    subprocess.run([c if c != str(SAMPLES) else "10" for c in cmd], check=True,
+                   capture_output=True)   # warm the caches once
+    best = cpu = float("inf")
+    for _ in range(repeat):
+        before = resource.getrusage(resource.RUSAGE_CHILDREN)
+        t = time.perf_counter()
+        run = subprocess.run(cmd, check=True, capture_output=True, text=True)
+        best = min(best, time.perf_counter() - t)
+        after = resource.getrusage(resource.RUSAGE_CHILDREN)
+        cpu = min(cpu, after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime)
+    return best, cpu, run.stdout
+
+
+def workflow(kind):
+    """A joint or fit example: the whole process against a loop of its own solver."""
+    from axialfe.tolerance.study import _draw
+
+    root = Path(__file__).resolve().parent.parent / "examples" / "tolerance"
+    if kind == "joint":
+        from axialfe.joints.joint import solve_joint as solve_one
+        from axialfe.joints.reader import read_joint_toleranced as read
+
+        path = root / "cover-bolt-stack-tolerances.toml"
+    else:
+        from axialfe.fits.fit import solve_fit as solve_one
+        from axialfe.fits.reader import read_fit_toleranced as read
+
+        path = root / "gear-hub-shrink-fit-scatter.toml"
+    cmd = [sys.executable, "-m", "axialfe", "tolerance", str(path), "--samples", str(SAMPLES),
+           "--seed", "1", "--format", "json"]
+    best, cpu, out = timed(cmd)
+    data = json.loads(out)
+    _, found, build = read(path)
+    values = _draw([t.tolerance for t in found], SUBSET, 1)
+    objects = [build(dict(zip([t.path for t in found], row.tolist()))) for row in values]
+    t = time.perf_counter()
+    for obj in objects:
+        solve_one(obj)
+    per_sample = (time.perf_counter() - t) / SUBSET
+    loop = per_sample * SAMPLES
+    print(f"tolerance {kind}: {SAMPLES:,} samples of {path.name}, {len(found)} toleranced "
+          f"inputs: whole process {best:.2f} s, {cpu:.2f} s of CPU, worst case by "
+          f"{data['worst_case_method']}")
+    print(f"tolerance {kind}: a loop of {solve_one.__name__} takes {per_sample * 1e3:.2f} ms a "
+          f"sample ({SUBSET} samples timed): {loop:.0f} s for {SAMPLES:,}; the whole process "
+          f"is {loop / best:.0f}x faster")
+    worst = max((e for e in data["events"] if e["name"] == "checks"),
+                key=lambda e: e["probability"])
+    print(f"tolerance {kind}: any check fails in '{worst['case']}' with probability "
+          f"{worst['probability']:.4f}; load average {os.getloadavg()[0]:.1f} on "
+          f"{os.cpu_count()} cores")
+
+
 def main():
     from axialfe.engine.system import solve
     from axialfe.io.modelfile import parse_model
@@ -63,18 +125,9 @@ def main():
         path.write_text(text)
         cmd = [sys.executable, "-m", "axialfe", "tolerance", str(path), "--samples",
                str(SAMPLES), "--seed", "1", "--format", "json"]
-        subprocess.run([sys.executable, "-m", "axialfe", "tolerance", str(path), "--samples",
-                        "10"], check=True, capture_output=True)   # warm the caches once
-        best = cpu = float("inf")
-        for _ in range(3):
-            before = resource.getrusage(resource.RUSAGE_CHILDREN)
-            t = time.perf_counter()
-            run = subprocess.run(cmd, check=True, capture_output=True, text=True)
-            best = min(best, time.perf_counter() - t)
-            after = resource.getrusage(resource.RUSAGE_CHILDREN)
-            cpu = min(cpu, after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime)
+        best, cpu, out = timed(cmd)
         peak = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss / 1024  # MB (Linux: kB)
-        data = json.loads(run.stdout)
+        data = json.loads(out)
         model = parse_model(text, str(path))
         tols = [t.tolerance for t in model.tolerances]
         paths = [t.path for t in model.tolerances]
@@ -101,4 +154,9 @@ def main():
 
 
 if __name__ == "__main__":
-    main()
+    wanted = sys.argv[1:] or ["model", "joint", "fit"]
+    if "model" in wanted:
+        main()
+    for kind in ("joint", "fit"):
+        if kind in wanted:
+            workflow(kind)

@@ -63,6 +63,26 @@ def test_bad_input_gives_its_one_located_line(name, text):
         assert line.startswith("error: m.toml:"), "every error but an empty file names a line"
 
 
+# --- joint and fit files: their toleranced values ------------------------------------
+import workflows  # noqa: E402
+
+with open(workflows.EXPECTED, encoding="utf-8") as _fh:
+    _WORKFLOWS = {name: (int(code), line) for name, code, line in
+                  (row.split("\t") for row in _fh.read().split("\n") if row)}
+_WORKFLOW_CASES = workflows.all_cases()
+
+
+def test_every_joint_and_fit_entry_has_its_expected_line():
+    assert sorted(name for name, _, _ in _WORKFLOW_CASES) == sorted(_WORKFLOWS)
+
+
+@pytest.mark.parametrize("name,kind,text", _WORKFLOW_CASES, ids=[n for n, _, _ in _WORKFLOW_CASES])
+def test_a_bad_tolerance_of_a_joint_or_fit_file_gives_one_located_line(tmp_path, name, kind, text):
+    code, lines = workflows.outcome(kind, text, str(tmp_path))
+    assert (code, " | ".join(lines)) == _WORKFLOWS[name]
+    assert code == 2 and len(lines) == 1 and lines[0].startswith(f"error: {kind}.toml:")
+
+
 # --- line numbers as TOML counts them ----------------------------------------------
 @pytest.mark.parametrize("sep", ["\u2028", "\u2029", "\u0085"])
 def test_unicode_line_separators_do_not_shift_line_numbers(sep):

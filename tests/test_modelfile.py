@@ -5,11 +5,19 @@ message: file name, 1-based line number, place in the model, what is wrong and
 the suggestion.  Line numbers are those of BASE below (counted by hand).
 """
 
+import glob
+import os
+import tomllib
+from pathlib import Path
+
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from axialfe.errors import ModelError, SolveError, UnitError
 from axialfe.io.modelfile import builtin_materials, parse_model, read_model
 from axialfe.engine.system import solve
+from conftest import EXAMPLES
 
 BASE = """\
 title = "base"
@@ -408,3 +416,35 @@ def test_a_read_model_pickles_and_keeps_its_lines():
     again = pickle.loads(pickle.dumps(model))
     assert again == model and again.line_of("stations.right") == L_RIGHT
     assert solve(again)["base"].reaction("left") == pytest.approx(12e3)
+
+
+# --- the TOML parser ----------------------------------------------------------------
+# Where tomli's compiled build is installed, model files are decoded by it (io/source.py):
+# it must read every text as the standard library's tomllib reads it (TOML 1.0), the same
+# data or the same message, on mutants of every example.
+_TEXTS = [Path(f).read_text(encoding="utf-8")
+          for f in sorted(glob.glob(os.path.join(EXAMPLES, "**", "*.toml"), recursive=True))]
+_EDITS = st.tuples(st.floats(0, 1), st.sampled_from(["insert", "delete", "repeat"]),
+                    st.sampled_from(list("[]{}=\"'.,#\n \\\x0c\t\r1e+-_:TZ") + ["\\e", "\n}"]))
+
+
+@given(st.sampled_from(range(len(_TEXTS))), st.lists(_EDITS, min_size=1, max_size=3))
+def test_the_toml_parser_reads_astomllib_reads(which, edits):
+    from axialfe.io.source import toml_loads
+
+    if toml_loads is tomllib.loads:
+        pytest.skip("the standard library's parser is the one in use")
+    text = _TEXTS[which]
+    for at, op, piece in edits:
+        i = int(at * len(text))
+        text = (text[:i] + piece + text[i:] if op == "insert" else
+                text[:i] + text[i + 1:] if op == "delete" else text[:i] + text[i:i + 20] * 2
+                + text[i + 20:])
+
+    def outcome(loads):
+        try:
+            return loads(text)
+        except Exception as exc:   # the decode error's class differs; its message must not
+            return ("error", str(exc))
+
+    assert outcome(toml_loads) == outcome(tomllib.loads)

@@ -138,3 +138,9 @@ def test_the_json_states_the_samples_the_check_events_count_over(tmp_path, monke
     checks = [e for e in data["events"] if e["name"] == "checks"]
     assert all(e["probability"] == pytest.approx(e["count"] / 40) for e in checks)
     assert any("run on each of the first 40 samples (of 90" in n for n in data["notes"])
+    table = runner.invoke(app, ["tolerance", str(path), "--samples", "90"]).stdout
+    rows = [line.split() for line in table.splitlines() if " check-fails " in line]
+    # the table says over how many samples each event counts
+    assert rows and all(r[4] == "40" for r in rows)
+    closes = next(line.split() for line in table.splitlines() if " closes " in line)
+    assert closes[4] == "90"

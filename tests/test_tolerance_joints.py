@@ -233,26 +233,28 @@ def test_a_study_of_the_stack_runs_and_its_worst_case_brackets_the_samples():
     assert ("checks", "cold-start") in names and ("bolt-proof", "hot") in names
 
 
-@pytest.mark.parametrize("old, new, message", [
-    ('thickness = "12 mm ±0.3"', 'thickness = "12 mm ±7"',
-     "clamped.cover.thickness: thickness could fall to zero or below"),
-    ('length = "50 mm"', 'length = "50 mm ±8"',
-     "bolt.length: within the tolerance of bolt.length: thread_length: the thread starts"),
-    ('torque = "40 N*m ±3"', 'torque = "40 N*m ±"', "torque: '40 N*m ±': the tolerance needs"),
-    ('torque = "40 N*m ±3"', 'torque = "40 N*m ±35"', "assembly.torque: torque could fall to"),
-    ('temperature = "-30 degC"', 'temperature = "-30 degC ±300"',
-     "service.cold-start.temperature: temperature could fall to or below absolute zero"),
-    ('minimum_clamp_force = "10 kN"', 'minimum_clamp_force = "10 kN ±1 kN"',
-     "the deviation must be one positive number"),
-    ('minimum_clamp_force = "10 kN"', 'minimum_clamp_force = "10 kN"\nsafety_factor = "1.5 ±0.1"',
-     "safety_factor: a tolerance is not allowed here"),
-])
-def test_bad_joint_tolerances_are_one_located_error(tmp_path, old, new, message):
-    text = STACK.read_text()
-    assert old in text
+def test_a_state_open_under_no_pull_is_solved_by_the_joint_solver(tmp_path):
+    # a light torque and a colder start with no external load: the aluminium cover shrinks
+    # more than the steel bolt and the joint opens with nothing pulling it, which the
+    # joint-diagram closed forms do not describe; those samples go to solve_joint
+    from axialfe.tolerance.jointstudy import _Joints
+    from axialfe.tolerance.study import _draw
+
+    text = (STACK.read_text().replace('torque = "40 N*m ±3"', 'torque = "6 N*m ±3"')
+            .replace('temperature = "-30 degC"\nexternal_load = "6 kN ±0.5"',
+                     'temperature = "-60 degC"'))
     path = tmp_path / "j.toml"
-    path.write_text(text.replace(old, new, 1))
-    res = runner.invoke(app, ["tolerance", str(path), "--samples", "10"])
-    assert res.exit_code == 2
-    lines = [s for s in res.stderr.splitlines() if s.startswith("error:")]
-    assert len(lines) == 1 and f"{path}:" in lines[0] and message in lines[0], res.stderr
+    path.write_text(text)
+    joint, found, build = read_joint_toleranced(path)
+    joints = _Joints(joint, found, build)
+    x = _draw([t.tolerance for t in found], 40, 3)
+    out, flags, _ = joints.evaluate(x)
+    opened = flags[("cold-start", "separates", "cold-start")]
+    assert 0 < joints.alone == int(opened.sum())
+    for i in range(0, 40, 3):
+        result = solve_joint(build(joints.values(x[i])))
+        for st in result.states:
+            assert flags[(st.name, "separates", st.name)][i] == st.separated
+            for o in ("bolt_force", "clamp_force"):
+                assert out[f"{st.name}:{o}"][i] == pytest.approx(getattr(st, o), rel=1e-9,
+                                                                 abs=1e-6)

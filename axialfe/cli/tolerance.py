@@ -1,4 +1,5 @@
-"""The ``axialfe tolerance`` command: worst case and Monte Carlo over a model's toleranced inputs."""
+"""The ``axialfe tolerance`` command: worst case and Monte Carlo over the toleranced inputs of a
+model, joint or fit file."""
 
 from __future__ import annotations
 
@@ -52,15 +53,20 @@ def tolerance(model: ModelPath,
               plot: Annotated[Optional[Path], typer.Option(
                   "--plot", dir_okay=False, help="Histograms of the outputs with their limits "
                   "and worst case marked (.png or .svg).")] = None):
-    """Study a model over its toleranced inputs: worst case and Monte Carlo statistics.
+    r"""Study a model, joint or fit file over its toleranced inputs: worst case and Monte Carlo.
 
     Any value written with a tolerance ("0.20 mm +0.05/-0.03", "0.20 mm ±0.02",
     { value = "0.20 mm", std = "0.01 mm" }) is an input.  The worst case
     evaluates every vertex of the tolerance box, then searches locally where
     the response is not affine; the Monte Carlo draws one seeded stream per
-    input.  A joint file (a [bolt] table) takes a toleranced nut factor; its
-    outputs are each state's bolt_force and clamp_force.  Exit code 0, or 2
-    for bad input.
+    input.  A joint file (a \[bolt] table) takes tolerances on its torque, nut
+    factor, lengths, thicknesses, temperatures, loads and own materials; its
+    outputs are each state's bolt_force and clamp_force.  A fit file (a \[fit]
+    table) is studied over its ISO 286 or shaft/bore limits and its other
+    toleranced values; its outputs are each state's pressure and
+    holding_force.  Events: closes, opens, taut, slack, yields, separates,
+    clamp-below-minimum, slips, loosens, check-fails.  Exit code 0, or 2 for
+    bad input.
     """
     from ..errors import ModelError
     from ..io.modelfile import read_toleranced
@@ -86,14 +92,14 @@ def tolerance(model: ModelPath,
 
             joint, found, build = read_joint_toleranced(model)
             study = run_joint_study(joint, found, build, samples=samples, seed=seed,
-                                    outputs=output)
+                                    outputs=output, progress=_progress_bar())
         elif is_fit_file(model):  # a press fit: pressure and holding force over its limits
             from ..fits.reader import read_fit_toleranced
             from ..tolerance.fitstudy import run_fit_study
 
             fit, found, build = read_fit_toleranced(model)
             study = run_fit_study(fit, found, build, samples=samples, seed=seed,
-                                  outputs=output, source=str(model))
+                                  outputs=output, source=str(model), progress=_progress_bar())
         else:
             nominal, build = read_toleranced(model)
             study = run_study(nominal, build, samples=samples, seed=seed, outputs=output,

@@ -27,7 +27,7 @@ import numpy as np
 from .factor import Band, BandedCholesky
 from .pivoting import SOLVED
 
-__all__ = ["CYCLED", "ground_gaps", "active_set"]
+__all__ = ["CYCLED", "ground_gaps", "active_set", "linked_gaps", "active_set_linked"]
 
 CYCLED = "cycled"
 
@@ -50,6 +50,21 @@ def ground_gaps(cons, free_index, order_pos):
     if len(np.unique(at)) != len(at):
         return None
     return at
+
+
+def _repeated(seen, closed) -> bool:
+    """Whether the closed set was met before (a cycle); it is recorded as met."""
+    key = np.packbits(closed).tobytes()
+    if key in seen:
+        return True
+    seen.add(key)
+    return False
+
+
+def _broken(closed, force, opening, tol_z, tol_w):
+    """The gaps that break their state's condition: a closed gap that pulls (a contact)
+    or pushes (a link), an open gap that overlaps."""
+    return (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
 
 
 def _prescribe(ab, cols, w):
@@ -100,10 +115,8 @@ def active_set(band: Band, at, sign, clearance, b, closed, scale_q, max_iter=200
     shown = np.zeros_like(closed)            # the state the working band shows
     seen = set()
     for it in range(1, max_iter + 1):
-        key = np.packbits(closed).tobytes()
-        if key in seen:
+        if _repeated(seen, closed):
             return None, None, CYCLED, it - 1
-        seen.add(key)
         opened = np.flatnonzero(shown & ~closed)
         if len(opened):                     # restore the rows and columns of opened gaps
             cols = at[opened]
@@ -123,7 +136,125 @@ def active_set(band: Band, at, sign, clearance, b, closed, scale_q, max_iter=200
         force = np.zeros(len(at))
         force[closed] = r[cc] / sign[closed]
         opening = clearance - sign * u[at]
-        bad = (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
+        bad = _broken(closed, force, opening, tol_z, tol_w)
+        if not bad.any():
+            return np.where(closed, np.maximum(force, 0.0), 0.0), closed, SOLVED, it
+        closed = closed ^ bad
+    return None, None, CYCLED, max_iter
+
+
+# --- gaps between two stations: closed gaps as multiplier rows inside the band -----------
+
+# a pivot of the multiplier system this small against the largest is a dependent set of
+# closed gaps: the iteration gives way to the exact search, which names them
+_DEPENDENT_PIVOT = 1e-10
+
+
+def linked_gaps(cons, free_index, order_pos):
+    """Band positions ``(a, b)`` of every gap's stations (``b`` -1 against ground), or None.
+
+    It applies when every station of every gap is free (no gap touches a support or a
+    gap-held part's anchor).  ``free_index`` and ``order_pos`` as in :func:`ground_gaps`.
+    """
+    if not len(cons) or np.any(cons.s1 == 0):
+        return None
+    two = cons.b >= 0
+    if np.any(two & (cons.s2 == 0)):
+        return None
+    a = free_index[cons.a]
+    b = np.where(two, free_index[np.where(two, cons.b, 0)], -1)
+    if np.any(a < 0) or np.any(two & (b < 0)):
+        return None
+    if order_pos is not None:
+        a = order_pos[a]
+        b = np.where(two, order_pos[np.maximum(b, 0)], -1)
+    return a, b
+
+
+def _band_entries(ab):
+    """(rows, cols, values) of the symmetric matrix of a lower band, both triangles."""
+    n, w = ab.shape[1], ab.shape[0] - 1
+    rows, cols, vals = [np.arange(n)], [np.arange(n)], [ab[0]]
+    for d in range(1, w + 1):
+        j = np.arange(n - d)
+        v = ab[d, :n - d]
+        keep = v != 0
+        rows += [j[keep] + d, j[keep]]
+        cols += [j[keep], j[keep] + d]
+        vals += [v[keep], v[keep]]
+    return np.concatenate(rows), np.concatenate(cols), np.concatenate(vals)
+
+
+def active_set_linked(band: Band, at_a, at_b, sign_a, sign_b, clearance, b, closed, scale_q,
+                      max_iter=200):
+    """The gap forces of ``K u = b - B^T force`` by the primal-dual active-set method, for
+    gaps to ground and between two free stations alike.
+
+    Each closed gap adds its constraint ``sign_a*u[a] + sign_b*u[b] = clearance`` as a row
+    and a multiplier (its force) placed beside the later of its stations, so the system
+    stays banded: symmetric but indefinite, factorised by LAPACK's banded LU (``dgbtrf``)
+    each iteration.  The states, tolerances, cycle test and returns are those of
+    :func:`active_set`; a closed set whose constraints are dependent (a negligible pivot)
+    returns ``'cycled'`` too, and the caller's exact search names the gaps.
+
+    Parameters
+    ----------
+    at_a, at_b : ndarray of int, shape (g,)
+        Band positions of each gap's stations (``at_b`` -1 against ground).
+    sign_a, sign_b : ndarray, shape (g,)
+        Coefficients of the closure ``sign_a*u[a] + sign_b*u[b]``.
+    Other parameters as :func:`active_set`.
+    """
+    from scipy.linalg.lapack import dgbtrf, dgbtrs
+
+    n = band.size
+    ab0 = band.ab
+    two = at_b >= 0
+    at_b0 = np.where(two, at_b, 0)
+    rows, cols, vals = _band_entries(ab0)
+    beta = float(ab0[0].max(initial=1.0))     # constraint rows on the scale of K's rows
+    tol_w = 1e-11 * scale_q
+    tol_z = 1e-11 * scale_q * float(np.maximum(ab0[0, at_a], np.where(two, ab0[0, at_b0], 0.0))
+                                    .max(initial=0.0))
+    g = len(at_a)
+    closed = np.asarray(closed, dtype=bool).copy()
+    seen = set()
+    for it in range(1, max_iter + 1):
+        if _repeated(seen, closed):
+            return None, None, CYCLED, it - 1
+        c = np.flatnonzero(closed)
+        anchor = np.maximum(at_a[c], at_b[c])
+        by = np.argsort(anchor, kind="stable")
+        c, anchor = c[by], anchor[by]
+        count = np.bincount(anchor, minlength=n)
+        ends = np.cumsum(count)
+        place = np.arange(n) + ends - count    # each unknown after the multipliers before it
+        group = (ends - count)[anchor]          # the first multiplier of the same anchor
+        mult = place[anchor] + 1 + np.arange(len(c)) - group
+        size = n + len(c)
+        ca, cb, tw = at_a[c], at_b0[c], two[c]
+        R = np.concatenate([place[rows], mult, place[ca], mult[tw], place[cb[tw]]])
+        C = np.concatenate([place[cols], place[ca], mult, place[cb[tw]], mult[tw]])
+        V = np.concatenate([vals, beta * sign_a[c], beta * sign_a[c],
+                            beta * sign_b[c][tw], beta * sign_b[c][tw]])
+        W = int(np.abs(R - C).max(initial=0))
+        lu = np.zeros((3 * W + 1, size))        # dgbtrf's storage: W rows of room on top
+        lu[2 * W + R - C, C] = V
+        lu, piv, info = dgbtrf(lu, W, W, overwrite_ab=1)
+        pivots = np.abs(lu[2 * W])
+        if info or pivots.min(initial=1.0) <= _DEPENDENT_PIVOT * pivots.max(initial=0.0):
+            return None, None, CYCLED, it
+        rhs = np.empty(size)
+        rhs[place] = b
+        rhs[mult] = beta * clearance[c]
+        x, info = dgbtrs(lu, W, W, rhs, piv)
+        if info or not np.all(np.isfinite(x)):
+            return None, None, CYCLED, it
+        u = x[place]
+        force = np.zeros(g)
+        force[c] = beta * x[mult]
+        opening = clearance - sign_a * u[at_a] - np.where(two, sign_b * u[at_b0], 0.0)
+        bad = _broken(closed, force, opening, tol_z, tol_w)
         if not bad.any():
             return np.where(closed, np.maximum(force, 0.0), 0.0), closed, SOLVED, it
         closed = closed ^ bad

@@ -124,6 +124,9 @@ class Joint:
         Default by :func:`default_thread_length`.
     into : str, optional
         The tapped last part of a cap screw.
+    torque, nut_factor : float, optional
+        The tightening torque (N*m) and nut factor the preload came from, F_i =
+        T/(K*d), when it was given so (a tolerance study draws them).
     """
 
     title: str

@@ -103,14 +103,26 @@ def study_table(study, units: OutputUnits | None = None) -> str:
     lines += _fit_grid(headers, rows)
     if data["events"]:
         lines += ["", " events (probability with its 95 % Wilson score interval)"]
-        lines += _fit_grid(["name", "event", "case", "count", "probability", "interval"],
-                       [[e["name"], e["event"], e["case"], str(e["count"]),
-                         _g(e["probability"]),
-                         f"{_g(e['confidence_interval'][0])} to {_g(e['confidence_interval'][1])}"]
-                        for e in data["events"]])
+        headers, rows = _event_rows(data, "interval")
+        lines += _fit_grid(headers, rows)
     lines += ["", "notes:"] + [f" - {n}" for n in data["notes"]]
     lines += [""] + caution_lines(TOLERANCE_CAUTIONS)
     return fitted(lines)
+
+
+def _event_rows(data, interval):
+    """The events' headers and rows; a column ``of`` (the samples an event counts over)
+    where the check-fails events count over fewer samples than the study drew."""
+    subset = data.get("check_samples")
+    headers = ["name", "event", "case", "count", "probability", interval]
+    rows = [[e["name"], e["event"], e["case"], str(e["count"]), _g(e["probability"]),
+             f"{_g(e['confidence_interval'][0])} to {_g(e['confidence_interval'][1])}"]
+            for e in data["events"]]
+    if subset is not None and subset != data["samples"]:
+        headers.insert(4, "of")
+        for row, e in zip(rows, data["events"]):
+            row.insert(4, str(subset if e["event"] == "check-fails" else data["samples"]))
+    return headers, rows
 
 
 def _report_rows(study, units):
@@ -132,10 +144,7 @@ def _report_rows(study, units):
             row += [_g(r["mean"]), _g(r["std"]), _g(r["percentiles"]["0.135"]),
                     _g(r["percentiles"]["99.865"])]
         rows.append(row)
-    events = (["name", "event", "case", "count", "probability", "95 % interval"],
-              [[e["name"], e["event"], e["case"], str(e["count"]), _g(e["probability"]),
-                f"{_g(e['confidence_interval'][0])} to {_g(e['confidence_interval'][1])}"]
-               for e in data["events"]])
+    events = _event_rows(data, "95 % interval")
     intro = (f"Worst case by {data['worst_case_method']}"
              + (f"; Monte Carlo of {data['samples']} samples, seed {data['seed']}"
                 if data["samples"] else "") + ".")

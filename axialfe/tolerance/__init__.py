@@ -4,9 +4,14 @@
 - ``batch``: many samples of one model solved at once, as stacked arrays (the
   topology is fixed; gap states by a vectorised active-set iteration);
 - ``study``: the worst case (box vertices, then a bounded local search) and the
-  Monte Carlo statistics and event probabilities.
+  Monte Carlo statistics and event probabilities, the checks of every sample;
+- ``parameters``: the affine map from a joint or fit file's inputs to its
+  workflow's named parameters;
+- ``closed``: the study of a workflow evaluated by closed forms on arrays, with
+  ``jointstudy`` (bolted joints) and ``fitstudy`` (press fits).
 
-A workflow floor: it uses the model, the mechanics and the engine, and never
+A workflow floor: it uses the model, the mechanics, the engine, the checks and the
+joint and fit workflows, and never
 imports ``io``, ``output`` or ``cli`` (the command hands it a function that
 builds one sample's model, for the samples the batch cannot certify).
 """

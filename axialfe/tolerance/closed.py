@@ -51,12 +51,15 @@ class ClosedBatch:
         """One sample's input values by path (for ``build``)."""
         return dict(zip(self.paths, np.asarray(row, dtype=float).tolist()))
 
-    def evaluate(self, points):
-        """Outputs, event flags and undecided verdicts of every row of ``points``."""
+    def evaluate(self, points, progress=None):
+        """Outputs, event flags and undecided verdicts of every row of ``points``
+        (``progress(done, total)`` after each block, when given)."""
         out, flags, undecided = {}, {}, 0
         points = np.atleast_2d(np.asarray(points, dtype=float))
         for start in range(0, len(points), CHUNK):
             o, f, u = self.chunk(points[start:start + CHUNK])
+            if progress is not None:
+                progress(min(len(points), start + CHUNK), len(points))
             undecided += u
             for k, v in o.items():
                 out.setdefault(k, []).append(v)
@@ -136,9 +139,7 @@ def run_closed_study(batch, title, units, nominal, chosen, samples, seed, monoto
     draws, events, x, undecided = {}, [], None, 0
     if samples:
         x = _draw(tols, samples, seed)
-        out, flags, undecided = batch.evaluate(x)
-        if progress is not None:
-            progress(samples, samples)
+        out, flags, undecided = batch.evaluate(x, progress)
         draws = {n: out[n] for n in chosen.names}
         for (name, event, case), flag in flags.items():
             events.append(_event(name, event, case, int(np.count_nonzero(flag)), samples))
