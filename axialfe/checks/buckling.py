@@ -40,6 +40,21 @@ _STRAIN_NOISE = 1e-12
 FREE_END_K = 2.0
 
 
+def _length_bases(settings, length_text):
+    """:func:`_length_basis` of each segment, worked out once for the segments of one run
+    that set the same length and factor of their own (all of a long member's, as a rule)."""
+    made = {}
+
+    def basis(seg, run):
+        key = (run, seg.buckling_length, seg.effective_length_factor)
+        found = made.get(key)
+        if found is None:
+            found = made[key] = _length_basis(seg, run, settings, length_text)
+        return found
+
+    return basis
+
+
 def _length_basis(seg, run, settings, length_text):
     """Return (L, K, text, undecided note or None) of one segment."""
     own_k = seg.effective_length_factor
@@ -137,6 +152,7 @@ def buckling_checks(result: CaseResult, settings: CheckSettings):
     def force_text(value):
         return quantity_text(value, "force")
 
+    length_basis = _length_bases(settings, length_text)
     out = []
     N = result.axial_force
     compressions = np.maximum(-N[:, 0], -N[:, 1]).tolist()
@@ -145,7 +161,7 @@ def buckling_checks(result: CaseResult, settings: CheckSettings):
         areas = [s.area for s in seg.sections]
         if compression <= _STRAIN_NOISE * seg.material.elastic_modulus * min(areas):
             continue
-        length, k, basis, unclear = _length_basis(seg, runs[i], settings, length_text)
+        length, k, basis, unclear = length_basis(seg, runs[i])
         own_length = seg.buckling_length is not None     # the user has set it deliberately
         tail = _parallel_text(parallel[i]) if parallel[i] and not own_length else ""
         if weaker[i] is not None and not own_length:
@@ -212,9 +228,10 @@ def buckling_capacities(model, settings: CheckSettings):
     segment of a mechanism.
     """
     runs, curve = braced_runs(model), settings.column_curve
+    length_basis = _length_bases(settings, lambda v: f"{v:g} m")
     out = []
     for i, seg in enumerate(model.segments):
-        length, k, _, unclear = _length_basis(seg, runs[i], settings, lambda v: f"{v:g} m")
+        length, k, _, unclear = length_basis(seg, runs[i])
         moments = [s.second_moment for s in seg.sections]
         E, fy = seg.material.elastic_modulus, seg.material.yield_strength
         if unclear is not None:

@@ -52,6 +52,21 @@ def ground_gaps(cons, free_index, order_pos):
     return at
 
 
+def _repeated(seen, closed) -> bool:
+    """Whether the closed set was met before (a cycle); it is recorded as met."""
+    key = np.packbits(closed).tobytes()
+    if key in seen:
+        return True
+    seen.add(key)
+    return False
+
+
+def _broken(closed, force, opening, tol_z, tol_w):
+    """The gaps that break their state's condition: a closed gap that pulls (a contact)
+    or pushes (a link), an open gap that overlaps."""
+    return (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
+
+
 def _prescribe(ab, cols, w):
     """Rows and columns ``cols`` of a lower band set to those of the identity."""
     if not len(cols):
@@ -100,10 +115,8 @@ def active_set(band: Band, at, sign, clearance, b, closed, scale_q, max_iter=200
     shown = np.zeros_like(closed)            # the state the working band shows
     seen = set()
     for it in range(1, max_iter + 1):
-        key = np.packbits(closed).tobytes()
-        if key in seen:
+        if _repeated(seen, closed):
             return None, None, CYCLED, it - 1
-        seen.add(key)
         opened = np.flatnonzero(shown & ~closed)
         if len(opened):                     # restore the rows and columns of opened gaps
             cols = at[opened]
@@ -123,7 +136,7 @@ def active_set(band: Band, at, sign, clearance, b, closed, scale_q, max_iter=200
         force = np.zeros(len(at))
         force[closed] = r[cc] / sign[closed]
         opening = clearance - sign * u[at]
-        bad = (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
+        bad = _broken(closed, force, opening, tol_z, tol_w)
         if not bad.any():
             return np.where(closed, np.maximum(force, 0.0), 0.0), closed, SOLVED, it
         closed = closed ^ bad
@@ -207,10 +220,8 @@ def active_set_linked(band: Band, at_a, at_b, sign_a, sign_b, clearance, b, clos
     closed = np.asarray(closed, dtype=bool).copy()
     seen = set()
     for it in range(1, max_iter + 1):
-        key = np.packbits(closed).tobytes()
-        if key in seen:
+        if _repeated(seen, closed):
             return None, None, CYCLED, it - 1
-        seen.add(key)
         c = np.flatnonzero(closed)
         anchor = np.maximum(at_a[c], at_b[c])
         by = np.argsort(anchor, kind="stable")
@@ -243,7 +254,7 @@ def active_set_linked(band: Band, at_a, at_b, sign_a, sign_b, clearance, b, clos
         force = np.zeros(g)
         force[c] = beta * x[mult]
         opening = clearance - sign_a * u[at_a] - np.where(two, sign_b * u[at_b0], 0.0)
-        bad = (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
+        bad = _broken(closed, force, opening, tol_z, tol_w)
         if not bad.any():
             return np.where(closed, np.maximum(force, 0.0), 0.0), closed, SOLVED, it
         closed = closed ^ bad
