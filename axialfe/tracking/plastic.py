@@ -856,7 +856,8 @@ def _least_norm(M, q, z, tol=1e-10):
     w_t = q + M @ trial
     size = max(np.abs(z).max(initial=0.0), 1e-300)
     scale = max(np.abs(q).max(initial=0.0), 1e-300)
-    if trial.min(initial=0.0) >= -1e-9 * size and w_t.min(initial=0.0) >= -1e-9 * scale:
+    accept = max(1e-9, 10 * tol)    # the rounding of q (rates by differences: coarser)
+    if trial.min(initial=0.0) >= -accept * size and w_t.min(initial=0.0) >= -accept * scale:
         return np.maximum(trial, 0.0)
     return z
 
