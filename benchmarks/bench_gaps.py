@@ -66,22 +66,25 @@ def main():
         # gaps between two stations: multiplier rows in the band, against the exact search
         model = chain_with_gaps(n_seg, n_seg // 10, between=True)
         state = load_states(model)[0]
-        t = time.perf_counter()
-        system = System(model)
-        case = system.solve_state(state)
-        t_band = time.perf_counter() - t
-        line = (f"gaps between stations: {n_seg:,} segments, {len(model.gaps):,} gaps: "
+        t_band = math.inf
+        for _ in range(3):
+            t = time.perf_counter()
+            system = System(model)
+            case = system.solve_state(state)
+            t_band = min(t_band, time.perf_counter() - t)
+        line = (f"gaps between stations (best of 3): {n_seg:,} segments, {len(model.gaps):,} gaps: "
                 f"{t_band * 1e3:7.1f} ms, search {system.last_contact[0]} in "
                 f"{system.last_contact[1]} factorisations, {int(case.gap_closed.sum())} closed, "
                 f"residual {case.equilibrium_residual:.1e}")
-        if n_seg <= 2_500:
+        t_exact = math.inf
+        for _ in range(3):
             t = time.perf_counter()
             exact = System(model, method="sparse-lu").solve_state(state)
-            t_exact = time.perf_counter() - t
-            rel = (np.abs(exact.axial_force - case.axial_force).max()
-                   / np.abs(exact.axial_force).max())
-            line += (f"; the exact search (sparse LU, dense gaps x gaps) {t_exact * 1e3:.1f} ms, "
-                     f"ratio {t_band / t_exact:.2f}, same forces to {rel:.0e}")
+            t_exact = min(t_exact, time.perf_counter() - t)
+        rel = (np.abs(exact.axial_force - case.axial_force).max()
+               / np.abs(exact.axial_force).max())
+        line += (f"; the exact search (sparse LU, dense gaps x gaps) {t_exact * 1e3:.1f} ms, "
+                 f"ratio {t_band / t_exact:.2f}, same forces to {rel:.0e}")
         print(line)
     model = chain_with_gaps(1_000, 20)
     t = time.perf_counter()

@@ -175,17 +175,20 @@ def test_gaps_that_close_a_loop_are_checked_for_dependence_and_refused_alike():
 
 @st.composite
 def linked(draw):
-    """A random model with gaps between free stations (contacts and slack links) and to
-    ground, as the multiplier rows of the banded search take them."""
+    """A random model with gaps between stations (contacts and slack links; one end may
+    be held by a support) and to ground, as the multiplier rows of the banded search
+    take them."""
     m = draw(models())
     names = [s.name for s in m.stations]
     held = {s.at for s in m.supports if s.kind != "spring"}
     free = [n for n in names if n not in held]
     if len(free) < 2:
         return m
-    pairs = draw(st.lists(st.tuples(st.sampled_from(free), st.sampled_from(free))
+    pairs = draw(st.lists(st.tuples(st.sampled_from(free), st.sampled_from(names))
                           .filter(lambda p: p[0] != p[1]), min_size=1, max_size=3,
                           unique_by=lambda p: frozenset(p)))
+    flips = draw(st.lists(st.booleans(), min_size=len(pairs), max_size=len(pairs)))
+    pairs = [p[::-1] if flip else p for p, flip in zip(pairs, flips)]   # the held one first too
     gaps = [Gap(f"b{k}", pair, draw(st.floats(0.0, 2e-4)), draw(st.sampled_from(GAP_KINDS)))
             for k, pair in enumerate(pairs)]
     at = draw(st.lists(st.sampled_from(free), max_size=2, unique=True))

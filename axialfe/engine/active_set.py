@@ -151,10 +151,15 @@ _DEPENDENT_PIVOT = 1e-10
 
 
 def linked_gaps(cons, free_index, order_pos):
-    """Band positions ``(a, b)`` of every gap's stations (``b`` -1 against ground), or None.
+    """The gaps as the multiplier iteration takes them, or None where it does not apply.
 
-    It applies when every station of every gap is free (no gap touches a support or a
-    gap-held part's anchor).  ``free_index`` and ``order_pos`` as in :func:`ground_gaps`.
+    Returns ``(a, b, sign_a, sign_b, held, sign_held)``: the band positions of each
+    gap's free stations (``b`` -1 against ground) with the coefficients of its closure
+    on them, and the station held by a support that a gap may join to a free one
+    (-1 where none) with its coefficient: its prescribed displacement moves that gap's
+    clearance, and the gap is then one to ground.  It applies when every gap has a
+    free station (and every part a support: the caller sees to that).
+    ``free_index`` and ``order_pos`` as in :func:`ground_gaps`.
     """
     if not len(cons) or np.any(cons.s1 == 0):
         return None
@@ -163,12 +168,19 @@ def linked_gaps(cons, free_index, order_pos):
         return None
     a = free_index[cons.a]
     b = np.where(two, free_index[np.where(two, cons.b, 0)], -1)
-    if np.any(a < 0) or np.any(two & (b < 0)):
-        return None
+    held_a, held_b = a < 0, two & (b < 0)
+    if np.any(held_a & (held_b | ~two)):
+        return None                       # a gap with no free station
+    # a held first station: the second takes its place
+    sign_a = np.where(held_a, cons.s2, cons.s1)
+    sign_b = np.where(held_a | held_b, 0.0, cons.s2)
+    held = np.where(held_a, cons.a, np.where(held_b, cons.b, -1))
+    sign_held = np.where(held_a, cons.s1, np.where(held_b, cons.s2, 0.0))
+    a, b = np.where(held_a, b, a), np.where(held_a | held_b, -1, b)
     if order_pos is not None:
         a = order_pos[a]
-        b = np.where(two, order_pos[np.maximum(b, 0)], -1)
-    return a, b
+        b = np.where(b >= 0, order_pos[np.maximum(b, 0)], -1)
+    return a, b, sign_a, sign_b, held, sign_held
 
 
 def _band_entries(ab):

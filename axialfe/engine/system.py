@@ -325,9 +325,11 @@ class System:
         scale_q = max(np.abs(o0).max(initial=0), self.clearance.max(initial=0), 1e-300)
         start = o0 < -1e-11 * scale_q
         if isinstance(at, tuple):       # gaps between two stations: multiplier rows
-            cons = self.cons
-            lam, closed, status, its = active_set_linked(self.band, *at, cons.s1, cons.s2,
-                                                         self.clearance, b, start, scale_q)
+            at_a, at_b, sign_a, sign_b, held, sign_held = at
+            # a gap joined to a supported station: its clearance less that station's share
+            clearance = self.clearance - sign_held * u[np.maximum(held, 0)] * (held >= 0)
+            lam, closed, status, its = active_set_linked(self.band, at_a, at_b, sign_a, sign_b,
+                                                         clearance, b, start, scale_q)
         else:
             lam, closed, status, its = active_set(self.band, at, self.cons.s1, self.clearance,
                                                   b, start, scale_q)
