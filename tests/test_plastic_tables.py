@@ -172,6 +172,39 @@ def test_a_brief_yield_between_two_samples_of_a_table_interval_is_found():
                  rel=1e-8)
 
 
+def test_a_rod_heated_against_a_stop_over_tables_closes_yields_and_opens_by_hand():
+    # a rod 1 m long fixed at one end, 0.6 mm short of a stop; alpha = 12e-6 /K constant,
+    # E = 200 GPa to 200 degC then falling to 170 GPa at 400 degC, f_y from 240 MPa at
+    # 0 degC to 160 MPa at 400 degC (linear).  By hand: the stop closes at dT = 50 K; then
+    # sigma = -E*alpha*(dT - 50 K) reaches f_y(20 degC + dT) where 2.4*(dT - 50) =
+    # 236 - 0.2*dT (MPa), dT = 356/2.6 K; at 220 degC, E = 197 GPa and f_y = 196 MPa, so
+    # eps_p = 0.6e-3 - alpha*200 K + 196/197000; cooled, the stop opens where the rod is
+    # free again: alpha*dT = 0.6e-3 - eps_p
+    from axialfe import Gap
+
+    C0 = C
+    mat = Material("rod", 200e9, 0.0, 240e6, behaviour="elastic-plastic",
+                   modulus_table=PropertyTable((C0, 200 + C0, 400 + C0), (200e9, 200e9, 170e9)),
+                   yield_table=PropertyTable((C0, 400 + C0), (240e6, 160e6)),
+                   expansion_table=PropertyTable((C0, 400 + C0), (12e-6, 12e-6), reference=T0),
+                   expansion_kind="mean")
+    model = Model([Station("base", 0.0), Station("end", 1.0)],
+                  [Segment("rod", "base", "end", mat, area("r", 1e-4))], [Support("base")],
+                  gaps=(Gap("stop", ("end",), side="+x", clearance=0.6e-3),),
+                  reference_temperature=T0)
+    result = run(model, "temperature-change 0 K..200 K; temperature-change 200 K..0 K")
+    assert events(result) == [(1, "stop", "closes"), (1, "rod", "yields"), (2, "rod", "unloads"),
+                              (2, "stop", "opens")]
+    eps_p = 0.6e-3 - 12e-6 * 200 + 196e6 / 197e9
+    assert_close([e.value for e in result.events],
+                 [50.0, 356 / 2.6, 200.0, (0.6e-3 - eps_p) / 12e-6], rel=1e-10)
+    assert_close(result.states[0].result.stress[0, 0], -196e6, rel=1e-10)
+    assert_close(result.states[1].plastic_strain[0], eps_p, rel=1e-9)
+    # back at the reference the rod is short by its plastic elongation: the stop stands
+    # 0.6 mm - eps_p*L away
+    assert_close(result.states[1].result.gap_opening[0], 0.6e-3 - eps_p * 1.0, rel=1e-9)
+
+
 @pytest.mark.parametrize("top, outcome", [(180.0, "shakedown"), (300.0, "alternating")])
 def test_thermal_cycling_over_tables_shakes_down_or_alternates(top, outcome):
     # 180 degC: the residual tension on cooling stays below f_y(T) (test above), so the
