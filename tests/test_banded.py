@@ -40,9 +40,11 @@ def same(a, b, rel=1e-9):
     k = b.axial_force.shape[0] and float(np.max(assemble(b.model).stiffness))
     sn = max(np.abs(b.axial_force).max(), np.abs(b.reactions).max(),
              np.abs(b.gap_force).max(initial=0), k * (su + 1e-18 / rel), 1e-300)
-    # displacements against their own size and the stretch the forces give the stiffest
-    # segment (where every station is held, rounding of that stretch is what remains)
-    sf = max(np.abs(b.axial_force).max(), np.abs(b.reactions).max()) / k if k else 0.0
+    # displacements against their own size and the stretch the forces (gap forces too)
+    # give the stiffest segment (where every station is held, rounding of that stretch
+    # is what remains)
+    sf = max(np.abs(b.axial_force).max(), np.abs(b.reactions).max(),
+             np.abs(b.gap_force).max(initial=0)) / k if k else 0.0
     assert np.abs(a.u - b.u).max() <= rel * max(su, sf) + 1e-18, (a.message, b.message)
     assert np.abs(a.axial_force - b.axial_force).max() <= rel * sn
     assert np.abs(a.reactions - b.reactions).max() <= rel * sn

@@ -259,7 +259,8 @@ class System:
     def state_vectors(self, state: LoadState):
         """Return (F, u_presc, element terms) of a load state."""
         nodal, delta0, G, W = element_loads(self.asm, state.dT, state.q_factor)
-        F = state.forces + nodal
+        F = nodal
+        F += state.forces          # (the nodal loads are made here, for F alone)
         return F, state.settlement[self.presc_support], (delta0, G, W)
 
     def gap_problem(self, F, u_presc):
