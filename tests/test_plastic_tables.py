@@ -493,3 +493,15 @@ def test_paths_over_varying_tables_agree_with_a_brute_force_incremental_solve(ca
     for state, forces in zip(result.states, ends):
         scale = np.abs(forces).max()
         assert_close(state.result.axial_force[:, 0], forces, rel=0.0, abs_=2e-3 * scale)
+
+
+def test_a_constant_compressive_yield_strength_beside_a_table_is_said():
+    import dataclasses
+
+    mat = dataclasses.replace(hot_steel(), compressive_yield_strength=240e6)
+    result = run(restrained(mat), "temperature 20 degC..300 degC")
+    assert result.notes[1] == ("the compressive yield strength of 'hot' is a constant and does "
+                               "not follow the yield strength's table against temperature: give "
+                               "the value at the temperature of interest")
+    # the bound in compression is the constant: sigma = -240 MPa at 300 degC
+    assert_close(result.states[0].result.stress[0, 0], -240e6, rel=1e-10)

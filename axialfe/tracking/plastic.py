@@ -640,7 +640,8 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     1.0
     """
     from ..engine.preload import resolve_preloads
-    from ..model.temperature import basis_note, has_tables, refuse_tabled_preloads
+    from ..model.temperature import (basis_note, constant_compression_note, has_tables,
+                                     refuse_tabled_preloads)
 
     refuse_tabled_preloads(model)
     model = resolve_preloads(model)
@@ -665,6 +666,9 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     if tabled:
         notes.append(basis_note(model) + "; on legs that change the temperature the events are "
                      "found by bracketed root-finding between the table entries")
+        constant = constant_compression_note(model)
+        if constant:
+            notes.append(constant)
     if not len(P):
         notes.append("no segment is elastic-plastic (behaviour = \"elastic-plastic\"): the path "
                      "is linear-elastic")
