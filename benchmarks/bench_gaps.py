@@ -18,7 +18,7 @@ from axialfe import Gap, Load, Material, Model, Section, Segment, Station, Suppo
 from axialfe.tracking.sweep import sweep
 
 
-def chain_with_gaps(n_seg, n_gaps, seed=1):
+def chain_with_gaps(n_seg, n_gaps, seed=1, between=False):
     rng = np.random.default_rng(seed)
     x = np.cumsum(np.r_[0.0, rng.uniform(0.05, 0.2, n_seg)])
     stations = [Station(f"s{i}", float(v)) for i, v in enumerate(x)]
@@ -30,6 +30,10 @@ def chain_with_gaps(n_seg, n_gaps, seed=1):
     at = rng.choice(np.arange(1, n_seg + 1), size=n_gaps, replace=False)
     gaps = [Gap(f"g{j}", (f"s{i}",), float(rng.uniform(0, 2e-3)), "contact",
                 "+x" if j % 2 else "-x") for j, i in enumerate(at)]
+    if between:   # the stops as gaps from the station two before (off the support at s0)
+        at = at[at >= 3]
+        gaps = [Gap(f"g{j}", (f"s{i - 2}", f"s{i}"), float(rng.uniform(0, 2e-5)),
+                    "contact" if j % 2 else "slack") for j, i in enumerate(at)]
     loads = [Load(f"s{i}", float(rng.uniform(-5e4, 5e4))) for i in rng.choice(n_seg, 50) + 1]
     return Model(stations, segments, supports, loads, gaps=gaps, temperature_change=40.0)
 
@@ -58,6 +62,30 @@ def main():
               f"residual {case.equilibrium_residual:.1e}")
     power = math.log(times[100_000] / times[25_000]) / math.log(4)
     print(f"many gaps: cost grows as n^{power:.2f} from 25,000 to 100,000 segments (goal <= n^1.3)")
+    for n_seg in (2_500, 25_000):
+        # gaps between two stations: multiplier rows in the band, against the exact search
+        model = chain_with_gaps(n_seg, n_seg // 10, between=True)
+        state = load_states(model)[0]
+        t_band = math.inf
+        for _ in range(3):
+            t = time.perf_counter()
+            system = System(model)
+            case = system.solve_state(state)
+            t_band = min(t_band, time.perf_counter() - t)
+        line = (f"gaps between stations (best of 3): {n_seg:,} segments, {len(model.gaps):,} gaps: "
+                f"{t_band * 1e3:7.1f} ms, search {system.last_contact[0]} in "
+                f"{system.last_contact[1]} factorisations, {int(case.gap_closed.sum())} closed, "
+                f"residual {case.equilibrium_residual:.1e}")
+        t_exact = math.inf
+        for _ in range(3):
+            t = time.perf_counter()
+            exact = System(model, method="sparse-lu").solve_state(state)
+            t_exact = min(t_exact, time.perf_counter() - t)
+        rel = (np.abs(exact.axial_force - case.axial_force).max()
+               / np.abs(exact.axial_force).max())
+        line += (f"; the exact search (sparse LU, dense gaps x gaps) {t_exact * 1e3:.1f} ms, "
+                 f"ratio {t_band / t_exact:.2f}, same forces to {rel:.0e}")
+        print(line)
     model = chain_with_gaps(1_000, 20)
     t = time.perf_counter()
     result = sweep(model, "temperature_change", -60.0, 160.0, 10_000)

@@ -20,7 +20,11 @@ def collapse(model: ModelPath,
              format: Annotated[CheckFormat, typer.Option("--format", "-f",
                                                          help="Output format.")] = CheckFormat.table,
              output: Output = None, force_unit: ForceUnit = None):
-    """The collapse load factor of a case by limit analysis, with its mechanism."""
+    """The collapse load factor of a case by limit analysis, with its mechanism.
+
+    With properties against temperature the yield strengths are those at each
+    segment's temperature in the case.
+    """
     from ..output.plastictext import collapse_json, collapse_table
     from ..plastic import collapse as run
 
@@ -55,7 +59,9 @@ def path(model: ModelPath,
          displacement_unit: DispUnit = None, stress_unit: StressUnit = None):
     """Follow a case along a load and temperature path with elastic-plastic segments.
 
-    The events are exact; after a collapse the path stops (exit code 0).
+    The events are exact; after a collapse the path stops (exit code 0).  Properties
+    given against temperature are followed: on legs that move the temperatures the
+    events are found by root-finding between the table entries.
     """
     from ..output.plastictext import path_json, path_table
     from ..tracking.plastic import parse_path, track_path

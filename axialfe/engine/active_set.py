@@ -52,6 +52,21 @@ def ground_gaps(cons, free_index, order_pos):
     return at
 
 
+def _repeated(seen, closed) -> bool:
+    """Whether the closed set was met before (a cycle); it is recorded as met."""
+    key = np.packbits(closed).tobytes()
+    if key in seen:
+        return True
+    seen.add(key)
+    return False
+
+
+def _broken(closed, force, opening, tol_z, tol_w):
+    """The gaps that break their state's condition: a closed gap that pulls (a contact)
+    or pushes (a link), an open gap that overlaps."""
+    return (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
+
+
 def _prescribe(ab, cols, w):
     """Rows and columns ``cols`` of a lower band set to those of the identity."""
     if not len(cols):
@@ -100,10 +115,8 @@ def active_set(band: Band, at, sign, clearance, b, closed, scale_q, max_iter=200
     shown = np.zeros_like(closed)            # the state the working band shows
     seen = set()
     for it in range(1, max_iter + 1):
-        key = np.packbits(closed).tobytes()
-        if key in seen:
+        if _repeated(seen, closed):
             return None, None, CYCLED, it - 1
-        seen.add(key)
         opened = np.flatnonzero(shown & ~closed)
         if len(opened):                     # restore the rows and columns of opened gaps
             cols = at[opened]
@@ -123,7 +136,7 @@ def active_set(band: Band, at, sign, clearance, b, closed, scale_q, max_iter=200
         force = np.zeros(len(at))
         force[closed] = r[cc] / sign[closed]
         opening = clearance - sign * u[at]
-        bad = (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
+        bad = _broken(closed, force, opening, tol_z, tol_w)
         if not bad.any():
             return np.where(closed, np.maximum(force, 0.0), 0.0), closed, SOLVED, it
         closed = closed ^ bad
@@ -138,10 +151,15 @@ _DEPENDENT_PIVOT = 1e-10
 
 
 def linked_gaps(cons, free_index, order_pos):
-    """Band positions ``(a, b)`` of every gap's stations (``b`` -1 against ground), or None.
+    """The gaps as the multiplier iteration takes them, or None where it does not apply.
 
-    It applies when every station of every gap is free (no gap touches a support or a
-    gap-held part's anchor).  ``free_index`` and ``order_pos`` as in :func:`ground_gaps`.
+    Returns ``(a, b, sign_a, sign_b, held, sign_held)``: the band positions of each
+    gap's free stations (``b`` -1 against ground) with the coefficients of its closure
+    on them, and the station held by a support that a gap may join to a free one
+    (-1 where none) with its coefficient: its prescribed displacement moves that gap's
+    clearance, and the gap is then one to ground.  It applies when every gap has a
+    free station (and every part a support: the caller sees to that).
+    ``free_index`` and ``order_pos`` as in :func:`ground_gaps`.
     """
     if not len(cons) or np.any(cons.s1 == 0):
         return None
@@ -150,12 +168,19 @@ def linked_gaps(cons, free_index, order_pos):
         return None
     a = free_index[cons.a]
     b = np.where(two, free_index[np.where(two, cons.b, 0)], -1)
-    if np.any(a < 0) or np.any(two & (b < 0)):
-        return None
+    held_a, held_b = a < 0, two & (b < 0)
+    if np.any(held_a & (held_b | ~two)):
+        return None                       # a gap with no free station
+    # a held first station: the second takes its place
+    sign_a = np.where(held_a, cons.s2, cons.s1)
+    sign_b = np.where(held_a | held_b, 0.0, cons.s2)
+    held = np.where(held_a, cons.a, np.where(held_b, cons.b, -1))
+    sign_held = np.where(held_a, cons.s1, np.where(held_b, cons.s2, 0.0))
+    a, b = np.where(held_a, b, a), np.where(held_a | held_b, -1, b)
     if order_pos is not None:
         a = order_pos[a]
-        b = np.where(two, order_pos[np.maximum(b, 0)], -1)
-    return a, b
+        b = np.where(b >= 0, order_pos[np.maximum(b, 0)], -1)
+    return a, b, sign_a, sign_b, held, sign_held
 
 
 def _band_entries(ab):
@@ -207,10 +232,8 @@ def active_set_linked(band: Band, at_a, at_b, sign_a, sign_b, clearance, b, clos
     closed = np.asarray(closed, dtype=bool).copy()
     seen = set()
     for it in range(1, max_iter + 1):
-        key = np.packbits(closed).tobytes()
-        if key in seen:
+        if _repeated(seen, closed):
             return None, None, CYCLED, it - 1
-        seen.add(key)
         c = np.flatnonzero(closed)
         anchor = np.maximum(at_a[c], at_b[c])
         by = np.argsort(anchor, kind="stable")
@@ -243,7 +266,7 @@ def active_set_linked(band: Band, at_a, at_b, sign_a, sign_b, clearance, b, clos
         force = np.zeros(g)
         force[c] = beta * x[mult]
         opening = clearance - sign_a * u[at_a] - np.where(two, sign_b * u[at_b0], 0.0)
-        bad = (closed & (force < -tol_z)) | (~closed & (opening < -tol_w))
+        bad = _broken(closed, force, opening, tol_z, tol_w)
         if not bad.any():
             return np.where(closed, np.maximum(force, 0.0), 0.0), closed, SOLVED, it
         closed = closed ^ bad

@@ -217,7 +217,7 @@ def element_loads(asm: Assembly, dT, q_factor=1.0):
         Free change of length, compatibility term and total local load of each
         segment, as used by :func:`axialfe.solve.recover`.
     """
-    q_local = q_factor * asm.q * asm.direction
+    q_local = q_factor * asm.q if asm.forward else q_factor * asm.q * asm.direction
     delta0, G, W = load_terms(asm.terms, q_local, dT, asm.expansion, asm.length, asm.misfit)
     f_from, f_to = nodal_loads(asm.terms, delta0, G, W)
     if not asm.forward:                  # along each segment's direction, to global

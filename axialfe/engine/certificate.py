@@ -119,10 +119,13 @@ def check_unique_gaps(system, lam, closed, opening, tol_gap, label=""):
     if not len(lam):
         return
     active = closed | (np.abs(opening) <= tol_gap)
-    if int(active.sum()) < 2 or _independent(system):
+    if int(active.sum()) < 2 or _independent(system, active):
         return
-    M, H = system.gap_matrix
-    sub = M[np.ix_(active, active)]
+    if system.n_parts:
+        M, H = system.gap_matrix
+        sub = M[np.ix_(active, active)]
+    else:   # the block of the active gaps alone (the many-gap case never builds all of M)
+        H, sub = np.zeros((len(lam), 0)), system.gap_block(np.flatnonzero(active))
     if H.shape[1]:
         Ha = H[active]
         c = max(float(np.abs(np.diag(sub)).max(initial=0.0)), 1e-300) if sub.size else 1.0
@@ -143,19 +146,38 @@ def check_unique_gaps(system, lam, closed, opening, tol_gap, label=""):
                      file=model.source, line=model.line_of(f"gaps.{names[0]}"))
 
 
-def _independent(system) -> bool:
-    """True when the gaps' constraints are independent by their layout alone.
+def _independent(system, active) -> bool:
+    """True when the active gaps' constraints are independent by their layout alone.
 
-    Each gap holds one free station against ground, no two the same station,
-    and every part has a support: the rows of B are then distinct unit rows
-    of free unknowns, and ``M = B K^-1 B^T`` is positive definite with K (the
-    many-gap case, where building the dense M would cost gaps x gaps).
+    Every part has a support, and each gap's row of B over the free stations joins
+    its free stations (two, or one against ground, where the other is ground or held
+    by a support).  Taken as edges between stations and ground, rows that form a
+    forest (no cycle, no gap twice, none on held stations alone) are independent: a
+    leaf's row is the only one with its station, and removing it leaves a forest.
+    Then ``M = B K^-1 B^T`` is positive definite on them with K, and the dense block
+    of M is not needed (the many-gap case, where it would cost gaps x gaps).  This is
+    the layout of gaps each on its own free station against ground, and of gaps
+    between stations along a chain that close no loop.
     """
+    from .dofs import connected_components
+
     cons = system.cons
-    if system.n_parts or np.any(cons.b >= 0) or np.any(cons.s1 == 0):
+    if system.n_parts:
         return False
-    at = cons.a
-    return bool(np.all(system._free_index[at] >= 0)) and len(np.unique(at)) == len(at)
+    rows = np.flatnonzero(active)
+    two = cons.b[rows] >= 0
+    if np.any(cons.s1[rows] == 0) or np.any(two & (cons.s2[rows] == 0)):
+        return False
+    n = system.asm.n
+    fidx = system._free_index
+    a = cons.a[rows]
+    b = np.where(two, cons.b[rows], 0)
+    a = np.where(fidx[a] >= 0, a, n)                       # a held station is ground
+    b = np.where(two & (fidx[b] >= 0), b, n)
+    if np.any(a == b):        # a row with no free station, or one station twice
+        return False
+    count, _ = connected_components(n + 1, a, b)
+    return count == n + 1 - len(rows)
 
 
 def _dependent(sub):

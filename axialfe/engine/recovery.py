@@ -88,8 +88,8 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     # Reactions from the restrained rows, K u - F (K with the springs), at the prescribed
     # stations alone: only the segments with a restrained end reach them (as in
     # System.stiffness_times, from the end displacements read above)
-    ps, pidx, hs = system.presc_stations, system._presc_index, system.held_segments
-    at_end, at_start = pidx[end[hs]], pidx[start[hs]]
+    ps, hs = system.presc_stations, system.held_segments
+    at_end, at_start = system.presc_place(end[hs]), system.presc_place(start[hs])
     to_end, to_start = at_end >= 0, at_start >= 0
     t = k[hs] * stretch_u[hs]
     R_station = (_sums(at_end[to_end], t[to_end], len(ps))
@@ -109,7 +109,7 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
     noise_R *= _ULPS
     _zero_below(R_station, noise_R, np.empty(len(ps)))
     reactions = np.zeros(len(model.supports))
-    reactions[system.presc_support] = R_station[pidx[system.presc]]
+    reactions[system.presc_support] = R_station[system.presc_place(system.presc)]
     spring_force = -system.spring_k * u[system.spring_at]
     reactions[system.spring_support] = spring_force
     # (K includes the springs, so R_station at a prescribed station is already the
@@ -156,7 +156,9 @@ def recover(system, state: LoadState, u, F, lam, terms, closed=None,
                                       sizes=(size_u, size_d0, size_G))
     check_unique_gaps(system, lam, closed, opening, tol_gap, state.name)
     # an overlap at the level of rounding shows as 0; a real one would stay visible
-    tiny = (opening < 0) & (opening >= -tol_gap) if g else closed
+    # (and a touch at that level, open with no force, as touching: the same gap the
+    # exact search may call closed with a force of rounding size)
+    tiny = np.abs(opening) <= tol_gap if g else closed
     opening = np.where(closed | tiny, 0.0, opening)
     gap_force = system.cons.force_sign * lam if g else np.zeros(0)
     gap_force = np.where(gap_force == 0, 0.0, gap_force)

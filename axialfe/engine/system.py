@@ -70,8 +70,7 @@ class System:
         nf = len(free)
         # the stations' places among the unknowns, and the segments that tie a free
         # station to a restrained one (their -k moves prescribed values to the loads)
-        self._free_index = fidx = np.full(n, -1)
-        fidx[free] = np.arange(nf)
+        self._fidx = None   # (made on first use: self._free_index)
         # the free stations as a slice where they are one run (a bar held at its ends):
         # reading and writing them then copies nothing
         self._free_at = (slice(int(free[0]), int(free[-1]) + 1)
@@ -83,17 +82,15 @@ class System:
         self.held_segments = hs = np.flatnonzero(held_s | held_e)
         tie_s, tie_e = hs[~held_s[hs]], hs[~held_e[hs]]   # free start, free end
         tie_s, tie_e = tie_s[held_e[tie_s]], tie_e[held_s[tie_e]]
-        ridx = np.full(n, -1)
-        ridx[dofs.restrained] = np.arange(len(dofs.restrained))
+        # (free and restrained are sorted: a station's place among them by bisection)
+        place = np.searchsorted
         self.K_fr = sp.csr_matrix(
             (-np.concatenate([asm.stiffness[tie_s], asm.stiffness[tie_e]]),
-             (np.concatenate([fidx[asm.start[tie_s]], fidx[asm.end[tie_e]]]),
-              np.concatenate([ridx[asm.end[tie_s]], ridx[asm.start[tie_e]]]))),
+             (place(free, np.concatenate([asm.start[tie_s], asm.end[tie_e]])),
+              place(dofs.restrained, np.concatenate([asm.end[tie_s], asm.start[tie_e]])))),
             shape=(nf, len(dofs.restrained)))
-        # each prescribed station's place among the distinct ones (for its reaction)
+        # the distinct prescribed stations (for their reactions)
         self.presc_stations = np.unique(dofs.presc)
-        self._presc_index = pidx = np.full(n, -1)
-        pidx[self.presc_stations] = np.arange(len(self.presc_stations))
         self.spring_stations = np.unique(dofs.spring_at)
         self._K = self._abs_K = None
         self.band = self._ground = None
@@ -104,19 +101,39 @@ class System:
                                  overwrite_band=not len(model.gaps)) if nf else None)
         self._M = None
 
+    @property
+    def _free_index(self):
+        """Each station's place among the unknowns, -1 where it is restrained."""
+        if self._fidx is None:
+            self._fidx = np.full(self.asm.n, -1)
+            self._fidx[self.free] = np.arange(len(self.free))
+        return self._fidx
+
+    def presc_place(self, stations):
+        """The places of ``stations`` among :attr:`presc_stations`, -1 where not prescribed."""
+        ps = self.presc_stations
+        if not len(ps):
+            return np.full(len(stations), -1)
+        at = np.minimum(np.searchsorted(ps, stations), len(ps) - 1)
+        return np.where(ps[at] == stations, at, -1)
+
     def _band(self):
         """The free-free stiffness as a band over the free stations numbered by x."""
         free, asm = self.free, self.asm
-        xf = self.x[self._free_at]
-        ascending = len(xf) < 2 or bool(np.all(xf[1:] >= xf[:-1]))
+        x = self.x
+        xf = x[self._free_at]
+        # a chain running toward +x has its stations in increasing x
+        rising = asm.chain and asm.forward
+        ascending = rising or len(xf) < 2 or bool(np.all(xf[1:] >= xf[:-1]))
         # Eliminate from the end away from the supports: back substitution then ends
         # at the supported end, whose small displacements are not computed from the
         # large ones of the far end (an unloaded segment there keeps an exact zero force).
-        x_held = self.x[self.restrained]
-        lower = np.count_nonzero(x_held < 0.5 * (self.x.min() + self.x.max())) if len(xf) else 0
+        x_held = x[self.restrained]
+        middle = 0.5 * (x[0] + x[-1]) if rising else 0.5 * (x.min() + x.max())
+        lower = np.count_nonzero(x_held < middle) if len(xf) else 0
         reverse = 2 * lower > len(x_held)
         if ascending and not reverse:
-            order, pos = None, self._free_index
+            order, pos = None, self._free_index if not rising else None
         else:
             order = np.arange(len(xf)) if ascending else np.argsort(xf, kind="stable")
             if reverse:
@@ -127,6 +144,7 @@ class System:
         if asm.chain and order is None and isinstance(run, slice):
             band = band_of_run(run.start, run.stop, asm.stiffness, self.spring_diagonal)
         else:
+            pos = self._free_index if pos is None else pos
             band = band_of(len(free), pos, asm.start, asm.end, asm.stiffness,
                            self.spring_diagonal, held=self.held_segments, ends=asm.ends)
         band.order = order
@@ -228,11 +246,21 @@ class System:
             self._M = (M, H)
         return self._M
 
+    def gap_block(self, rows):
+        """``M[rows][:, rows]`` of :attr:`gap_matrix` (rows: indices of gaps), from solves of
+        those gaps alone where the whole M has not been built."""
+        if self._M is not None:
+            return self._M[0][np.ix_(rows, rows)]
+        Bf = self.B[rows][:, self.free].tocsc()
+        block = Bf @ self.solve_free(Bf.toarray().T) if len(rows) else np.zeros((0, 0))
+        return 0.5 * (block + block.T)
+
     # --- one load state ----------------------------------------------------
     def state_vectors(self, state: LoadState):
         """Return (F, u_presc, element terms) of a load state."""
         nodal, delta0, G, W = element_loads(self.asm, state.dT, state.q_factor)
-        F = state.forces + nodal
+        F = nodal
+        F += state.forces          # (the nodal loads are made here, for F alone)
         return F, state.settlement[self.presc_support], (delta0, G, W)
 
     def gap_problem(self, F, u_presc):
@@ -298,9 +326,11 @@ class System:
         scale_q = max(np.abs(o0).max(initial=0), self.clearance.max(initial=0), 1e-300)
         start = o0 < -1e-11 * scale_q
         if isinstance(at, tuple):       # gaps between two stations: multiplier rows
-            cons = self.cons
-            lam, closed, status, its = active_set_linked(self.band, *at, cons.s1, cons.s2,
-                                                         self.clearance, b, start, scale_q)
+            at_a, at_b, sign_a, sign_b, held, sign_held = at
+            # a gap joined to a supported station: its clearance less that station's share
+            clearance = self.clearance - sign_held * u[np.maximum(held, 0)] * (held >= 0)
+            lam, closed, status, its = active_set_linked(self.band, at_a, at_b, sign_a, sign_b,
+                                                         clearance, b, start, scale_q)
         else:
             lam, closed, status, its = active_set(self.band, at, self.cons.s1, self.clearance,
                                                   b, start, scale_q)

@@ -21,7 +21,7 @@ from ..mechanics.thermal import free_strain, interpolate, outside
 from ..units import kelvin_to_temperature
 
 __all__ = ["has_tables", "at_temperature", "basis_note", "refuse_tables",
-           "refuse_tabled_preloads"]
+           "refuse_tabled_preloads", "constant_compression_note"]
 
 
 def has_tables(model) -> bool:
@@ -49,6 +49,18 @@ def refuse_tabled_preloads(model) -> None:
                          "solved: give the misfit instead, or constant properties",
                          file=model.source, line=model.line_of(f"segments.{preloaded[0]}"),
                          place=f"segments ('{preloaded[0]}')")
+
+
+def constant_compression_note(model):
+    """A note where a yield strength follows a table but the compressive one is a constant."""
+    names = sorted({seg.material.name for seg in model.segments
+                    if seg.material.yield_table is not None
+                    and seg.material.compressive_yield_strength is not None})
+    if not names:
+        return None
+    return ("the compressive yield strength of " + ", ".join(f"'{n}'" for n in names)
+            + " is a constant and does not follow the yield strength's table against "
+            "temperature: give the value at the temperature of interest")
 
 
 def basis_note(model) -> str:

@@ -175,7 +175,8 @@ def collapse(model: Model, case: str | None = None, check_buckling: bool = True)
     1.0
     """
     from ..engine.assembly import assemble
-    from ..model.temperature import at_temperature, basis_note, has_tables
+    from ..model.temperature import (at_temperature, basis_note, constant_compression_note,
+                                     has_tables)
 
     if model.gaps:
         raise ModelError("limit analysis cannot follow gaps (the clearances decide which parts "
@@ -193,6 +194,9 @@ def collapse(model: Model, case: str | None = None, check_buckling: bool = True)
         # the strengths (and the moduli of the buckling check) at each segment's temperature
         # in the case; the thermal strains themselves do not enter the programme
         notes.append(basis_note(model) + f", in case '{state.name}'")
+        constant = constant_compression_note(model)
+        if constant:
+            notes.append(constant)
         model = at_temperature(model, state)
     asm = assemble(model)
     t_cap, c_cap = strengths(model)

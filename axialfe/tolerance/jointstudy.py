@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..errors import suggest, ModelError
+from ..errors import ModelError, suggest
 from ..joints.joint import closed_states, joint_parameters, solve_joint
 from .closed import ClosedBatch, refuse_problems, run_closed_study
 

@@ -640,7 +640,8 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     1.0
     """
     from ..engine.preload import resolve_preloads
-    from ..model.temperature import basis_note, has_tables, refuse_tabled_preloads
+    from ..model.temperature import (basis_note, constant_compression_note, has_tables,
+                                     refuse_tabled_preloads)
 
     refuse_tabled_preloads(model)
     model = resolve_preloads(model)
@@ -665,6 +666,9 @@ def track_path(model: Model, legs, case: str | None = None, cycle_legs=()) -> Pa
     if tabled:
         notes.append(basis_note(model) + "; on legs that change the temperature the events are "
                      "found by bracketed root-finding between the table entries")
+        constant = constant_compression_note(model)
+        if constant:
+            notes.append(constant)
     if not len(P):
         notes.append("no segment is elastic-plastic (behaviour = \"elastic-plastic\"): the path "
                      "is linear-elastic")
@@ -856,7 +860,8 @@ def _least_norm(M, q, z, tol=1e-10):
     w_t = q + M @ trial
     size = max(np.abs(z).max(initial=0.0), 1e-300)
     scale = max(np.abs(q).max(initial=0.0), 1e-300)
-    if trial.min(initial=0.0) >= -1e-9 * size and w_t.min(initial=0.0) >= -1e-9 * scale:
+    accept = max(1e-9, 10 * tol)    # the rounding of q (rates by differences: coarser)
+    if trial.min(initial=0.0) >= -accept * size and w_t.min(initial=0.0) >= -accept * scale:
         return np.maximum(trial, 0.0)
     return z
 
