@@ -86,13 +86,11 @@ class _FitValues(_Reader):
     def may_tolerance(self, table, key) -> bool:
         return ((table or "").split(".")[0], key) in _TOLERABLE
 
+    POSITIVE = _POSITIVE
+
     def tolerance_problem(self, tol, table, key) -> str | None:
         problem = super().tolerance_problem(tol, table, key)
-        low = tol.spread[0]
-        if problem is None and key in _POSITIVE and low <= 0:
-            problem = (f"{key} could fall to or below absolute zero" if "temperature" in key
-                       else f"{key} could fall to zero or below")
-        if problem is None and key == "inner_diameter" and low < 0:
+        if problem is None and key == "inner_diameter" and tol.spread[0] < 0:
             problem = "inner_diameter could fall below zero"
         return problem
 

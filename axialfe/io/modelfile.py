@@ -275,12 +275,19 @@ class _Reader:
         top = (table or "").split(".")[0]
         return (top, key) in _TOLERABLE or (top == "stations" and table == "stations")
 
+    # toleranced keys whose draws must stay above zero (absolute temperatures: above 0 K),
+    # beyond the schema's ranges; the joint and fit readers name theirs
+    POSITIVE: tuple[str, ...] = ()
+
     def tolerance_problem(self, tol, table, key) -> str | None:
         """Why a study must refuse this tolerance before it samples (a draw outside the
         key's physical range), or None."""
         problem = None
         for end in tol.spread:
             problem = problem or check_range(float(end), table, key)
+        if problem is None and key in self.POSITIVE and tol.spread[0] <= 0:
+            problem = (f"{key} could fall to or below absolute zero" if "temperature" in key
+                       else f"{key} could fall to zero or below")
         if problem is None and key == "clearance" and tol.spread[0] < 0:
             problem = "clearance could fall below zero"
         return problem

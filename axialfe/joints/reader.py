@@ -82,12 +82,7 @@ class _JointReader(_Reader):
     def may_tolerance(self, table, key) -> bool:
         return ((table or "").split(".")[0], key) in _TOLERABLE
 
-    def tolerance_problem(self, tol, table, key) -> str | None:
-        problem = super().tolerance_problem(tol, table, key)
-        if problem is None and key in _POSITIVE and tol.spread[0] <= 0:
-            problem = (f"{key} could fall to or below absolute zero" if key.startswith("temp")
-                       else f"{key} could fall to zero or below")
-        return problem
+    POSITIVE = _POSITIVE
 
     def _tolerance_path(self, table, index, key, place, item):
         """``bolt.length``, ``clamped.<name>.thickness``, ``service.<name>.external_load``,
