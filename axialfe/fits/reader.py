@@ -17,7 +17,7 @@ from pathlib import Path
 
 from ..errors import ModelError, suggest
 from ..io.modelfile import _Reader, builtin_materials
-from ..tolerance.inputs import Tolerance, Toleranced, is_toleranced
+from ..model.tolerances import Tolerance, Toleranced, is_toleranced
 from ..units import split_quantity
 from . import iso286
 from .fit import DEFAULT_TEMPERATURE, FitUnits, PressFit, ServiceState

@@ -22,7 +22,7 @@ from ..errors import ModelError, suggest
 from ..model.parts import BEHAVIOURS, MODULUS_AT
 from ..model import (Case, CheckSettings, Combination, Gap, Limit, Load, Material,
                     Model, Project, Section, Segment, Station, Support)
-from ..tolerance.inputs import Toleranced, is_toleranced, parse_tolerance
+from ..model.tolerances import Toleranced, is_toleranced, parse_tolerance
 from ..units import OutputUnits, parse_quantity, split_quantity
 from . import schema
 from .physical import check_absolute_temperatures, check_segment_lengths

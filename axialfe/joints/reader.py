@@ -16,7 +16,7 @@ from ..errors import ModelError, UnitError, suggest
 from ..formatting import number
 from ..io.modelfile import _Reader, builtin_materials
 from ..io.source import decode, read_text
-from ..tolerance.inputs import Toleranced, is_toleranced
+from ..model.tolerances import Toleranced, is_toleranced
 from ..units import OutputUnits, split_quantity, unit_base
 from .grades import bolting_steel, iso_class, sae_grade
 from .joint import ASSEMBLY, BOLT, Joint, Part, Service

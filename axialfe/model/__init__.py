@@ -7,7 +7,9 @@
 - ``cases``: the one rule of what each case and combination puts on the model,
   as arrays (``LoadState``);
 - ``temperature``: a model's tables against temperature evaluated at each
-  segment's temperature in a case.
+  segment's temperature in a case;
+- ``tolerances``: the toleranced value forms of an input file, read strictly
+  into ``Tolerance``, and ``Toleranced``, what a reader records of one.
 
 This floor imports only ``errors``, ``units`` and ``mechanics``.
 """

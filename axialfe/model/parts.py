@@ -672,7 +672,7 @@ class Model:
         model read with ``symbolic=True`` holds sympy expressions of them in
         place of floats; the checks above skip values that are not floats.
     tolerances : tuple of Toleranced
-        The toleranced inputs the reader found (:mod:`axialfe.tolerance.inputs`):
+        The toleranced inputs the reader found (:mod:`axialfe.model.tolerances`):
         plain data; the model itself holds their nominal values.
 
     Raises
@@ -702,7 +702,7 @@ class Model:
     # closed form: the declared symbols (axialfe.expressions.SymbolDef), in file order
     symbols: tuple = ()
     project: Project | None = None
-    # toleranced inputs as the reader found them (axialfe.tolerance.Toleranced), plain data
+    # toleranced inputs as the reader found them (axialfe.model.tolerances.Toleranced), plain data
     tolerances: tuple = field(default=(), compare=False, repr=False)
 
     def __post_init__(self):

@@ -28,8 +28,8 @@ import numpy as np
 
 from ..errors import ModelError
 from ..engine.system import solve as solve_model
+from ..model.tolerances import CUT
 from .batch import Batch
-from .inputs import CUT
 
 __all__ = ["OutputSet", "Study", "run_study", "wilson", "MAX_VERTEX_INPUTS", "PERCENTILES"]
 
